@@ -1,3 +1,253 @@
 // Table interfaces for the star schema (dimensions dim_*, facts fact_*, ETL bookkeeping etl_*).
-// Filled in by the warehouse migrations; keep in step with migrations/.
-export interface WarehouseTables {}
+// Kept in step with migrations/0002_create_warehouse.ts. Driver types (server/db/database.ts):
+// numeric → string, bigint → number, date → 'YYYY-MM-DD' string, timestamptz → Date.
+import type { ColumnType, Generated } from "kysely";
+
+/** pg numeric arrives as a string; accept numbers on write. */
+type Numeric = ColumnType<string, string | number, string | number>;
+type NullableNumeric = ColumnType<string | null, string | number | null | undefined, string | number | null>;
+/** Columns computed by PostgreSQL (GENERATED ALWAYS … STORED): readable, never written. */
+type Computed<T> = ColumnType<T, never, never>;
+
+export type ExportKindColumn = "machines" | "jobs" | "measurements" | "weather" | "hours";
+export type BatchStatus = "running" | "loaded" | "already_loaded" | "failed";
+export type HourSource = "delivery" | "ro" | "pm" | "telematics" | "registry";
+export type MeasurementKindColumn = "compression" | "plug_resistance" | "rail_voltage" | "battery_voltage";
+
+export interface EtlBatchTable {
+  batch_id: Generated<number>;
+  file_name: string;
+  sha256: string;
+  profile: string;
+  kind: ExportKindColumn;
+  shop_code: string | null;
+  loaded_by: string;
+  started_at: ColumnType<Date, Date | undefined, Date>;
+  finished_at: Date | null;
+  rows_read: Generated<number>;
+  rows_inserted: Generated<number>;
+  rows_updated: Generated<number>;
+  rows_unchanged: Generated<number>;
+  rows_rejected: Generated<number>;
+  status: Generated<BatchStatus>;
+  error_message: string | null;
+}
+
+export interface EtlRejectTable {
+  batch_id: number;
+  row_number: number;
+  raw_row: unknown;
+  reason_code: string;
+  reason: string;
+}
+
+export interface DimDateTable {
+  date: string;
+  iso_year: number;
+  iso_week: number;
+  year: number;
+  quarter: number;
+  month: number;
+  /** 'YYYY-MM' */
+  month_label: string;
+  /** ISO day of week, 1 = Monday */
+  day_of_week: number;
+  /** July–June season, e.g. '2022–23' (en dash) */
+  winter_season: string;
+}
+
+export interface DimShopTable {
+  shop_key: number;
+  shop_code: string;
+  name: string;
+  region: string | null;
+  town: string | null;
+  lat: number | null;
+  lon: number | null;
+  climate_zone: string | null;
+  time_zone: string | null;
+  weather_station: string | null;
+  export_profile: string | null;
+}
+
+export interface DimComponentTable {
+  component_key: number;
+  component_code: string;
+  name: string;
+  system: string;
+  assembly: string;
+  cold_start_aid: Generated<boolean>;
+}
+
+export interface DimFailureModeTable {
+  failure_mode_key: number;
+  failure_mode_code: string;
+  name: string;
+}
+
+export interface DimFmiTable {
+  fmi: number;
+  meaning: string;
+}
+
+export interface DimMachineTable {
+  machine_key: number;
+  serial: string;
+  model_code: string;
+  model_line: string;
+  engine_family: string;
+  cold_start_aid: "glow_plugs" | "grid_heater" | "none";
+  engine_serial: string | null;
+  build_date: string | null;
+  delivery_date: string | null;
+  delivery_hours: NullableNumeric;
+  home_shop_key: number | null;
+  heater_plug_lot: string | null;
+  block_heater_fitted: Generated<boolean>;
+  block_heater_date: string | null;
+  warranty_base_months: number | null;
+  warranty_base_hours: number | null;
+  warranty_engine_months: number | null;
+  warranty_engine_hours: number | null;
+  row_hash: string;
+  batch_id: number;
+}
+
+export interface DimTechnicianTable {
+  technician_key: number;
+  shop_key: number;
+  tech_id: string;
+  display_name: string;
+}
+
+export interface DimPartTable {
+  part_key: number;
+  part_number: string;
+  supplier_lot: Generated<string>;
+  description: string | null;
+  supplier: string | null;
+}
+
+export interface FactRepairLineTable {
+  repair_line_key: number;
+  shop_key: number;
+  ro_number: string;
+  line_no: number;
+  machine_key: number;
+  component_key: number;
+  failure_mode_key: number | null;
+  technician_key: number | null;
+  part_key: number | null;
+  opened_date: string;
+  closed_date: string | null;
+  hour_meter: NullableNumeric;
+  meter_note: string | null;
+  complaint: string | null;
+  cause: string | null;
+  correction: string | null;
+  labor_op: string | null;
+  standard_hours: NullableNumeric;
+  labor_hours: NullableNumeric;
+  parts_cost: NullableNumeric;
+  labor_cost: NullableNumeric;
+  pay_type: "customer" | "warranty" | "internal" | "goodwill";
+  is_warranty: Computed<boolean>;
+  line_type: "failure" | "pm" | "return_for_parts" | "install";
+  part_number: string | null;
+  part_description: string | null;
+  part_qty: NullableNumeric;
+  supplier_lot: string | null;
+  part_ordered_date: string | null;
+  part_received_date: string | null;
+  back_ordered: Generated<boolean>;
+  /** part_received_date − part_ordered_date, in calendar days */
+  parts_wait_days: Computed<number | null>;
+  fault_codes_raw: string | null;
+  ambient_temp_c: NullableNumeric;
+  row_hash: string;
+  first_batch_id: number;
+  batch_id: number;
+}
+
+export interface FactRepairLineHistoryTable {
+  history_id: Generated<number>;
+  repair_line_key: number;
+  /** the fact row as it was before the correcting batch, as JSON */
+  prior_row: unknown;
+  prior_batch_id: number;
+  replaced_by_batch: number;
+  replaced_at: ColumnType<Date, Date | undefined, Date>;
+}
+
+export interface FactFaultCodeTable {
+  repair_line_key: number;
+  spn: number;
+  fmi: number;
+  occurrences: Generated<number>;
+}
+
+export interface FactMeasurementTable {
+  measurement_key: number;
+  repair_line_key: number;
+  machine_key: number;
+  shop_key: number;
+  measured_date: string;
+  kind: MeasurementKindColumn;
+  /** cylinder or plug number; 0 when the reading has no position */
+  position: Generated<number>;
+  attempt: Generated<number>;
+  /** canonical unit per kind (psi, ohm, V); null only when over_range */
+  value: NullableNumeric;
+  unit: string;
+  /** the meter showed over-limit ("OL"): open circuit for resistance */
+  over_range: Generated<boolean>;
+  raw_value: string;
+  raw_unit: string | null;
+  conversion_rule: string;
+  row_hash: string;
+  batch_id: number;
+}
+
+export interface FactHourReadingTable {
+  hour_reading_key: number;
+  machine_key: number;
+  reading_date: string;
+  hours: Numeric;
+  source: HourSource;
+  repair_line_key: number | null;
+  meter_change: Generated<boolean>;
+  meter_note: string | null;
+  valid: Generated<boolean>;
+  invalid_reason: string | null;
+  row_hash: string;
+  batch_id: number;
+}
+
+export interface FactWeatherDayTable {
+  shop_key: number;
+  date: string;
+  tmin_c: Numeric;
+  tmax_c: NullableNumeric;
+  source_unit: "C" | "F";
+  row_hash: string;
+  batch_id: number;
+}
+
+export interface WarehouseTables {
+  etl_batch: EtlBatchTable;
+  etl_reject: EtlRejectTable;
+  dim_date: DimDateTable;
+  dim_shop: DimShopTable;
+  dim_component: DimComponentTable;
+  dim_failure_mode: DimFailureModeTable;
+  dim_fmi: DimFmiTable;
+  dim_machine: DimMachineTable;
+  dim_technician: DimTechnicianTable;
+  dim_part: DimPartTable;
+  fact_repair_line: FactRepairLineTable;
+  fact_repair_line_history: FactRepairLineHistoryTable;
+  fact_fault_code: FactFaultCodeTable;
+  fact_measurement: FactMeasurementTable;
+  fact_hour_reading: FactHourReadingTable;
+  fact_weather_day: FactWeatherDayTable;
+}
