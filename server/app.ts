@@ -1,0 +1,82 @@
+import express from "express";
+import helmet from "helmet";
+import { pinoHttp } from "pino-http";
+import path from "node:path";
+import { existsSync } from "node:fs";
+import type pg from "pg";
+import type { Db } from "./db/database.js";
+import { logger } from "./logger.js";
+import { apiNotFound, errorHandler, requestId } from "./middleware/error-handler.js";
+import { createSessionMiddleware } from "./auth/session.js";
+import { authRoutes } from "./auth/routes.js";
+import type { OidcClient } from "./auth/oidc-client.js";
+import { upsertUser } from "./db/queries/users.js";
+import { healthRoutes } from "./routes/health.js";
+import { meRoutes } from "./routes/me.js";
+import { adminUserRoutes } from "./routes/admin-users.js";
+import { apiRoutes } from "./routes/index.js";
+
+export interface AppDeps {
+  db: Db;
+  pool: pg.Pool;
+  publicUrl: string;
+  sessionSecret: string;
+  oidc: OidcClient;
+  issuer: string;
+  scopes: string;
+  rolesClaim: string;
+  shopsClaim: string;
+  /** folder of the built client (dist/); omitted in API-only tests */
+  staticDir?: string;
+}
+
+/** Builds the Express app without listening: index.ts and the tests both use it. */
+export function createApp(d: AppDeps): express.Express {
+  const app = express();
+  const secure = d.publicUrl.startsWith("https:");
+  app.disable("x-powered-by");
+  if (secure) app.set("trust proxy", 1);
+  app.use(requestId);
+  app.use(pinoHttp({ logger, genReqId: (_req, res) => res.getHeader("x-request-id") as string, autoLogging: { ignore: (req) => req.url === "/api/health" } }));
+  app.use(
+    helmet({
+      contentSecurityPolicy: {
+        directives: {
+          "upgrade-insecure-requests": secure ? [] : null,
+          "form-action": ["'self'", new URL(d.issuer).origin],
+          "img-src": ["'self'", "data:", "blob:"],
+        },
+      },
+      strictTransportSecurity: secure,
+    }),
+  );
+  app.use(express.json({ limit: "1mb" }));
+  app.use(createSessionMiddleware(d.pool, d.sessionSecret, secure));
+
+  app.use(
+    "/auth",
+    express.urlencoded({ extended: false }),
+    authRoutes({
+      oidc: d.oidc,
+      publicUrl: d.publicUrl,
+      scopes: d.scopes,
+      rolesClaim: d.rolesClaim,
+      shopsClaim: d.shopsClaim,
+      onSignIn: (u) => upsertUser(d.db, u),
+    }),
+  );
+
+  app.use("/api/health", healthRoutes(d.db));
+  app.use("/api/me", meRoutes());
+  app.use("/api/admin/users", adminUserRoutes(d.db));
+  app.use("/api", apiRoutes(d.db));
+  app.use("/api", apiNotFound);
+
+  if (d.staticDir && existsSync(path.join(d.staticDir, "index.html"))) {
+    const dir = d.staticDir;
+    app.use(express.static(dir, { index: false, maxAge: "1h" }));
+    app.get("/{*splat}", (_req, res) => res.sendFile(path.join(dir, "index.html")));
+  }
+  app.use(errorHandler);
+  return app;
+}

@@ -1,0 +1,111 @@
+import path from "node:path";
+import type { Server } from "node:http";
+import type { Config } from "./config.js";
+import { projectRoot } from "./config.js";
+import { createDb, type Db } from "./db/database.js";
+import { migrateToLatest } from "./db/migrate.js";
+import { loadOrCreateSecrets } from "./secrets.js";
+import { createDevProvider, listen } from "./auth/dev-provider.js";
+import { createOidcClient } from "./auth/oidc-client.js";
+import { createApp } from "./app.js";
+import { startSmtpFake } from "./dev/smtp-fake.js";
+import { startS3Fake } from "./dev/s3-fake.js";
+import { createStorage, type Storage } from "./services/storage.js";
+import { createMailer, type Mailer } from "./services/mailer.js";
+import { logger } from "./logger.js";
+import type pg from "pg";
+
+export interface Stack {
+  db: Db;
+  pool: pg.Pool;
+  url: string;
+  issuer: string;
+  storage: Storage;
+  mailer: Mailer;
+  mailDir: string | null;
+  close(): Promise<void>;
+}
+
+const closeServer = (s: Server) =>
+  new Promise<void>((resolve) => {
+    s.close(() => resolve());
+    s.closeAllConnections?.();
+  });
+
+/**
+ * Starts everything the product needs on loopback: the local identity provider, SMTP and S3 fakes
+ * (each only when no real service is configured), migrates the database and serves app + API.
+ */
+export async function startStack(config: Config, opts: { staticDir?: string } = {}): Promise<Stack> {
+  const closers: (() => Promise<void>)[] = [];
+  const closeAll = async () => {
+    for (const c of closers.reverse()) await c().catch((err) => logger.warn({ err }, "shutdown step failed"));
+  };
+  try {
+    const secrets = loadOrCreateSecrets(config.dataDir);
+    const { db, pool } = createDb(config.databaseUrl);
+    closers.push(() => db.destroy());
+    await migrateToLatest(db);
+
+    let issuer = config.oidc.issuer;
+    let clientSecret = config.oidc.clientSecret;
+    if (!issuer) {
+      issuer = `http://127.0.0.1:${config.oidc.localPort}`;
+      clientSecret = secrets.clientSecret;
+      const provider = createDevProvider({
+        issuer,
+        clientId: config.oidc.clientId,
+        clientSecret,
+        redirectUris: [`${config.publicUrl}/auth/callback`],
+        postLogoutRedirectUris: [`${config.publicUrl}/signed-out`],
+        signingKey: secrets.signingKey,
+        cookieKeys: secrets.providerCookieKeys,
+      });
+      const server = await listen(provider, config.oidc.localPort);
+      closers.push(() => closeServer(server));
+    }
+    if (!clientSecret) throw new Error("OIDC_CLIENT_SECRET is required when OIDC_ISSUER is set");
+
+    let mailDir: string | null = null;
+    let smtpHost = config.smtp.host;
+    let smtpPort = config.smtp.port;
+    if (!smtpHost) {
+      mailDir = path.join(config.dataDir, "mail");
+      const smtp = await startSmtpFake(config.smtp.localPort, mailDir);
+      closers.push(smtp.close);
+      smtpHost = "127.0.0.1";
+      smtpPort = config.smtp.localPort;
+    }
+    const mailer = createMailer(smtpHost, smtpPort ?? 25, config.smtp.from);
+    closers.push(async () => mailer.transport.close());
+
+    let s3 = config.s3;
+    if (!s3.endpoint) {
+      const fake = await startS3Fake(s3.localPort, path.join(config.dataDir, "objects"), s3.bucket);
+      closers.push(fake.close);
+      s3 = { ...s3, endpoint: fake.endpoint, accessKeyId: secrets.s3AccessKeyId, secretAccessKey: secrets.s3SecretAccessKey };
+    }
+    const storage = createStorage(s3);
+    await storage.ensureBucket();
+
+    const app = createApp({
+      db,
+      pool,
+      publicUrl: config.publicUrl,
+      sessionSecret: secrets.sessionSecret,
+      oidc: createOidcClient({ issuer, clientId: config.oidc.clientId, clientSecret }),
+      issuer,
+      scopes: config.oidc.scopes,
+      rolesClaim: config.oidc.rolesClaim,
+      shopsClaim: config.oidc.shopsClaim,
+      staticDir: opts.staticDir ?? path.join(projectRoot, "dist"),
+    });
+    const server = await listen(app, config.port, config.host);
+    closers.push(() => closeServer(server));
+
+    return { db, pool, url: config.publicUrl, issuer, storage, mailer, mailDir, close: closeAll };
+  } catch (err) {
+    await closeAll();
+    throw err;
+  }
+}

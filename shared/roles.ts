@@ -1,0 +1,16 @@
+import { z } from "zod";
+
+export const roleSchema = z.enum(["admin", "analyst", "director", "manager", "clerk"]);
+export type Role = z.infer<typeof roleSchema>;
+export const allRoles = roleSchema.options;
+
+export const roleLabels: Record<Role, string> = {
+  admin: "Administrator",
+  analyst: "Group analyst",
+  director: "Service director",
+  manager: "Shop manager",
+  clerk: "Warranty clerk",
+};
+
+/** Roles whose shop scope is the whole group; a manager is limited to the shops named in their claim. */
+export const groupWideRoles: readonly Role[] = ["admin", "analyst", "director", "clerk"];

@@ -1,0 +1,17 @@
+import type { Role } from "@shared/roles";
+
+export interface NavItem {
+  to: string;
+  label: string;
+  roles: readonly Role[];
+}
+
+/** Navigation shaped by role: a role sees only the pages it may use (the server enforces the same). */
+export const navItems: readonly NavItem[] = [
+  { to: "/", label: "Overview", roles: ["admin", "analyst", "director", "manager", "clerk"] },
+  { to: "/admin/users", label: "Users", roles: ["admin"] },
+];
+
+export function navFor(roles: readonly Role[]): NavItem[] {
+  return navItems.filter((n) => n.roles.some((r) => roles.includes(r)));
+}

@@ -1,0 +1,28 @@
+import { createBrowserRouter, type RouteObject } from "react-router-dom";
+import type { QueryClient } from "@tanstack/react-query";
+import { Layout } from "./layout";
+import { RouteError } from "@/routes/route-error";
+import { SignedOutRoute } from "@/routes/sign-in";
+import { meQueries } from "@/features/session/api/me-queries";
+
+export function routes(qc: QueryClient): RouteObject[] {
+  return [
+    { path: "/signed-out", element: <SignedOutRoute />, errorElement: <RouteError /> },
+    {
+      path: "/",
+      element: <Layout />,
+      errorElement: <RouteError />,
+      loader: async () => {
+        await qc.ensureQueryData(meQueries.current());
+        return null;
+      },
+      children: [
+        { index: true, lazy: () => import("@/routes/overview") },
+        { path: "admin/users", lazy: () => import("@/routes/admin-users") },
+        { path: "*", lazy: () => import("@/routes/not-found") },
+      ],
+    },
+  ];
+}
+
+export const createRouter = (qc: QueryClient) => createBrowserRouter(routes(qc));
