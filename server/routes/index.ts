@@ -1,8 +1,10 @@
 import { Router } from "express";
 import type { Db } from "../db/database.js";
+import { shopRoutes } from "./shops.js";
 
 /** Mounts the resource routers under /api. Each router declares its roles with allow(). */
-export function apiRoutes(_db: Db): Router {
+export function apiRoutes(db: Db): Router {
   const router = Router();
+  router.use("/shops", shopRoutes(db));
   return router;
 }

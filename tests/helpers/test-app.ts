@@ -1,0 +1,61 @@
+import { createHmac, randomBytes } from "node:crypto";
+import { createApp } from "../../server/app.js";
+import { createOidcClient } from "../../server/auth/oidc-client.js";
+import { freshTestDb, type TestDb } from "./test-db.js";
+import type { Role } from "../../shared/roles.js";
+import type { Db } from "../../server/db/database.js";
+
+const SESSION_SECRET = "test-session-secret";
+
+export interface TestApp extends TestDb {
+  app: ReturnType<typeof createApp>;
+  /** A session cookie for a user with these roles and shops, stored the way express-session stores it. */
+  signInAs(user: { roles: Role[]; shops?: string[]; sub?: string; name?: string }): Promise<string>;
+}
+
+/** createApp over a fresh migrated database; sign-in goes through a stored session (tests/e2e walks real OIDC). */
+export async function testApp(): Promise<TestApp> {
+  const tdb = await freshTestDb();
+  const issuer = "http://127.0.0.1:9"; // never contacted by API tests
+  const app = createApp({
+    db: tdb.db,
+    pool: tdb.pool,
+    publicUrl: "http://127.0.0.1:8080",
+    sessionSecret: SESSION_SECRET,
+    oidc: createOidcClient({ issuer, clientId: "test", clientSecret: "test" }),
+    issuer,
+    scopes: "openid",
+    rolesClaim: "roles",
+    shopsClaim: "shops",
+  });
+  return {
+    ...tdb,
+    app,
+    async signInAs(user) {
+      const sid = randomBytes(16).toString("hex");
+      const expires = new Date(Date.now() + 3600_000);
+      const sess = {
+        cookie: { originalMaxAge: 3600_000, expires: expires.toISOString(), httpOnly: true, path: "/", sameSite: "lax", secure: false },
+        user: {
+          sub: user.sub ?? `test-${sid.slice(0, 6)}`,
+          name: user.name ?? "Test User",
+          email: null,
+          roles: user.roles,
+          shops: user.shops ?? [],
+        },
+      };
+      await tdb.db.insertInto("app_session").values({ sid, sess: JSON.stringify(sess), expire: expires }).execute();
+      // cookie-signature's format: "s:" + value + "." + base64(HMAC-SHA256) without padding
+      const mac = createHmac("sha256", SESSION_SECRET).update(sid).digest("base64").replace(/=+$/, "");
+      return `ironledger.sid=${encodeURIComponent(`s:${sid}.${mac}`)}`;
+    },
+  };
+}
+
+/** Two shops for scope tests (invented). */
+export async function seedShops(db: Db, shops: { code: string; name: string }[]): Promise<void> {
+  await db
+    .insertInto("dim_shop")
+    .values(shops.map((s, i) => ({ shop_key: 1000 + i, shop_code: s.code, name: s.name, region: null, town: null, lat: null, lon: null, climate_zone: null, time_zone: null, weather_station: null, export_profile: null })))
+    .execute();
+}
