@@ -51,20 +51,3 @@ export function binomialPmf(r: number, n: number, p: number): number {
     jStat.gammaln(n + 1) - jStat.gammaln(r + 1) - jStat.gammaln(n - r + 1) + r * Math.log(p) + (n - r) * Math.log1p(-p);
   return Math.exp(logPmf);
 }
-
-/**
- * Binomial CDF P(R ≤ r) for R ~ Bin(n, p), summing {@link binomialPmf} over the shorter tail. (jStat's own
- * binomial CDF rounds to 1e-10 and its incomplete beta stops at ~1e-10, too coarse for funnel interpolation.)
- */
-export function binomialCdf(r: number, n: number, p: number): number {
-  if (r < 0) return 0;
-  if (r >= n) return 1;
-  const k = Math.floor(r);
-  let sum = 0;
-  if (k < n * p) {
-    for (let j = 0; j <= k; j++) sum += binomialPmf(j, n, p);
-    return Math.min(1, sum);
-  }
-  for (let j = k + 1; j <= n; j++) sum += binomialPmf(j, n, p);
-  return Math.max(0, 1 - sum);
-}

@@ -12,8 +12,6 @@ declare module "jstat" {
       cdf(x: number, dof: number): number;
       inv(p: number, dof: number): number;
     };
-    /** Regularised incomplete beta I_x(a, b). */
-    ibeta(x: number, a: number, b: number): number;
     /** Regularised lower incomplete gamma P(a, x). */
     lowRegGamma(a: number, x: number): number;
     /** ln Γ(x). */
