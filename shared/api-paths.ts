@@ -2,6 +2,7 @@
 export const apiPaths = {
   health: () => "/api/health",
   me: () => "/api/me",
+  session: () => "/auth/session",
   adminUsers: () => "/api/admin/users",
   shops: () => "/api/shops",
   login: (returnTo?: string) => (returnTo ? `/auth/login?returnTo=${encodeURIComponent(returnTo)}` : "/auth/login"),

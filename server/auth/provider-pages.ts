@@ -7,6 +7,7 @@ const esc = (s: string) =>
 const shell = (title: string, body: string) => `<!doctype html>
 <html lang="en"><head><meta charset="utf-8"><meta name="viewport" content="width=device-width,initial-scale=1">
 <title>${esc(title)} · Ironledger sign-in</title>
+<link rel="icon" href="data:,">
 <style>
   :root { --ink:#1d2430; --paper:#f4f2ec; --slate:#3d4a5c; --teal:#1f6f78; --line:#d6d2c6; }
   * { box-sizing: border-box; }

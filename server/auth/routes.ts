@@ -5,6 +5,7 @@ import { logger } from "../logger.js";
 import type { OidcClient } from "./oidc-client.js";
 import { userFromClaims } from "./claims.js";
 import type { SessionUser } from "./session.js";
+import { scopeFor } from "./require-user.js";
 
 export interface AuthRouteOptions {
   oidc: OidcClient;
@@ -76,6 +77,12 @@ export function authRoutes(o: AuthRouteOptions): Router {
     await save(req);
     await o.onSignIn?.(user);
     res.redirect(303, pending.returnTo);
+  });
+
+  /** GET /auth/session: 200 with the signed-in user or null, so the client can check without a 401. */
+  router.get("/session", (req, res) => {
+    const u = req.session?.user;
+    res.json({ user: u ? { sub: u.sub, name: u.name, email: u.email, roles: u.roles, scope: scopeFor(u) } : null });
   });
 
   router.post("/logout", async (req, res) => {

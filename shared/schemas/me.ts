@@ -17,3 +17,6 @@ export const meSchema = z.object({
 export type Me = z.infer<typeof meSchema>;
 
 export const healthSchema = z.object({ status: z.enum(["ok", "unavailable"]) });
+
+/** GET /auth/session */
+export const sessionStateSchema = z.object({ user: meSchema.nullable() });
