@@ -1,7 +1,15 @@
-import { loadConfig } from "./config.js";
-import { startStack } from "./stack.js";
-import { demoAccounts, DEMO_PASSWORD } from "./auth/demo-accounts.js";
-import { logger } from "./logger.js";
+export {};
+// The AWS SDK warns at load time that releases after January 2027 need Node 22; the pinned release works on 20.
+const emit = process.emitWarning.bind(process);
+process.emitWarning = ((w: string | Error, ...rest: unknown[]) => {
+  const text = typeof w === "string" ? w : w.message;
+  if (/AWS SDK for JavaScript/.test(text)) return;
+  (emit as (...a: unknown[]) => void)(w, ...rest);
+}) as typeof process.emitWarning;
+const { loadConfig } = await import("./config.js");
+const { startStack } = await import("./stack.js");
+const { demoAccounts, DEMO_PASSWORD } = await import("./auth/demo-accounts.js");
+const { logger } = await import("./logger.js");
 
 const config = loadConfig();
 const stack = await startStack(config);
