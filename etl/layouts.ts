@@ -20,7 +20,7 @@ export const layouts = {
   ],
   measurements: ["shop_code", "ro_number", "line_no", "kind", "position", "attempt", "value", "unit"],
   weather: ["shop_code", "date", "tmin", "tmax"],
-  hours: ["serial", "reading_date", "hours", "source"],
+  hours: ["serial", "reading_date", "hours", "source", "meter_note"],
 } as const satisfies Record<ExportKind, readonly string[]>;
 
 export type CanonicalColumn<K extends ExportKind> = (typeof layouts)[K][number];

@@ -217,6 +217,8 @@ export interface FactHourReadingTable {
   repair_line_key: number | null;
   meter_change: Generated<boolean>;
   meter_note: string | null;
+  /** 0 until the first meter replacement, then 1, 2, … */
+  meter_generation: Generated<number>;
   valid: Generated<boolean>;
   invalid_reason: string | null;
   row_hash: string;

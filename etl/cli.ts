@@ -1,0 +1,78 @@
+import { Command, InvalidArgumentError } from "commander";
+import cliProgress from "cli-progress";
+import os from "node:os";
+import pg from "pg";
+import { EtlFatalError } from "./errors.js";
+import { loadFile, type BatchSummary, type LoadProgress } from "./load/load-file.js";
+import { exportKindSchema, type ExportKind } from "./profiles/profile-schema.js";
+
+// A thin shell over etl/load/load-file.ts: parse arguments, load each file, print progress and a summary.
+
+const defaultUrl = () => process.env.DATABASE_URL ?? `postgres://postgres@127.0.0.1:${process.env.PGPORT ?? "54329"}/ironledger`;
+
+function parseKind(v: string): ExportKind {
+  const r = exportKindSchema.safeParse(v);
+  if (!r.success) throw new InvalidArgumentError(`kind must be one of ${exportKindSchema.options.join(", ")}`);
+  return r.data;
+}
+
+function summaryLine(s: BatchSummary): string {
+  const note = s.status === "already_loaded" ? " (file already loaded: nothing changed)" : "";
+  return `${s.file}: ${s.kind} via ${s.profile}: read ${s.read}, inserted ${s.inserted}, updated ${s.updated}, unchanged ${s.unchanged}, rejected ${s.rejected}${note}`;
+}
+
+async function load(files: string[], o: { kind?: ExportKind; profile?: string; shop?: string; json?: boolean }): Promise<number> {
+  const pool = new pg.Pool({ connectionString: defaultUrl(), max: 2 });
+  const tty = !o.json && process.stderr.isTTY;
+  const loadedBy = `cli:${os.userInfo().username}`;
+  try {
+    for (const file of files) {
+      const bar = tty ? new cliProgress.SingleBar({ format: `${file} [{bar}] {percentage}% | {rows} rows | {rate} rows/s | {phase}`, stream: process.stderr }, cliProgress.Presets.shades_classic) : null;
+      const t0 = Date.now();
+      let lastJson = 0;
+      const onProgress = (p: LoadProgress) => {
+        const rate = Math.round(p.rowsRead / Math.max((Date.now() - t0) / 1000, 0.001));
+        if (bar) {
+          if (p.phase === "reading" && !bar.isActive) bar.start(p.totalBytes, 0, { rows: 0, rate: 0, phase: "reading" });
+          bar.update(p.phase === "reading" ? p.bytesRead : p.totalBytes, { rows: p.rowsRead, rate, phase: p.phase });
+        } else if (o.json && (p.phase !== "reading" || Date.now() - lastJson > 1000)) {
+          lastJson = Date.now();
+          process.stdout.write(JSON.stringify({ event: "progress", file, ...p, rowsPerSecond: rate }) + "\n");
+        }
+      };
+      try {
+        const s = await loadFile(pool, { path: file, kind: o.kind, profile: o.profile, shop: o.shop, loadedBy, onProgress });
+        bar?.stop();
+        if (o.json) {
+          const { file: _f, kind, profile, read, inserted, updated, unchanged, rejected, ...rest } = s;
+          process.stdout.write(JSON.stringify({ event: "summary", file, kind, profile, read, inserted, updated, unchanged, rejected, ...rest }) + "\n");
+        } else {
+          process.stdout.write(summaryLine(s) + "\n");
+        }
+      } catch (e) {
+        bar?.stop();
+        const message = e instanceof EtlFatalError ? e.message : `load failed, nothing of this file was kept: ${(e as Error).message}`;
+        if (o.json) process.stdout.write(JSON.stringify({ event: "error", file, message }) + "\n");
+        process.stderr.write(`${file}: ${message}\n`);
+        return 1;
+      }
+    }
+    return 0;
+  } finally {
+    await pool.end();
+  }
+}
+
+const program = new Command("etl").description("Load shop exports into the Ironledger warehouse");
+program
+  .command("load")
+  .argument("<file...>", "CSV exports, loaded in the order given (machines before jobs before measurements)")
+  .option("--kind <kind>", "export kind: machines, jobs, measurements, weather or hours", parseKind)
+  .option("--profile <id>", "mapping profile (etl/profiles/<id>.json); detected from the header when omitted")
+  .option("--shop <code>", "shop code for exports that have no shop column")
+  .option("--json", "print one JSON object per line instead of a progress bar")
+  .action(async (files: string[], o) => {
+    process.exitCode = await load(files, o);
+  });
+
+await program.parseAsync(process.argv);

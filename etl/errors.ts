@@ -1,0 +1,13 @@
+/**
+ * A problem with a whole file (unreadable, unknown profile, wrong kind, header not recognised). Nothing of
+ * the file is loaded; the message is one line a shop manager can act on.
+ */
+export class EtlFatalError extends Error {
+  constructor(
+    readonly code: "FILE_UNREADABLE" | "UNKNOWN_PROFILE" | "WRONG_KIND" | "HEADER_NOT_RECOGNISED" | "AMBIGUOUS_PROFILE" | "UNKNOWN_SHOP",
+    message: string,
+  ) {
+    super(message);
+    this.name = "EtlFatalError";
+  }
+}

@@ -1,0 +1,71 @@
+import type pg from "pg";
+import { fmtSql } from "./merge-common.js";
+
+/**
+ * Hour-meter checks for the readings a file brings (jobs: one per repair-order line; hours exports).
+ * Readings of one machine are put in date order together with the warehouse's valid readings. A reading
+ * with a meter note (a replaced or reset meter) starts a new meter generation and is compared only within it.
+ * - A reading more than 2 h [C] below the highest earlier-dated reading of its generation is rejected.
+ * - A rise of more than 24 h per calendar day over the previous reading is kept but marked invalid.
+ * Results land in the temp table hr_out (row_no, machine_key, generation, valid, invalid_reason).
+ */
+export const BACKWARDS_TOLERANCE_H = 2;
+export const MAX_HOURS_PER_DAY = 24;
+
+export interface ReadingSpec {
+  dateCol: string;
+  hoursCol: string;
+  /** SQL over stg s: the text whose wh_key is the reading's fact_hour_reading key */
+  keyText: string;
+}
+
+export async function checkHourReadings(client: pg.PoolClient, spec: ReadingSpec): Promise<void> {
+  await client.query(`
+    CREATE TEMP TABLE hr ON COMMIT DROP AS
+    WITH file_r AS (
+      SELECT s.row_no, m.machine_key, s.${spec.dateCol} AS d, s.${spec.hoursCol} AS h, s.meter_change AS mc,
+             wh_key(${spec.keyText}) AS rk
+      FROM stg s JOIN dim_machine m ON m.serial = s.serial
+      WHERE s.reject_code IS NULL AND s.${spec.hoursCol} IS NOT NULL
+    ),
+    wh_r AS (
+      SELECT r.machine_key, r.reading_date AS d, r.hours AS h, r.meter_change AS mc, NULL::integer AS row_no
+      FROM fact_hour_reading r
+      WHERE r.valid AND r.machine_key IN (SELECT machine_key FROM file_r)
+        AND NOT EXISTS (SELECT 1 FROM file_r f WHERE f.rk = r.hour_reading_key)
+    ),
+    all_r AS (SELECT machine_key, d, h, mc, row_no FROM file_r UNION ALL SELECT machine_key, d, h, mc, row_no FROM wh_r),
+    g AS (
+      SELECT *, sum(mc::int) OVER (PARTITION BY machine_key ORDER BY d, row_no NULLS FIRST ROWS UNBOUNDED PRECEDING) AS gen
+      FROM all_r
+    )
+    SELECT *, max(h) OVER (PARTITION BY machine_key, gen ORDER BY d RANGE BETWEEN UNBOUNDED PRECEDING AND '1 day' PRECEDING) AS prior_max
+    FROM g`);
+
+  await client.query(`
+    UPDATE stg s SET reject_code = 'hour_meter_backwards',
+      reject_reason = format('hour meter %s h is lower than the %s h recorded for this machine on %s; if the meter was replaced, say so in the meter note',
+        ${fmtSql("x.h")}, ${fmtSql("x.prior_max")}, x.prior_date)
+    FROM (
+      SELECT b.row_no, b.h, b.prior_max,
+        (SELECT max(o.d) FROM hr o WHERE o.machine_key = b.machine_key AND o.gen = b.gen AND o.d < b.d AND o.h = b.prior_max) AS prior_date
+      FROM hr b WHERE b.row_no IS NOT NULL AND b.prior_max > b.h + ${BACKWARDS_TOLERANCE_H}
+    ) x
+    WHERE s.row_no = x.row_no`);
+
+  await client.query(`
+    CREATE TEMP TABLE hr_out ON COMMIT DROP AS
+    WITH ok AS (
+      SELECT hr.* FROM hr LEFT JOIN stg s ON s.row_no = hr.row_no WHERE hr.row_no IS NULL OR s.reject_code IS NULL
+    ),
+    l AS (
+      SELECT ok.*, lag(h) OVER w AS prev_h, lag(d) OVER w AS prev_d
+      FROM ok WINDOW w AS (PARTITION BY machine_key, gen ORDER BY d, row_no NULLS FIRST)
+    )
+    SELECT row_no, machine_key, gen::integer AS generation,
+      NOT COALESCE(h - prev_h > ${MAX_HOURS_PER_DAY} * greatest(d - prev_d, 1), false) AS valid,
+      CASE WHEN h - prev_h > ${MAX_HOURS_PER_DAY} * greatest(d - prev_d, 1)
+        THEN format('rose %s h in %s day(s) since %s h on %s', ${fmtSql("h - prev_h")}, greatest(d - prev_d, 1), ${fmtSql("prev_h")}, prev_d) END AS invalid_reason
+    FROM l WHERE row_no IS NOT NULL`);
+  await client.query(`ALTER TABLE hr_out ADD PRIMARY KEY (row_no)`);
+}

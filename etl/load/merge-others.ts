@@ -1,0 +1,135 @@
+import type pg from "pg";
+import { checkHourReadings } from "./hour-checks.js";
+import {
+  acceptedCount, countChanges, createChanged, registerShops, rejectDuplicates, rejectUnknownMachines, type MergeCounts,
+} from "./merge-common.js";
+
+/** An upsert on `key` that touches only rows whose row_hash differs, recording (key, inserted) in `changed`. */
+function upsert(table: string, key: string, cols: string[], select: string): string {
+  const alias = "t";
+  const updatable = cols.filter((c) => c !== key);
+  return `WITH up AS (
+      INSERT INTO ${table} AS ${alias} (${cols.join(", ")}) ${select}
+      ON CONFLICT (${key}) DO UPDATE SET ${updatable.map((c) => `${c} = excluded.${c}`).join(", ")}
+      WHERE ${alias}.row_hash <> excluded.row_hash
+      RETURNING ${alias}.${key} AS key, (xmax = 0) AS inserted
+    )
+    INSERT INTO changed SELECT key, inserted FROM up`;
+}
+
+const MACHINE_COLS = [
+  "machine_key", "serial", "model_code", "model_line", "engine_family", "cold_start_aid", "engine_serial", "build_date",
+  "delivery_date", "delivery_hours", "home_shop_key", "heater_plug_lot", "block_heater_fitted", "block_heater_date",
+  "warranty_base_months", "warranty_base_hours", "warranty_engine_months", "warranty_engine_hours", "row_hash", "batch_id",
+];
+
+/** Machine master rows into dim_machine (upsert on the normalised serial) plus the delivery hour reading. */
+export async function mergeMachines(client: pg.PoolClient, batchId: number): Promise<MergeCounts> {
+  await rejectDuplicates(client, ["serial"], "machine serial %s");
+  await registerShops(client, "home_shop");
+  const accepted = await acceptedCount(client);
+  await createChanged(client);
+  await client.query(
+    upsert(
+      "dim_machine",
+      "machine_key",
+      MACHINE_COLS,
+      `SELECT wh_key('machine|' || s.serial), s.serial, s.model_code, s.model_line, s.engine_family, s.cold_start_aid, s.engine_serial,
+         s.build_date, s.delivery_date, s.delivery_hours, sh.shop_key, s.heater_plug_lot, s.block_heater_fitted, s.block_heater_date,
+         s.warranty_base_months, s.warranty_base_hours, s.warranty_engine_months, s.warranty_engine_hours, s.row_hash, $1::bigint
+       FROM stg s JOIN dim_shop sh ON sh.shop_code = s.home_shop WHERE s.reject_code IS NULL`,
+    ),
+    [batchId],
+  );
+  await client.query(
+    `INSERT INTO fact_hour_reading AS r (hour_reading_key, machine_key, reading_date, hours, source, row_hash, batch_id)
+     SELECT wh_key('hour|delivery|' || s.serial), wh_key('machine|' || s.serial), s.delivery_date, s.delivery_hours, 'delivery',
+       md5(concat_ws('|', s.delivery_date, s.delivery_hours)), $1
+     FROM stg s WHERE s.reject_code IS NULL AND s.delivery_date IS NOT NULL AND s.delivery_hours IS NOT NULL
+     ON CONFLICT (hour_reading_key) DO UPDATE SET reading_date = excluded.reading_date, hours = excluded.hours,
+       row_hash = excluded.row_hash, batch_id = excluded.batch_id
+     WHERE r.row_hash <> excluded.row_hash`,
+    [batchId],
+  );
+  return countChanges(client, accepted);
+}
+
+const MEASUREMENT_COLS = [
+  "measurement_key", "repair_line_key", "machine_key", "shop_key", "measured_date", "kind", "position", "attempt", "value", "unit",
+  "over_range", "raw_value", "raw_unit", "conversion_rule", "row_hash", "batch_id",
+];
+
+/** Readings attached to repair-order lines already in the warehouse (jobs load first). */
+export async function mergeMeasurements(client: pg.PoolClient, batchId: number): Promise<MergeCounts> {
+  await rejectDuplicates(client, ["shop_code", "ro_number", "line_no", "kind", "position", "attempt"],
+    "shop %s repair order %s line %s, %s at position %s attempt %s,");
+  await client.query(
+    `UPDATE stg s SET reject_code = 'unknown_repair_line',
+       reject_reason = format('repair order %s line %s of shop %s is not in the warehouse; load the jobs export that has it first',
+         s.ro_number, s.line_no, s.shop_code)
+     WHERE s.reject_code IS NULL AND NOT EXISTS (
+       SELECT 1 FROM fact_repair_line f WHERE f.repair_line_key = wh_key('repair_line|' || s.shop_code || '|' || s.ro_number || '|' || s.line_no))`,
+  );
+  const accepted = await acceptedCount(client);
+  await createChanged(client);
+  await client.query(
+    upsert(
+      "fact_measurement",
+      "measurement_key",
+      MEASUREMENT_COLS,
+      `SELECT wh_key(concat_ws('|', 'measurement', s.shop_code, s.ro_number, s.line_no, s.kind, s.position, s.attempt)),
+         f.repair_line_key, f.machine_key, f.shop_key, f.opened_date, s.kind, s.position, s.attempt, s.value, s.unit, s.over_range,
+         s.raw_value, s.raw_unit, s.conversion_rule, s.row_hash, $1::bigint
+       FROM stg s JOIN fact_repair_line f ON f.repair_line_key = wh_key('repair_line|' || s.shop_code || '|' || s.ro_number || '|' || s.line_no)
+       WHERE s.reject_code IS NULL`,
+    ),
+    [batchId],
+  );
+  return countChanges(client, accepted);
+}
+
+/** Daily minimum and maximum per shop, in °C. */
+export async function mergeWeather(client: pg.PoolClient, batchId: number): Promise<MergeCounts> {
+  await rejectDuplicates(client, ["shop_code", "date"], "shop %s weather for %s");
+  await registerShops(client, "shop_code");
+  const accepted = await acceptedCount(client);
+  await client.query(`CREATE TEMP TABLE changed (shop_key bigint, date date, inserted boolean NOT NULL, PRIMARY KEY (shop_key, date)) ON COMMIT DROP`);
+  await client.query(
+    `WITH up AS (
+       INSERT INTO fact_weather_day AS w (shop_key, date, tmin_c, tmax_c, source_unit, row_hash, batch_id)
+       SELECT sh.shop_key, s.date, s.tmin_c, s.tmax_c, s.source_unit, s.row_hash, $1
+       FROM stg s JOIN dim_shop sh ON sh.shop_code = s.shop_code WHERE s.reject_code IS NULL
+       ON CONFLICT (shop_key, date) DO UPDATE SET tmin_c = excluded.tmin_c, tmax_c = excluded.tmax_c,
+         source_unit = excluded.source_unit, row_hash = excluded.row_hash, batch_id = excluded.batch_id
+       WHERE w.row_hash <> excluded.row_hash
+       RETURNING w.shop_key, w.date, (xmax = 0) AS inserted
+     )
+     INSERT INTO changed SELECT * FROM up`,
+    [batchId],
+  );
+  return countChanges(client, accepted);
+}
+
+const HOUR_KEY_TEXT = `'hour|' || s.source || '|' || s.serial || '|' || s.reading_date`;
+
+/** Registry and telematics hour readings, with the same meter checks as repair-order readings. */
+export async function mergeHours(client: pg.PoolClient, batchId: number): Promise<MergeCounts> {
+  await rejectDuplicates(client, ["serial", "reading_date", "source"], "machine %s reading of %s from %s");
+  await rejectUnknownMachines(client);
+  await checkHourReadings(client, { dateCol: "reading_date", hoursCol: "hours", keyText: HOUR_KEY_TEXT });
+  const accepted = await acceptedCount(client);
+  await createChanged(client);
+  await client.query(
+    upsert(
+      "fact_hour_reading",
+      "hour_reading_key",
+      ["hour_reading_key", "machine_key", "reading_date", "hours", "source", "meter_change", "meter_note", "meter_generation", "valid",
+        "invalid_reason", "row_hash", "batch_id"],
+      `SELECT wh_key(${HOUR_KEY_TEXT}), h.machine_key, s.reading_date, s.hours, s.source, s.meter_change, s.meter_note, h.generation,
+         h.valid, h.invalid_reason, md5(concat_ws('|', s.row_hash, h.generation, h.valid)), $1::bigint
+       FROM stg s JOIN hr_out h ON h.row_no = s.row_no WHERE s.reject_code IS NULL`,
+    ),
+    [batchId],
+  );
+  return countChanges(client, accepted);
+}
