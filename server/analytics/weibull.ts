@@ -1,4 +1,5 @@
 import { chiSquareQuantile, chiSquareUpperTail } from "./distributions.js";
+import { validateLifeData, type LifeObservation } from "./life-data.js";
 import { brentRoot, crossingFrom, localMax } from "./numeric.js";
 
 /**
@@ -6,16 +7,6 @@ import { brentRoot, crossingFrom, localMax } from "./numeric.js";
  * (engine hours in Ironledger). Maximum likelihood with right censoring and delayed entry, profile-likelihood
  * intervals, B10 life, median-rank regression for the probability plot, and a two-group comparison.
  */
-
-/** One installed item. */
-export interface LifeObservation {
-  /** Age at failure or at censoring (> 0), in the analysis unit (engine hours since install). */
-  time: number;
-  /** 1 = failed at `time`, 0 = right-censored (still working at its last valid reading). */
-  event: 0 | 1;
-  /** Age when the item came under observation (delayed entry / left truncation); default 0, must be < time. */
-  entry?: number;
-}
 
 /** Returned instead of a fit when the data cannot support one. */
 export interface WeibullInsufficient {
@@ -91,15 +82,6 @@ interface PowerSums {
   a1: number;
   /** Σ (t^β ln²t − e^β ln²e) */
   a2: number;
-}
-
-function validate(observations: readonly LifeObservation[]): void {
-  for (const o of observations) {
-    const entry = o.entry ?? 0;
-    if (!(o.time > 0) || !Number.isFinite(o.time)) throw new RangeError(`time must be a positive number, got ${o.time}`);
-    if (o.event !== 0 && o.event !== 1) throw new RangeError(`event must be 0 or 1, got ${String(o.event)}`);
-    if (!(entry >= 0) || entry >= o.time) throw new RangeError(`entry must satisfy 0 ≤ entry < time, got ${entry} ≥ ${o.time}`);
-  }
 }
 
 function prepare(observations: readonly LifeObservation[], scale: number): Sample {
@@ -273,7 +255,7 @@ export function fitWeibull(
   observations: readonly LifeObservation[],
   options: WeibullFitOptions = {},
 ): WeibullFit | WeibullInsufficient {
-  validate(observations);
+  validateLifeData(observations);
   const level = options.level ?? 0.9;
   const minimumFailures = options.minimumFailures ?? 5;
   const failures = countFailures(observations);
@@ -327,7 +309,7 @@ export function fitWeibull(
  * Σ δ[ln β − β ln η + (β − 1) ln t] − Σ (t/η)^β + Σ (entry/η)^β.
  */
 export function weibullLogLikelihood(observations: readonly LifeObservation[], shape: number, scale: number): number {
-  validate(observations);
+  validateLifeData(observations);
   const s = prepare(observations, largestTime(observations));
   return logLik(s, shape, Math.log(scale) - s.logScale) - s.failures * s.logScale;
 }
@@ -376,7 +358,7 @@ export interface RankRegressionFit {
  * F = Bernard's (j − 0.3)/(n + 0.4); axes x = ln t, y = ln(−ln(1 − F)). Delayed entry is not represented.
  */
 export function weibullPlotPoints(observations: readonly LifeObservation[]): ProbabilityPlotPoint[] {
-  validate(observations);
+  validateLifeData(observations);
   const n = observations.length;
   const sorted = [...observations].sort((a, b) => a.time - b.time || b.event - a.event);
   const points: ProbabilityPlotPoint[] = [];

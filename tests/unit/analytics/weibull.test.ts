@@ -7,9 +7,9 @@ import {
   weibullQuantile,
   weibullRankRegression,
   weibullSurvival,
-  type LifeObservation,
   type WeibullFit,
 } from "../../../server/analytics/weibull.js";
+import type { LifeObservation } from "../../../server/analytics/life-data.js";
 import { chiSquareQuantile } from "../../../server/analytics/distributions.js";
 import { ballBearings, engineFans } from "./fixtures/reference-datasets.js";
 import { expectNear } from "./fixtures/tolerance.js";
