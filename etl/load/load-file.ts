@@ -61,7 +61,12 @@ export interface LoadFileOptions {
   /** 'YYYY-MM-DD'; dates after it are rejected as future. Defaults to the current UTC date. */
   today?: string;
   /** test seams */
-  hooks?: { afterStaging?: (client: pg.PoolClient) => Promise<void> };
+  hooks?: {
+    /** after every row is in the staging table, before any merge */
+    afterStaging?: (client: pg.PoolClient) => Promise<void>;
+    /** after the merges, just before COMMIT */
+    beforeCommit?: (client: pg.PoolClient) => Promise<void>;
+  };
 }
 
 export interface BatchSummary {
@@ -262,6 +267,7 @@ export async function loadFile(target: pg.Pool | string, opts: LoadFileOptions):
        WHERE batch_id = $1`,
       [batchId, rowsRead, counts.inserted, counts.updated, counts.unchanged, counts.rejected],
     );
+    await opts.hooks?.beforeCommit?.(client);
     await client.query("COMMIT");
     opts.onProgress?.({ phase: "done", rowsRead, bytesRead, totalBytes });
     return {

@@ -1,0 +1,44 @@
+import path from "node:path";
+import { fileURLToPath } from "node:url";
+import type pg from "pg";
+
+const here = path.dirname(fileURLToPath(import.meta.url));
+export const fixture = (name: string) => path.join(here, "fixtures", name);
+export const sample = (name: string) => path.resolve(here, "../../etl/samples", name);
+
+/** A fixed "today" so the fixtures' dates stay in the past and 2052/2099 stay in the future. */
+export const TODAY = "2025-06-30";
+
+const WAREHOUSE_TABLES = [
+  "dim_shop", "dim_component", "dim_failure_mode", "dim_date", "dim_machine", "dim_technician", "dim_part", "fact_repair_line",
+  "fact_repair_line_history", "fact_fault_code", "fact_measurement", "fact_hour_reading", "fact_weather_day", "etl_reject",
+];
+
+/** Every warehouse table's full contents (not just counts), in a stable order, for before/after comparisons. */
+export async function snapshot(pool: pg.Pool): Promise<Record<string, unknown[]>> {
+  const out: Record<string, unknown[]> = {};
+  for (const t of WAREHOUSE_TABLES) {
+    const r = await pool.query(`SELECT to_jsonb(t)::text AS row FROM ${t} t ORDER BY 1`);
+    out[t] = r.rows.map((x) => x.row);
+  }
+  return out;
+}
+
+export async function count(pool: pg.Pool, table: string): Promise<number> {
+  const r = await pool.query<{ n: number }>(`SELECT count(*)::int AS n FROM ${table}`);
+  return r.rows[0].n;
+}
+
+export async function rejectsOf(pool: pg.Pool, batchId: number): Promise<{ row_number: number; reason_code: string; reason: string; raw_row: Record<string, string> }[]> {
+  const r = await pool.query(`SELECT row_number, reason_code, reason, raw_row FROM etl_reject WHERE batch_id = $1 ORDER BY row_number`, [batchId]);
+  return r.rows;
+}
+
+/**
+ * Ends the test's pool before dropping its database: these tests use the pg pool directly, and Kysely only
+ * ends a pool it has used, so idle clients would otherwise be killed by DROP … WITH (FORCE).
+ */
+export async function dropTestDb(t: { pool: pg.Pool; drop(): Promise<void> }): Promise<void> {
+  await t.pool.end();
+  await t.drop();
+}
