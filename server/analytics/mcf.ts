@@ -1,0 +1,187 @@
+import { twoSidedZ } from "./distributions.js";
+
+/** One repairable unit (a machine) with its repair history. */
+export interface RecurrentUnit {
+  id: string;
+  /** Age at each repair, in the analysis unit (engine hours); a repeated age means several repairs at once. */
+  eventAges: readonly number[];
+  /** Age at the end of observation (last valid reading). */
+  endAge: number;
+  /** Age at the start of observation (delayed entry); default 0. Repairs must satisfy startAge < age ≤ endAge. */
+  startAge?: number;
+}
+
+/**
+ * "lawless-nadeau": the robust estimator Σᵢ [Σ_{t_k ≤ t} δᵢ(t_k)(dᵢ(t_k) − d_k/r_k)/r_k]², valid without assuming
+ * a Poisson process (Lawless & Nadeau 1995). "poisson": Σ d_k/r_k², which assumes a Poisson process.
+ */
+export type McfVariance = "lawless-nadeau" | "poisson";
+
+/** "plain": M ± z·se, lower limit clipped at 0; "log": M·exp(±z·se/M), always positive. */
+export type McfConfidenceType = "plain" | "log";
+
+export interface McfStep {
+  age: number;
+  /** Units under observation at this age: startAge < age ≤ endAge. */
+  atRisk: number;
+  /** Repairs at this age, all units. */
+  events: number;
+  /** Mean cumulative repairs per unit up to and including this age. */
+  mcf: number;
+  /** Standard error by the chosen variance. */
+  stdError: number;
+  stdErrorLawlessNadeau: number;
+  stdErrorPoisson: number;
+  lower: number;
+  upper: number;
+}
+
+export interface McfCurve {
+  steps: McfStep[];
+  units: number;
+  events: number;
+  /** Largest end age: the curve is defined (flat after the last step) up to here. */
+  lastAge: number;
+  level: number;
+  variance: McfVariance;
+  confidenceType: McfConfidenceType;
+}
+
+export interface McfOptions {
+  level?: number;
+  variance?: McfVariance;
+  confidenceType?: McfConfidenceType;
+}
+
+function validate(units: readonly RecurrentUnit[]): void {
+  for (const u of units) {
+    const start = u.startAge ?? 0;
+    if (!(u.endAge > start)) throw new RangeError(`unit ${u.id}: endAge must exceed startAge`);
+    for (const age of u.eventAges) {
+      if (!(age > start && age <= u.endAge)) throw new RangeError(`unit ${u.id}: repair at ${age} outside (${start}, ${u.endAge}]`);
+    }
+  }
+}
+
+function limits(mcf: number, se: number, z: number, type: McfConfidenceType): { lower: number; upper: number } {
+  if (type === "log" && mcf > 0) {
+    const f = Math.exp((z * se) / mcf);
+    return { lower: mcf / f, upper: mcf * f };
+  }
+  return { lower: Math.max(0, mcf - z * se), upper: mcf + z * se };
+}
+
+/**
+ * Nonparametric mean cumulative function of recurrent repairs (Nelson 1995):
+ *
+ *   M̂(t) = Σ_{t_k ≤ t} d_k / r_k,
+ *
+ * with d_k all repairs at age t_k and r_k the units under observation then (startAge < t_k ≤ endAge, so a unit
+ * whose history ends at t_k still counts at t_k). Units: repairs per unit; ages in the caller's unit.
+ * Standard error: Lawless–Nadeau robust (default) or Poisson-process, both always reported; interval "plain"
+ * (default, lower limit clipped at 0) or "log". Nelson's (1995) own variance estimator is not offered under
+ * that name because no printed table was available to verify it (REFERENCE.md case I).
+ * Excludes nothing; costs are not weighted (counts of repairs only).
+ */
+export function meanCumulativeFunction(units: readonly RecurrentUnit[], options: McfOptions = {}): McfCurve {
+  validate(units);
+  const level = options.level ?? 0.95;
+  const variance = options.variance ?? "lawless-nadeau";
+  const confidenceType = options.confidenceType ?? "plain";
+  const z = twoSidedZ(level);
+  const perUnit = units.map((u) => {
+    const counts = new Map<number, number>();
+    for (const age of u.eventAges) counts.set(age, (counts.get(age) ?? 0) + 1);
+    return { start: u.startAge ?? 0, end: u.endAge, counts };
+  });
+  const ages = [...new Set(units.flatMap((u) => u.eventAges))].sort((a, b) => a - b);
+  const running = new Float64Array(units.length);
+  const steps: McfStep[] = [];
+  let mcf = 0;
+  let poissonVar = 0;
+  for (const age of ages) {
+    let atRisk = 0;
+    let events = 0;
+    for (const u of perUnit) {
+      if (u.start < age && age <= u.end) {
+        atRisk++;
+        events += u.counts.get(age) ?? 0;
+      }
+    }
+    const mean = events / atRisk;
+    mcf += mean;
+    poissonVar += events / (atRisk * atRisk);
+    let robustVar = 0;
+    perUnit.forEach((u, i) => {
+      if (u.start < age && age <= u.end) running[i] += ((u.counts.get(age) ?? 0) - mean) / atRisk;
+      robustVar += running[i] * running[i];
+    });
+    const seLn = Math.sqrt(robustVar);
+    const sePoisson = Math.sqrt(poissonVar);
+    const stdError = variance === "poisson" ? sePoisson : seLn;
+    steps.push({
+      age,
+      atRisk,
+      events,
+      mcf,
+      stdError,
+      stdErrorLawlessNadeau: seLn,
+      stdErrorPoisson: sePoisson,
+      ...limits(mcf, stdError, z, confidenceType),
+    });
+  }
+  return {
+    steps,
+    units: units.length,
+    events: steps.reduce((n, s) => n + s.events, 0),
+    lastAge: units.reduce((m, u) => Math.max(m, u.endAge), 0),
+    level,
+    variance,
+    confidenceType,
+  };
+}
+
+/** M̂(age) and its standard error read off the step curve (0 before the first repair). */
+export function mcfAt(curve: McfCurve, age: number): { mcf: number; stdError: number } {
+  let value = { mcf: 0, stdError: 0 };
+  for (const step of curve.steps) {
+    if (step.age > age) break;
+    value = { mcf: step.mcf, stdError: step.stdError };
+  }
+  return value;
+}
+
+/**
+ * Average repair rate between two ages: per × (M̂(to) − M̂(from)) / (to − from), e.g. per = 1000 gives repairs
+ * per unit per 1,000 engine hours. A secant of the step curve, not a derivative; ages beyond the last
+ * observed age return null (the curve says nothing there).
+ */
+export function mcfSlope(curve: McfCurve, fromAge: number, toAge: number, per = 1000): number | null {
+  if (!(toAge > fromAge) || toAge > curve.lastAge) return null;
+  return (per * (mcfAt(curve, toAge).mcf - mcfAt(curve, fromAge).mcf)) / (toAge - fromAge);
+}
+
+export interface McfDifferencePoint {
+  age: number;
+  /** M̂_A(age) − M̂_B(age) */
+  difference: number;
+  stdError: number;
+  lower: number;
+  upper: number;
+}
+
+/**
+ * Difference of two MCFs (e.g. two shops or engine families) at chosen ages, with a normal-approximation
+ * interval: (M̂_A − M̂_B) ± z·√(se_A² + se_B²), treating the two groups as independent samples of units.
+ * Uses each curve's own chosen standard error. An interval excluding 0 marks a difference at that age.
+ */
+export function mcfDifference(a: McfCurve, b: McfCurve, ages: readonly number[], level = 0.95): McfDifferencePoint[] {
+  const z = twoSidedZ(level);
+  return ages.map((age) => {
+    const pa = mcfAt(a, age);
+    const pb = mcfAt(b, age);
+    const difference = pa.mcf - pb.mcf;
+    const stdError = Math.hypot(pa.stdError, pb.stdError);
+    return { age, difference, stdError, lower: difference - z * stdError, upper: difference + z * stdError };
+  });
+}
