@@ -104,4 +104,3 @@ describe("mcfDifference(a, b, ages)", () => {
     expect(point.stdError).toBeCloseTo(Math.SQRT2 * 0.311656, 6);
   });
 });
-});
