@@ -1,0 +1,11 @@
+import { loadConfig } from "../server/config.js";
+import { createDb } from "../server/db/database.js";
+import { refreshExposure } from "../server/db/derived/refresh-exposure.js";
+
+const { db } = createDb(loadConfig().databaseUrl);
+try {
+  const r = await refreshExposure(db);
+  console.log(`exposure aggregate: ${r.rows} rows in ${r.seconds.toFixed(1)} s`);
+} finally {
+  await db.destroy();
+}

@@ -1,0 +1,92 @@
+import { sql, type RawBuilder } from "kysely";
+import type { ShopScope } from "../../../shared/schemas/me.js";
+import type { AnalyticsFilters } from "../../../shared/schemas/analytics-filters.js";
+import { scopedShopCodes } from "./scope.js";
+import { hourBandSql, temperatureBandSql, UNKNOWN_BAND } from "../derived/band-sql.js";
+import { HEATER_PLUG } from "../derived/refresh-exposure.js";
+
+/** Comeback window used to keep repeat visits for one fault out of failure counts (DOMAIN.md, common practice). */
+export const COMEBACK_DAYS = 30;
+export const COMEBACK_HOURS = 100;
+
+const and = (parts: RawBuilder<unknown>[]) => (parts.length ? sql.join(parts, sql` AND `) : sql`TRUE`);
+const inList = (col: RawBuilder<unknown>, values: readonly string[]) => sql`${col} IN (${sql.join(values.map((v) => sql`${v}`))})`;
+const monthStart = (m: string) => `${m}-01`;
+
+/**
+ * Conditions on the machine cohort and home shop that agg_exposure and the failure lines share.
+ * `t` is the alias of a relation with columns engine_family, model_line, build_month, lot, shop_code.
+ * The caller's shop scope is always applied.
+ */
+export function cohortConditions(t: string, scope: ShopScope, f: AnalyticsFilters): RawBuilder<unknown> {
+  const c = (name: string) => sql.ref(`${t}.${name}`);
+  const parts: RawBuilder<unknown>[] = [];
+  const scoped = scopedShopCodes(scope);
+  if (scoped) parts.push(scoped.length ? inList(c("shop_code"), scoped) : sql`FALSE`);
+  if (f.shops.length) parts.push(inList(c("shop_code"), f.shops.map((s) => s.toUpperCase())));
+  if (f.engineFamilies.length) parts.push(inList(c("engine_family"), f.engineFamilies));
+  if (f.modelLines.length) parts.push(inList(c("model_line"), f.modelLines));
+  if (f.lots.length) parts.push(inList(c("lot"), f.lots));
+  if (f.buildFrom) parts.push(sql`${c("build_month")} >= ${monthStart(f.buildFrom)}::date`);
+  if (f.buildTo) parts.push(sql`${c("build_month")} <= ${monthStart(f.buildTo)}::date`);
+  if (f.tempBands.length) parts.push(inList(c("temp_band"), f.tempBands));
+  if (f.hourBands.length) parts.push(inList(c("hour_band"), f.hourBands));
+  return and(parts);
+}
+
+/** Exposure rows (agg_exposure with the shop code) inside the date window. */
+export function exposureRelation(scope: ShopScope, f: AnalyticsFilters): RawBuilder<unknown> {
+  const window: RawBuilder<unknown>[] = [];
+  if (f.from) window.push(sql`e.month >= date_trunc('month', ${f.from}::date)::date`);
+  if (f.to) window.push(sql`e.month <= ${f.to}::date`);
+  return sql`(
+    SELECT * FROM (SELECT e.*, s.shop_code FROM agg_exposure e JOIN dim_shop s ON s.shop_key = e.shop_key WHERE ${and(window)}) x
+    WHERE ${cohortConditions("x", scope, f)}
+  )`;
+}
+
+/**
+ * Failure lines labelled like the exposure: the machine's cohort and home shop, the home shop's daily
+ * minimum temperature band on the day the repair order opened, the engine-hour band of the hour meter,
+ * and the heater-plug lot fitted at the time. Only line_type 'failure'; a line that begins within
+ * COMEBACK_DAYS and COMEBACK_HOURS of an earlier line's close on the same machine and component is a
+ * comeback for the same fault and is not counted again.
+ */
+export function failureRelation(scope: ShopScope, f: AnalyticsFilters): RawBuilder<unknown> {
+  const window: RawBuilder<unknown>[] = [sql`fl.line_type = 'failure'`];
+  if (f.from) window.push(sql`fl.opened_date >= ${f.from}::date`);
+  if (f.to) window.push(sql`fl.opened_date <= ${f.to}::date`);
+  if (f.components.length) window.push(inList(sql.ref("c.component_code"), f.components));
+  return sql`(
+    SELECT * FROM (
+      SELECT fl.repair_line_key, fl.machine_key, fl.opened_date, fl.hour_meter::double precision AS hour_meter,
+             c.component_code, c.system, m.engine_family, m.model_line, s.shop_code, m.home_shop_key AS shop_key,
+             date_trunc('month', coalesce(m.build_date, m.delivery_date))::date AS build_month,
+             date_trunc('month', fl.opened_date)::date AS month,
+             CASE WHEN r.repl_date IS NOT NULL AND fl.opened_date > r.repl_date THEN r.repl_lot
+                  ELSE coalesce(nullif(m.heater_plug_lot, ''), 'none') END AS lot,
+             coalesce(${temperatureBandSql(sql`w.tmin_c`)}, ${UNKNOWN_BAND}) AS temp_band,
+             ${hourBandSql(sql`fl.hour_meter`)} AS hour_band
+      FROM fact_repair_line fl
+      JOIN dim_component c ON c.component_key = fl.component_key
+      JOIN dim_machine m ON m.machine_key = fl.machine_key
+      JOIN dim_shop s ON s.shop_key = m.home_shop_key
+      LEFT JOIN fact_weather_day w ON w.shop_key = m.home_shop_key AND w.date = fl.opened_date
+      LEFT JOIN LATERAL (
+        SELECT p.opened_date AS repl_date, coalesce(nullif(p.supplier_lot, ''), 'replacement') AS repl_lot
+        FROM fact_repair_line p JOIN dim_component pc ON pc.component_key = p.component_key
+        WHERE p.machine_key = fl.machine_key AND pc.component_code = ${HEATER_PLUG} AND p.line_type = 'failure'
+        ORDER BY p.opened_date LIMIT 1
+      ) r ON TRUE
+      WHERE ${and(window)}
+        AND NOT EXISTS (
+          SELECT 1 FROM fact_repair_line p
+          WHERE p.machine_key = fl.machine_key AND p.component_key = fl.component_key
+            AND p.repair_line_key <> fl.repair_line_key
+            AND p.opened_date < fl.opened_date
+            AND fl.opened_date <= coalesce(p.closed_date, p.opened_date) + ${COMEBACK_DAYS}::integer
+            AND (fl.hour_meter IS NULL OR p.hour_meter IS NULL OR fl.hour_meter - p.hour_meter <= ${COMEBACK_HOURS}::numeric)
+        )
+    ) y WHERE ${cohortConditions("y", scope, f)}
+  )`;
+}

@@ -1,0 +1,105 @@
+import { Router } from "express";
+import { allow, requireScope } from "../auth/require-user.js";
+import type { Db } from "../db/database.js";
+import { analyticsFiltersSchema } from "../../shared/schemas/analytics-filters.js";
+import type {
+  ComponentRates,
+  HourBandRates,
+  MonthlyRates,
+  Rate,
+  TemperatureBandRates,
+} from "../../shared/schemas/analytics-rates.js";
+import { countsByComponent, countsByHourBand, countsByMonth, countsByTemperatureBand } from "../db/queries/analytics-rates.js";
+import { poissonRate, type RateEstimate } from "../analytics/poisson.js";
+import { uChart } from "../analytics/control-chart.js";
+import { hourBands, temperatureBands } from "../../shared/bands.js";
+import { components } from "../../shared/catalog.js";
+
+export const ANALYTICS_ROLES = ["analyst", "director", "manager", "clerk", "admin"] as const;
+
+const rate = (r: RateEstimate | null): Rate | null =>
+  r ? { rate: r.rate, lower: r.lower, upper: r.upper, per: r.per, level: r.level } : null;
+
+/** Band rows in the bands' own order, with empty bands kept so charts show gaps honestly. */
+function inBandOrder<T extends { band: string }>(ids: readonly string[], rows: T[], empty: (band: string) => T): T[] {
+  const by = new Map(rows.map((r) => [r.band, r]));
+  return [...ids.map((id) => by.get(id) ?? empty(id)), ...rows.filter((r) => !ids.includes(r.band))];
+}
+
+export function analyticsRateRoutes(db: Db): Router {
+  const router = Router();
+  router.use(allow(...ANALYTICS_ROLES));
+
+  router.get("/hour-bands", async (req, res) => {
+    const f = analyticsFiltersSchema.parse(req.query);
+    const rows = inBandOrder(hourBands.map((b) => b.id), await countsByHourBand(db, requireScope(req), f), (band) => ({ band, failures: 0, machineDays: 0, engineHours: 0 }));
+    const body: HourBandRates = {
+      method: "Failures (first visit for a fault; comebacks excluded) per 1,000 engine hours of exposure in the band; exact Poisson (Garwood) 95 % limits.",
+      rows: rows.map((r) => ({ band: r.band, failures: r.failures, engineHours: r.engineHours, perThousandHours: rate(poissonRate(r.failures, r.engineHours)) })),
+    };
+    res.json(body);
+  });
+
+  router.get("/temperature-bands", async (req, res) => {
+    const f = analyticsFiltersSchema.parse(req.query);
+    const rows = inBandOrder(temperatureBands.map((b) => b.id), await countsByTemperatureBand(db, requireScope(req), f), (band) => ({ band, failures: 0, machineDays: 0, engineHours: 0 }));
+    const body: TemperatureBandRates = {
+      method: "Failures counted on the day the repair order opened, by the home shop's daily minimum temperature; exposure is machine-days in service at that shop (and their estimated engine hours); exact Poisson 95 % limits.",
+      caution: "The first cold snap of a season flushes out failures that had built up, so the coldest band can sit below the next one.",
+      rows: rows.map((r) => ({
+        band: r.band,
+        failures: r.failures,
+        machineDays: r.machineDays,
+        engineHours: r.engineHours,
+        perThousandMachineDays: rate(poissonRate(r.failures, r.machineDays)),
+        perThousandHours: rate(poissonRate(r.failures, r.engineHours)),
+      })),
+    };
+    res.json(body);
+  });
+
+  router.get("/components", async (req, res) => {
+    const f = analyticsFiltersSchema.parse(req.query);
+    const { engineHours, rows } = await countsByComponent(db, requireScope(req), f);
+    const total = rows.reduce((s, r) => s + r.failures, 0);
+    let cum = 0;
+    const body: ComponentRates = {
+      engineHours,
+      rows: rows.map((r) => {
+        cum += r.failures;
+        const def = components.find((c) => c.code === r.component);
+        return {
+          component: r.component,
+          name: def?.name ?? r.component,
+          system: def?.system ?? "",
+          failures: r.failures,
+          share: total ? r.failures / total : 0,
+          cumulativeShare: total ? cum / total : 0,
+          perThousandHours: rate(poissonRate(r.failures, engineHours)),
+        };
+      }),
+    };
+    res.json(body);
+  });
+
+  router.get("/monthly", async (req, res) => {
+    const f = analyticsFiltersSchema.parse(req.query);
+    const rows = (await countsByMonth(db, requireScope(req), f)).filter((r) => r.engineHours > 0);
+    const chart = uChart(rows.map((r) => ({ failures: r.failures, exposure: r.engineHours })));
+    const body: MonthlyRates = {
+      method: "u-chart: centre = all failures ÷ all engine hours; limits = centre ± 3·√(centre ÷ month's hours) (NIST/SEMATECH e-Handbook 6.3.3.2).",
+      centre: chart.centre,
+      rows: rows.map((r, i) => ({
+        month: r.band.slice(0, 7),
+        failures: r.failures,
+        engineHours: r.engineHours,
+        perThousandHours: rate(poissonRate(r.failures, r.engineHours)),
+        controlLower: chart.points[i].lower,
+        controlUpper: chart.points[i].upper,
+        outOfControl: chart.points[i].outOfControl,
+      })),
+    };
+    res.json(body);
+  });
+  return router;
+}
