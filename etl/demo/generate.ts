@@ -136,10 +136,11 @@ export async function generateDemo(options: GenerateOptions): Promise<Manifest> 
         labourRate: shop.labourRate, techEfficiency: efficiency.get(e.tech) ?? 1,
       };
       const record = jobRecord(e, ctx);
-      injectJobFaults(faults, record, e, shop.blankCauseRate, tally);
+      const faulty = injectJobFaults(faults, record, e, shop.blankCauseRate, tally);
       const cells = renderRow(chosen.jobs, record);
       if (!jobsWriter.writeCells(cells)) await jobsWriter.drained();
-      if (faults.chance(injections.duplicateLine)) {
+      // lines with a rejected or repaired fault are never repeated, so each such fault reaches the loader once
+      if (faults.chance(injections.duplicateLine) && !faulty) {
         tally.exactDuplicate++;
         if (!jobsWriter.writeCells(cells)) await jobsWriter.drained();
       }
@@ -182,7 +183,13 @@ function familyOfSerial(serial: string): Machine["family"] {
   return models.find((m) => m.code === code)?.family ?? "K26-4R";
 }
 
-function injectJobFaults(rng: Rng, r: Record<string, unknown>, e: JobEvent, blankCauseRate: number, tally: FaultTally): void {
+/**
+ * Applies the per-line faults to a canonical job record. Returns true when the line carries a fault the
+ * loader rejects or repairs (anything but a blank cause), so that such a line is never also duplicated.
+ */
+function injectJobFaults(rng: Rng, r: Record<string, unknown>, e: JobEvent, blankCauseRate: number, tally: FaultTally): boolean {
+  const counted = (): number => Object.values(tally).reduce((a, b) => a + b, 0) - tally.blankCause;
+  const before = counted();
   if (e.meterNote) tally.meterReplacement++;
   const meter = r.hour_meter as number;
   const u = rng.float();
@@ -210,6 +217,7 @@ function injectJobFaults(rng: Rng, r: Record<string, unknown>, e: JobEvent, blan
     r.labor_hours = -(r.labor_hours as number);
     tally.negativeLabour++;
   }
+  return e.machine < 0 || counted() > before;
 }
 
 /** Lines on machines that are not in the registry (sold elsewhere, serviced here): "serial not in master". */
