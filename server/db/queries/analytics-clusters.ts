@@ -1,0 +1,62 @@
+import { sql } from "kysely";
+import type { Db } from "../database.js";
+import type { ShopScope } from "../../../shared/schemas/me.js";
+import type { AnalyticsFilters } from "../../../shared/schemas/analytics-filters.js";
+import { exposureRelation, failureRelation } from "./analytics-base.js";
+
+/** One finest-grain cell of the cluster scan: failures, engine hours, and the failing repair lines. */
+export interface ScanCellRow {
+  engineFamily: string;
+  buildMonth: string; // YYYY-MM
+  lot: string;
+  shopCode: string;
+  tempBand: string;
+  hourBand: string;
+  failures: number;
+  engineHours: number;
+  repairLineKeys: number[];
+}
+
+/**
+ * Failures and engine-hour exposure over engine family × build month × lot × shop × temperature band ×
+ * hour band, aggregated in PostgreSQL. Exposure covers only the engine families that carry the
+ * components scanned (a family with no such repair line in the warehouse cannot contribute).
+ */
+export async function scanCells(db: Db, scope: ShopScope, f: AnalyticsFilters): Promise<ScanCellRow[]> {
+  const res = await sql<{
+    engine_family: string; build_month: string; lot: string; shop_code: string; temp_band: string; hour_band: string;
+    failures: number | null; engine_hours: number | null; keys: number[] | null;
+  }>`
+    WITH fam AS (
+      SELECT DISTINCT m.engine_family FROM fact_repair_line fl
+      JOIN dim_component c ON c.component_key = fl.component_key JOIN dim_machine m ON m.machine_key = fl.machine_key
+      WHERE c.component_code IN (${sql.join(f.components.map((c) => sql`${c}`))})
+    ), e AS (
+      SELECT engine_family, build_month, lot, shop_code, temp_band, hour_band, sum(engine_hours) AS engine_hours
+      FROM ${exposureRelation(scope, f)} ex WHERE engine_family IN (SELECT engine_family FROM fam)
+      GROUP BY 1, 2, 3, 4, 5, 6
+    ), fl AS (
+      SELECT engine_family, build_month, lot, shop_code, temp_band, hour_band, count(*) AS failures,
+             array_agg(repair_line_key ORDER BY opened_date) AS keys
+      FROM ${failureRelation(scope, f)} fr
+      GROUP BY 1, 2, 3, 4, 5, 6
+    )
+    SELECT coalesce(e.engine_family, fl.engine_family) AS engine_family,
+           to_char(coalesce(e.build_month, fl.build_month), 'YYYY-MM') AS build_month,
+           coalesce(e.lot, fl.lot) AS lot, coalesce(e.shop_code, fl.shop_code) AS shop_code,
+           coalesce(e.temp_band, fl.temp_band) AS temp_band, coalesce(e.hour_band, fl.hour_band) AS hour_band,
+           fl.failures, e.engine_hours, fl.keys
+    FROM e FULL JOIN fl USING (engine_family, build_month, lot, shop_code, temp_band, hour_band)
+  `.execute(db);
+  return res.rows.map((r) => ({
+    engineFamily: r.engine_family,
+    buildMonth: r.build_month,
+    lot: r.lot,
+    shopCode: r.shop_code,
+    tempBand: r.temp_band,
+    hourBand: r.hour_band,
+    failures: Number(r.failures ?? 0),
+    engineHours: Number(r.engine_hours ?? 0),
+    repairLineKeys: (r.keys ?? []).map(Number),
+  }));
+}

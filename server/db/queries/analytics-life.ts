@@ -1,0 +1,157 @@
+import { sql } from "kysely";
+import type { Db } from "../database.js";
+import type { ShopScope } from "../../../shared/schemas/me.js";
+import type { AnalyticsFilters } from "../../../shared/schemas/analytics-filters.js";
+import { cohortConditions, failureRelation } from "./analytics-base.js";
+
+export interface LifeUnit {
+  machineKey: number;
+  /** engine hours since the part was fitted */
+  time: number;
+  entry: number;
+  event: 0 | 1;
+  lot: string;
+  shopCode: string;
+  climateZone: string | null;
+  engineFamily: string;
+  modelLine: string;
+  buildMonth: string;
+  repairLineKey: number | null;
+}
+
+/**
+ * Fitted parts of one component as life units. The first unit is fitted at delivery (the machine's
+ * delivery hour reading) with the build lot; each failure line ends a unit and fits the next one, with
+ * the lot written on that line. The last unit is right-censored at the machine's last valid engine hours.
+ * A trail that starts more than 30 days after delivery gives the first unit a delayed entry.
+ * Only machines that can carry the component (those of the filtered engine families) are units.
+ */
+export async function lifeUnits(db: Db, scope: ShopScope, f: AnalyticsFilters, component: string): Promise<LifeUnit[]> {
+  const ff: AnalyticsFilters = { ...f, components: [component], lots: [], tempBands: [], hourBands: [] };
+  const unitFilter: AnalyticsFilters = { ...f, tempBands: [], hourBands: [] };
+  const res = await sql<{
+    machine_key: number; start_h: number; end_h: number; entry_h: number; event: number; lot: string; shop_code: string;
+    climate_zone: string | null; engine_family: string; model_line: string; build_month: string; repair_line_key: number | null;
+  }>`
+    WITH fam AS (
+      SELECT DISTINCT m.engine_family FROM fact_repair_line fl
+      JOIN dim_component c ON c.component_key = fl.component_key JOIN dim_machine m ON m.machine_key = fl.machine_key
+      WHERE c.component_code = ${component}
+    ), mach AS (
+      SELECT m.machine_key, m.engine_family, m.model_line, s.shop_code, s.climate_zone,
+             date_trunc('month', coalesce(m.build_date, m.delivery_date))::date AS build_month,
+             coalesce(nullif(m.heater_plug_lot, ''), 'none') AS build_lot,
+             coalesce(m.delivery_hours::double precision, 0) AS install_h,
+             t.first_h, t.last_h, t.first_d, m.delivery_date
+      FROM dim_machine m
+      JOIN dim_shop s ON s.shop_key = m.home_shop_key
+      JOIN (SELECT machine_key, min(engine_hours) AS first_h, max(engine_hours) AS last_h, min(reading_date) AS first_d
+            FROM v_engine_hours GROUP BY machine_key) t ON t.machine_key = m.machine_key
+      WHERE m.engine_family IN (SELECT engine_family FROM fam)
+    ), fails AS (
+      SELECT fr.machine_key, fr.repair_line_key, fr.hour_meter, coalesce(nullif(p.supplier_lot, ''), 'replacement') AS fitted_lot,
+             row_number() OVER (PARTITION BY fr.machine_key ORDER BY fr.hour_meter, fr.opened_date) AS k
+      FROM ${failureRelation(scope, ff)} fr
+      JOIN fact_repair_line p ON p.repair_line_key = fr.repair_line_key
+      WHERE fr.hour_meter IS NOT NULL
+    ), units AS (
+      SELECT m.machine_key, m.engine_family, m.model_line, m.shop_code, m.climate_zone, m.build_month,
+             coalesce(prev.hour_meter, m.install_h) AS start_h,
+             coalesce(cur.hour_meter, m.last_h) AS end_h,
+             CASE WHEN cur.k IS NULL THEN 0 ELSE 1 END AS event,
+             CASE WHEN prev.k IS NULL THEN m.build_lot ELSE prev.fitted_lot END AS lot,
+             CASE WHEN prev.k IS NULL AND m.first_d > m.delivery_date + 30 THEN greatest(m.first_h - m.install_h, 0) ELSE 0 END AS entry_h,
+             cur.repair_line_key
+      FROM mach m
+      CROSS JOIN LATERAL (
+        SELECT k FROM fails WHERE fails.machine_key = m.machine_key
+        UNION ALL SELECT coalesce(max(k), 0) + 1 FROM fails WHERE fails.machine_key = m.machine_key
+      ) seq
+      LEFT JOIN fails cur ON cur.machine_key = m.machine_key AND cur.k = seq.k
+      LEFT JOIN fails prev ON prev.machine_key = m.machine_key AND prev.k = seq.k - 1
+    )
+    SELECT u.machine_key, u.start_h, u.end_h, u.entry_h, u.event, u.lot, u.shop_code, u.climate_zone, u.engine_family,
+           u.model_line, to_char(u.build_month, 'YYYY-MM') AS build_month, u.repair_line_key
+    FROM units u
+    WHERE u.end_h > u.start_h AND ${cohortConditions("u", scope, unitFilter)}
+  `.execute(db);
+  return res.rows
+    .map((r) => ({
+      machineKey: Number(r.machine_key),
+      time: Number(r.end_h) - Number(r.start_h),
+      entry: Number(r.entry_h),
+      event: (Number(r.event) === 1 ? 1 : 0) as 0 | 1,
+      lot: r.lot,
+      shopCode: r.shop_code,
+      climateZone: r.climate_zone,
+      engineFamily: r.engine_family,
+      modelLine: r.model_line,
+      buildMonth: r.build_month,
+      repairLineKey: r.repair_line_key === null ? null : Number(r.repair_line_key),
+    }))
+    .filter((u) => u.entry < u.time);
+}
+
+export interface RecurrenceRow {
+  machineKey: number;
+  ages: number[];
+  startAge: number;
+  endAge: number;
+  lot: string;
+  shopCode: string;
+  climateZone: string | null;
+  engineFamily: string;
+}
+
+/**
+ * Repairs of one component per machine for the mean cumulative function: every failure line counts,
+ * repeat visits included; ages are engine hours since delivery, observation runs from the first to the
+ * last valid reading. Machines of the families that carry the component, with no repair, count as
+ * observed with zero repairs.
+ */
+export async function recurrences(db: Db, scope: ShopScope, f: AnalyticsFilters, component: string): Promise<RecurrenceRow[]> {
+  const unitFilter: AnalyticsFilters = { ...f, tempBands: [], hourBands: [], lots: [] };
+  const res = await sql<{
+    machine_key: number; ages: number[] | null; start_age: number; end_age: number; lot: string; shop_code: string;
+    climate_zone: string | null; engine_family: string;
+  }>`
+    WITH fam AS (
+      SELECT DISTINCT m.engine_family FROM fact_repair_line fl
+      JOIN dim_component c ON c.component_key = fl.component_key JOIN dim_machine m ON m.machine_key = fl.machine_key
+      WHERE c.component_code = ${component}
+    ), mach AS (
+      SELECT m.machine_key, m.engine_family, m.model_line, s.shop_code, s.climate_zone,
+             date_trunc('month', coalesce(m.build_date, m.delivery_date))::date AS build_month,
+             coalesce(nullif(m.heater_plug_lot, ''), 'none') AS lot,
+             coalesce(m.delivery_hours::double precision, 0) AS install_h, t.first_h, t.last_h
+      FROM dim_machine m JOIN dim_shop s ON s.shop_key = m.home_shop_key
+      JOIN (SELECT machine_key, min(engine_hours) AS first_h, max(engine_hours) AS last_h FROM v_engine_hours GROUP BY 1) t
+        ON t.machine_key = m.machine_key
+      WHERE m.engine_family IN (SELECT engine_family FROM fam)
+    )
+    SELECT m.machine_key, m.lot, m.shop_code, m.climate_zone, m.engine_family,
+           greatest(m.first_h - m.install_h, 0) AS start_age, m.last_h - m.install_h AS end_age,
+           (SELECT array_agg(fl.hour_meter::double precision - m.install_h ORDER BY fl.hour_meter)
+              FROM fact_repair_line fl JOIN dim_component c ON c.component_key = fl.component_key
+             WHERE fl.machine_key = m.machine_key AND c.component_code = ${component} AND fl.line_type = 'failure'
+               AND fl.hour_meter IS NOT NULL
+               ${f.from ? sql`AND fl.opened_date >= ${f.from}::date` : sql``}
+               ${f.to ? sql`AND fl.opened_date <= ${f.to}::date` : sql``}) AS ages
+    FROM mach m
+    WHERE m.last_h > m.install_h AND ${cohortConditions("m", scope, unitFilter)}
+  `.execute(db);
+  return res.rows.map((r) => {
+    const start = Number(r.start_age);
+    const end = Number(r.end_age);
+    return {
+      machineKey: Number(r.machine_key),
+      ages: (r.ages ?? []).map(Number).filter((a) => a > start && a <= end),
+      startAge: start,
+      endAge: end,
+      lot: r.lot,
+      shopCode: r.shop_code,
+      climateZone: r.climate_zone,
+      engineFamily: r.engine_family,
+    };
+  });
+}
