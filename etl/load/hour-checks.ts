@@ -41,15 +41,17 @@ export async function checkHourReadings(client: pg.PoolClient, spec: ReadingSpec
     )
     SELECT *, max(h) OVER (PARTITION BY machine_key, gen ORDER BY d RANGE BETWEEN UNBOUNDED PRECEDING AND '1 day' PRECEDING) AS prior_max
     FROM g`);
+  await client.query(`ANALYZE hr`);
 
   await client.query(`
     UPDATE stg s SET reject_code = 'hour_meter_backwards',
       reject_reason = format('hour meter %s h is lower than the %s h recorded for this machine on %s; if the meter was replaced, say so in the meter note',
         ${fmtSql("x.h")}, ${fmtSql("x.prior_max")}, x.prior_date)
     FROM (
-      SELECT b.row_no, b.h, b.prior_max,
-        (SELECT max(o.d) FROM hr o WHERE o.machine_key = b.machine_key AND o.gen = b.gen AND o.d < b.d AND o.h = b.prior_max) AS prior_date
-      FROM hr b WHERE b.row_no IS NOT NULL AND b.prior_max > b.h + ${BACKWARDS_TOLERANCE_H}
+      SELECT b.row_no, b.h, b.prior_max, max(o.d) AS prior_date
+      FROM hr b JOIN hr o ON o.machine_key = b.machine_key AND o.gen = b.gen AND o.d < b.d AND o.h = b.prior_max
+      WHERE b.row_no IS NOT NULL AND b.prior_max > b.h + ${BACKWARDS_TOLERANCE_H}
+      GROUP BY b.row_no, b.h, b.prior_max
     ) x
     WHERE s.row_no = x.row_no`);
 

@@ -155,6 +155,19 @@ function utcToday(): string {
   return new Date().toISOString().slice(0, 10);
 }
 
+/** ETL_TIMINGS=1 prints each statement's duration to stderr (for tuning; off by default). */
+function traceQueries(client: pg.PoolClient): void {
+  const original = client.query.bind(client) as (...a: unknown[]) => unknown;
+  (client as unknown as { query: (...a: unknown[]) => unknown }).query = (...args: unknown[]) => {
+    const t0 = Date.now();
+    const r = original(...args);
+    if (r instanceof Promise) {
+      void r.then(() => process.stderr.write(`${Date.now() - t0} ms  ${String(args[0]).replace(/\s+/g, " ").slice(0, 90)}\n`), () => undefined);
+    }
+    return r;
+  };
+}
+
 /** Loads one file; see the top of this module for the contract. */
 export async function loadFile(target: pg.Pool | string, opts: LoadFileOptions): Promise<BatchSummary> {
   const started = Date.now();
@@ -165,11 +178,14 @@ export async function loadFile(target: pg.Pool | string, opts: LoadFileOptions):
   const today = opts.today ?? utcToday();
   const pool = typeof target === "string" ? new pg.Pool({ connectionString: target, max: 1 }) : target;
   const client = await pool.connect();
+  if (process.env.ETL_TIMINGS) traceQueries(client);
   const startedAt = new Date();
   const fileName = path.basename(opts.path);
   let sha = "";
   try {
     await client.query("BEGIN");
+    // bulk merges sort and hash the whole file; give them room (transaction-local)
+    await client.query("SET LOCAL work_mem = '256MB'");
     await createStage(client, kind);
     const writer = new StageWriter(client, kind);
     const hash = createHash("sha256");
@@ -237,6 +253,8 @@ export async function loadFile(target: pg.Pool | string, opts: LoadFileOptions):
       throw e;
     }
     await writer.end();
+    // temp tables are never auto-analysed; without statistics the merges get nested-loop plans
+    await client.query("ANALYZE stg");
     if (header === null) throw new EtlFatalError("HEADER_NOT_RECOGNISED", `${fileName} has no header line`);
     sha = hash.digest("hex");
     opts.onProgress?.({ phase: "merging", rowsRead, bytesRead, totalBytes });

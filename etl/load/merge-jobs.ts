@@ -41,9 +41,7 @@ export async function mergeJobs(client: pg.PoolClient, batchId: number): Promise
 
   const accepted = await acceptedCount(client);
   await createChanged(client);
-  await client.query(
-    `WITH src AS (
-       SELECT ${RL_KEY} AS repair_line_key, sh.shop_key, s.ro_number, s.line_no, m.machine_key, c.component_key,
+  const src = `SELECT ${RL_KEY} AS repair_line_key, sh.shop_key, s.ro_number, s.line_no, m.machine_key, c.component_key,
          CASE WHEN s.failure_mode IS NULL THEN NULL ELSE wh_key('failure_mode|' || s.failure_mode) END AS failure_mode_key,
          CASE WHEN s.tech_id IS NULL THEN NULL ELSE wh_key('technician|' || s.shop_code || '|' || s.tech_id) END AS technician_key,
          CASE WHEN s.part_number IS NULL THEN NULL ELSE wh_key('part|' || s.part_number || '|' || COALESCE(s.supplier_lot, '')) END AS part_key,
@@ -55,22 +53,33 @@ export async function mergeJobs(client: pg.PoolClient, batchId: number): Promise
        JOIN dim_shop sh ON sh.shop_code = s.shop_code
        JOIN dim_machine m ON m.serial = s.serial
        JOIN dim_component c ON c.component_code = s.component_code
-       WHERE s.reject_code IS NULL
-     ),
-     hist AS (
-       INSERT INTO fact_repair_line_history (repair_line_key, prior_row, prior_batch_id, replaced_by_batch)
-       SELECT f.repair_line_key, to_jsonb(f), f.batch_id, $1
-       FROM fact_repair_line f JOIN src ON src.repair_line_key = f.repair_line_key
-       WHERE f.row_hash <> src.row_hash
-     ),
-     up AS (
-       INSERT INTO fact_repair_line AS f (${FACT_COLS.join(", ")})
-       SELECT ${FACT_COLS.join(", ")} FROM src
-       ON CONFLICT (repair_line_key) DO UPDATE SET ${UPDATABLE.map((c) => `${c} = excluded.${c}`).join(", ")}
-       WHERE f.row_hash <> excluded.row_hash
-       RETURNING f.repair_line_key, (xmax = 0) AS inserted
+       WHERE s.reject_code IS NULL`;
+  // prior versions first (same snapshot as the update that follows), then update changed rows, then insert new ones
+  await client.query(
+    `INSERT INTO fact_repair_line_history (repair_line_key, prior_row, prior_batch_id, replaced_by_batch)
+     SELECT f.repair_line_key, to_jsonb(f), f.batch_id, $1
+     FROM fact_repair_line f JOIN stg s ON f.repair_line_key = ${RL_KEY}
+     WHERE s.reject_code IS NULL AND f.row_hash <> s.row_hash`,
+    [batchId],
+  );
+  await client.query(
+    `WITH up AS (
+       UPDATE fact_repair_line f SET ${UPDATABLE.map((c) => `${c} = x.${c}`).join(", ")}
+       FROM (${src}) x
+       WHERE f.repair_line_key = x.repair_line_key AND f.row_hash <> x.row_hash
+       RETURNING f.repair_line_key
      )
-     INSERT INTO changed SELECT repair_line_key, inserted FROM up`,
+     INSERT INTO changed SELECT repair_line_key, false FROM up`,
+    [batchId],
+  );
+  await client.query(
+    `WITH ins AS (
+       INSERT INTO fact_repair_line (${FACT_COLS.join(", ")})
+       SELECT ${FACT_COLS.join(", ")} FROM (${src}) x
+       WHERE NOT EXISTS (SELECT 1 FROM fact_repair_line f WHERE f.repair_line_key = x.repair_line_key)
+       RETURNING repair_line_key
+     )
+     INSERT INTO changed SELECT repair_line_key, true FROM ins`,
     [batchId],
   );
 
@@ -83,19 +92,22 @@ export async function mergeJobs(client: pg.PoolClient, batchId: number): Promise
      GROUP BY 1, 2, 3`,
   );
 
-  await client.query(
-    `INSERT INTO fact_hour_reading AS r (hour_reading_key, machine_key, reading_date, hours, source, repair_line_key, meter_change,
-       meter_note, meter_generation, valid, invalid_reason, row_hash, batch_id)
-     SELECT wh_key(${HOUR_KEY_TEXT}), h.machine_key, s.opened_date, s.hour_meter, 'ro', ${RL_KEY}, s.meter_change, s.meter_note,
-       h.generation, h.valid, h.invalid_reason,
-       md5(concat_ws('|', s.serial, s.opened_date, s.hour_meter, s.meter_note, h.generation, h.valid)), $1
+  const readings = `SELECT wh_key(${HOUR_KEY_TEXT}) AS hour_reading_key, h.machine_key, s.opened_date AS reading_date, s.hour_meter AS hours,
+       'ro' AS source, ${RL_KEY} AS repair_line_key, s.meter_change, s.meter_note, h.generation AS meter_generation, h.valid, h.invalid_reason,
+       md5(concat_ws('|', s.serial, s.opened_date, s.hour_meter, s.meter_note, h.generation, h.valid)) AS row_hash, $1::bigint AS batch_id
      FROM stg s JOIN hr_out h ON h.row_no = s.row_no
-     WHERE s.reject_code IS NULL
-     ON CONFLICT (hour_reading_key) DO UPDATE SET machine_key = excluded.machine_key, reading_date = excluded.reading_date,
-       hours = excluded.hours, meter_change = excluded.meter_change, meter_note = excluded.meter_note,
-       meter_generation = excluded.meter_generation, valid = excluded.valid, invalid_reason = excluded.invalid_reason,
-       row_hash = excluded.row_hash, batch_id = excluded.batch_id
-     WHERE r.row_hash <> excluded.row_hash`,
+     WHERE s.reject_code IS NULL`;
+  const HR_COLS = ["hour_reading_key", "machine_key", "reading_date", "hours", "source", "repair_line_key", "meter_change", "meter_note",
+    "meter_generation", "valid", "invalid_reason", "row_hash", "batch_id"];
+  await client.query(
+    `UPDATE fact_hour_reading r SET ${HR_COLS.slice(1).map((c) => `${c} = x.${c}`).join(", ")}
+     FROM (${readings}) x WHERE r.hour_reading_key = x.hour_reading_key AND r.row_hash <> x.row_hash`,
+    [batchId],
+  );
+  await client.query(
+    `INSERT INTO fact_hour_reading (${HR_COLS.join(", ")})
+     SELECT ${HR_COLS.join(", ")} FROM (${readings}) x
+     WHERE NOT EXISTS (SELECT 1 FROM fact_hour_reading r WHERE r.hour_reading_key = x.hour_reading_key)`,
     [batchId],
   );
   return countChanges(client, accepted);
