@@ -89,35 +89,76 @@ export function meanCumulativeFunction(units: readonly RecurrentUnit[], options:
   const variance = options.variance ?? "lawless-nadeau";
   const confidenceType = options.confidenceType ?? "plain";
   const z = twoSidedZ(level);
-  const perUnit = units.map((u) => {
+
+  // Unit i's term of the robust variance is Sᵢ(t) = aᵢ − C(t) while it is observed, where
+  // C(t) = Σ_{t_k ≤ t} d_k/r_k² and aᵢ = C(startᵢ) + Σ (its repairs at t_k)/r_k; once its history ends Sᵢ is fixed.
+  // Keeping Σaᵢ and Σaᵢ² over the observed units gives Σᵢ Sᵢ² at each age without visiting every unit.
+  const ages = [...new Set(units.flatMap((u) => u.eventAges))].sort((x, y) => x - y);
+  const repairsAt = new Map<number, { unit: number; count: number }[]>();
+  units.forEach((u, unit) => {
     const counts = new Map<number, number>();
     for (const age of u.eventAges) counts.set(age, (counts.get(age) ?? 0) + 1);
-    return { start: u.startAge ?? 0, end: u.endAge, counts };
-  });
-  const ages = [...new Set(units.flatMap((u) => u.eventAges))].sort((a, b) => a - b);
-  const running = new Float64Array(units.length);
-  const steps: McfStep[] = [];
-  let mcf = 0;
-  let poissonVar = 0;
-  for (const age of ages) {
-    let atRisk = 0;
-    let events = 0;
-    for (const u of perUnit) {
-      if (u.start < age && age <= u.end) {
-        atRisk++;
-        events += u.counts.get(age) ?? 0;
-      }
+    for (const [age, count] of counts) {
+      const list = repairsAt.get(age);
+      if (list) list.push({ unit, count });
+      else repairsAt.set(age, [{ unit, count }]);
     }
-    const mean = events / atRisk;
-    mcf += mean;
-    poissonVar += events / (atRisk * atRisk);
-    let robustVar = 0;
-    perUnit.forEach((u, i) => {
-      if (u.start < age && age <= u.end) running[i] += ((u.counts.get(age) ?? 0) - mean) / atRisk;
-      robustVar += running[i] * running[i];
-    });
+  });
+  const byStart = units.map((u, i) => ({ i, at: u.startAge ?? 0 })).sort((x, y) => x.at - y.at);
+  const byEnd = units.map((u, i) => ({ i, at: u.endAge })).sort((x, y) => x.at - y.at);
+  /** C after each processed age, to look up C(start) and C(end) of units that start or end between ages. */
+  const cAfter: number[] = [];
+  const cAt = (age: number): number => {
+    let lo = 0;
+    let hi = cAfter.length;
+    while (lo < hi) {
+      const mid = (lo + hi) >>> 1;
+      if (ages[mid] <= age) lo = mid + 1;
+      else hi = mid;
+    }
+    return lo === 0 ? 0 : cAfter[lo - 1];
+  };
+  const a = new Float64Array(units.length);
+  let nextStart = 0;
+  let nextEnd = 0;
+  let observed = 0;
+  let sumA = 0;
+  let sumA2 = 0;
+  let finishedSquares = 0;
+  let c = 0;
+  let mcf = 0;
+  const steps: McfStep[] = [];
+  for (const age of ages) {
+    while (nextStart < byStart.length && byStart[nextStart].at < age) {
+      const i = byStart[nextStart++].i;
+      a[i] = cAt(units[i].startAge ?? 0);
+      observed++;
+      sumA += a[i];
+      sumA2 += a[i] * a[i];
+    }
+    while (nextEnd < byEnd.length && byEnd[nextEnd].at < age) {
+      const i = byEnd[nextEnd++].i;
+      const final = a[i] - cAt(units[i].endAge);
+      observed--;
+      sumA -= a[i];
+      sumA2 -= a[i] * a[i];
+      finishedSquares += final * final;
+    }
+    const repairs = repairsAt.get(age) ?? [];
+    const events = repairs.reduce((n, r) => n + r.count, 0);
+    const atRisk = observed;
+    mcf += events / atRisk;
+    c += events / (atRisk * atRisk);
+    cAfter.push(c);
+    for (const { unit, count } of repairs) {
+      const before = a[unit];
+      a[unit] += count / atRisk;
+      sumA += a[unit] - before;
+      sumA2 += a[unit] * a[unit] - before * before;
+    }
+    const robustVar = Math.max(0, finishedSquares + sumA2 - 2 * c * sumA + atRisk * c * c);
     const seLn = Math.sqrt(robustVar);
-    const sePoisson = Math.sqrt(poissonVar);
+    const sePoisson = Math.sqrt(c); // C(t) is also the Poisson-process variance Σ d/r²
     const stdError = variance === "poisson" ? sePoisson : seLn;
     steps.push({
       age,

@@ -79,7 +79,7 @@ export function brentRoot(f: (x: number) => number, a: number, b: number, option
 
 /**
  * Golden-section search for the maximum of a unimodal f on [lo, hi]; returns the arg max and the maximum.
- * Precision in x is about 1e-9 of the interval width, which is ample for profile likelihoods (flat at the top).
+ * Stops when the bracket is 1e-8 wide (relative): ample for profile likelihoods, whose error is quadratic in x.
  */
 export function goldenSectionMax(f: (x: number) => number, lo: number, hi: number): { x: number; value: number } {
   const g = (Math.sqrt(5) - 1) / 2;
@@ -89,7 +89,7 @@ export function goldenSectionMax(f: (x: number) => number, lo: number, hi: numbe
   let x2 = a + g * (b - a);
   let f1 = f(x1);
   let f2 = f(x2);
-  const stop = 1e-10 * Math.max(1, Math.abs(hi - lo));
+  const stop = 1e-8 * Math.max(1, Math.abs(hi - lo));
   while (b - a > stop) {
     if (f1 < f2) {
       a = x1;

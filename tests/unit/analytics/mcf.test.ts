@@ -70,17 +70,22 @@ describe("meanCumulativeFunction(units)", () => {
 });
 
 describe("meanCumulativeFunction(units) with delayed entry", () => {
-  it("counts a unit only after its start age (DOMAIN.md: n(t) = machines under observation; arithmetic written out)", () => {
-    // A: repairs at 5 and 20, observed 0–30. B: observed 10–30, repair at 20.
-    // At 5: r = 1 (B not yet observed), d = 1 → 1. At 20: r = 2, d = 2 → 1 + 1 = 2.
+  it("counts a unit only after its start age and until its end age, in the MCF and the robust variance (DOMAIN.md: n(t) = machines under observation; Lawless–Nadeau formula of REFERENCE case I; arithmetic written out)", () => {
+    // A: observed 0–30, repairs at 5 and 20. B: observed 10–30, none. C: observed 0–8, none.
+    // At 5: at risk A, C; d = 1 → M = 0.5; terms A +(1 − 0.5)/2 = 0.25, C −0.5/2 = −0.25.
+    // At 20: at risk A, B (C ended); d = 1 → M = 1.0; terms A +0.25, B −0.25.
+    // Var = S_A² + S_B² + S_C² = 0.5² + 0.25² + 0.25² = 0.375; Poisson Var = 1/4 + 1/4 = 0.5.
     const curve = meanCumulativeFunction([
       { id: "A", eventAges: [5, 20], endAge: 30 },
-      { id: "B", eventAges: [20], endAge: 30, startAge: 10 },
+      { id: "B", eventAges: [], endAge: 30, startAge: 10 },
+      { id: "C", eventAges: [], endAge: 8 },
     ]);
-    expect(curve.steps.map((s) => [s.atRisk, s.mcf])).toEqual([
-      [1, 1],
-      [2, 2],
+    expect(curve.steps.map((s) => [s.age, s.atRisk, s.mcf])).toEqual([
+      [5, 2, 0.5],
+      [20, 2, 1],
     ]);
+    expect(curve.steps[1].stdErrorLawlessNadeau).toBeCloseTo(Math.sqrt(0.375), 14);
+    expect(curve.steps[1].stdErrorPoisson).toBeCloseTo(Math.sqrt(0.5), 14);
   });
 });
 
