@@ -1,0 +1,44 @@
+import { execFile } from "node:child_process";
+import path from "node:path";
+import { promisify } from "node:util";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { freshTestDb, type TestDb } from "../helpers/test-db.js";
+import { dropTestDb, fixture } from "./helpers.js";
+
+const run = promisify(execFile);
+const root = path.resolve(import.meta.dirname, "../..");
+
+async function etl(url: string, args: string[]): Promise<{ code: number; stdout: string; stderr: string }> {
+  try {
+    const r = await run(process.execPath, ["--import", "tsx", "etl/cli.ts", ...args], { cwd: root, env: { ...process.env, DATABASE_URL: url } });
+    return { code: 0, ...r };
+  } catch (e) {
+    const x = e as { code: number; stdout: string; stderr: string };
+    return { code: x.code, stdout: x.stdout, stderr: x.stderr };
+  }
+}
+
+describe("npm run etl -- load", () => {
+  let t: TestDb;
+  beforeAll(async () => {
+    t = await freshTestDb();
+  });
+  afterAll(async () => dropTestDb(t));
+
+  it("prints one JSON object per line with a final summary per file when given --json", async () => {
+    const r = await etl(t.url, ["load", "--json", fixture("machines.csv")]);
+    expect(r.code).toBe(0);
+    const lines = r.stdout.trim().split("\n").map((l) => JSON.parse(l));
+    const summary = lines.at(-1);
+    expect(summary).toMatchObject({ event: "summary", file: fixture("machines.csv"), kind: "machines", profile: "generic-machines", read: 3, inserted: 3, updated: 0, unchanged: 0, rejected: 0 });
+  });
+
+  it("exits non-zero with a one-line message and loads nothing when the profile is unknown", async () => {
+    const r = await etl(t.url, ["load", "--profile", "no-such-profile", fixture("jobs-export-1.csv")]);
+    expect(r.code).not.toBe(0);
+    expect(r.stderr.trim().split("\n")).toHaveLength(1);
+    expect(r.stderr).toMatch(/unknown profile "no-such-profile"/);
+    const n = await t.pool.query(`SELECT count(*)::int AS n FROM fact_repair_line`);
+    expect(n.rows[0].n).toBe(0);
+  });
+});
