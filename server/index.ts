@@ -11,8 +11,17 @@ const { startStack } = await import("./stack.js");
 const { demoAccounts, DEMO_PASSWORD } = await import("./auth/demo-accounts.js");
 const { logger } = await import("./logger.js");
 
+const { loadDemo, warehouseIsEmpty } = await import("./demo/load-demo.js");
+const path = await import("node:path");
+
 const config = loadConfig();
 const stack = await startStack(config);
+
+if (config.loadDemo && (await warehouseIsEmpty(stack.db))) {
+  process.stdout.write("The warehouse is empty: loading the demo world (first start only)…\n");
+  const s = await loadDemo(stack.db, stack.pool, { dir: path.join(config.dataDir, "demo"), log: (l) => process.stdout.write(l + "\n") });
+  process.stdout.write(`Demo loaded: ${s.files} files, ${s.read.toLocaleString("en-US")} rows read, ${s.rejected.toLocaleString("en-US")} rejected with reasons, in ${s.seconds.toFixed(0)} s.\n`);
+}
 
 let stopping = false;
 const stop = async (signal: string) => {

@@ -2,9 +2,9 @@ import pg from "pg";
 import { Kysely, PostgresDialect } from "kysely";
 import type { Database } from "./schema.js";
 
-// date columns stay ISO strings ("2024-01-03"); bigint counts become numbers (safe below 2^53)
+// date columns stay ISO strings ("2024-01-03"). bigint stays a string (pg's default): warehouse keys are
+// 64-bit hashes beyond 2^53, so counts are converted with Number() where they are read.
 pg.types.setTypeParser(1082, (v: string) => v);
-pg.types.setTypeParser(20, (v: string) => Number(v));
 
 export type Db = Kysely<Database>;
 

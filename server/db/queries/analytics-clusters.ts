@@ -14,7 +14,7 @@ export interface ScanCellRow {
   hourBand: string;
   failures: number;
   engineHours: number;
-  repairLineKeys: number[];
+  repairLineKeys: string[];
 }
 
 /**
@@ -25,7 +25,7 @@ export interface ScanCellRow {
 export async function scanCells(db: Db, scope: ShopScope, f: AnalyticsFilters): Promise<ScanCellRow[]> {
   const res = await sql<{
     engine_family: string; build_month: string; lot: string; shop_code: string; temp_band: string; hour_band: string;
-    failures: number | null; engine_hours: number | null; keys: number[] | null;
+    failures: number | null; engine_hours: number | null; keys: string[] | null;
   }>`
     WITH fam AS (
       SELECT DISTINCT m.engine_family FROM fact_repair_line fl
@@ -57,6 +57,6 @@ export async function scanCells(db: Db, scope: ShopScope, f: AnalyticsFilters): 
     hourBand: r.hour_band,
     failures: Number(r.failures ?? 0),
     engineHours: Number(r.engine_hours ?? 0),
-    repairLineKeys: (r.keys ?? []).map(Number),
+    repairLineKeys: (r.keys ?? []).map(String),
   }));
 }

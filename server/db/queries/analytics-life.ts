@@ -5,7 +5,7 @@ import type { AnalyticsFilters } from "../../../shared/schemas/analytics-filters
 import { cohortConditions, failureRelation } from "./analytics-base.js";
 
 export interface LifeUnit {
-  machineKey: number;
+  machineKey: string;
   /** engine hours since the part was fitted */
   time: number;
   entry: number;
@@ -16,7 +16,7 @@ export interface LifeUnit {
   engineFamily: string;
   modelLine: string;
   buildMonth: string;
-  repairLineKey: number | null;
+  repairLineKey: string | null;
 }
 
 /**
@@ -30,8 +30,8 @@ export async function lifeUnits(db: Db, scope: ShopScope, f: AnalyticsFilters, c
   const ff: AnalyticsFilters = { ...f, components: [component], lots: [], tempBands: [], hourBands: [] };
   const unitFilter: AnalyticsFilters = { ...f, tempBands: [], hourBands: [] };
   const res = await sql<{
-    machine_key: number; start_h: number; end_h: number; entry_h: number; event: number; lot: string; shop_code: string;
-    climate_zone: string | null; engine_family: string; model_line: string; build_month: string; repair_line_key: number | null;
+    machine_key: string; start_h: number; end_h: number; entry_h: number; event: number; lot: string; shop_code: string;
+    climate_zone: string | null; engine_family: string; model_line: string; build_month: string; repair_line_key: string | null;
   }>`
     WITH fam AS (
       SELECT DISTINCT m.engine_family FROM fact_repair_line fl
@@ -77,7 +77,7 @@ export async function lifeUnits(db: Db, scope: ShopScope, f: AnalyticsFilters, c
   `.execute(db);
   return res.rows
     .map((r) => ({
-      machineKey: Number(r.machine_key),
+      machineKey: String(r.machine_key),
       time: Number(r.end_h) - Number(r.start_h),
       entry: Number(r.entry_h),
       event: (Number(r.event) === 1 ? 1 : 0) as 0 | 1,
@@ -87,13 +87,13 @@ export async function lifeUnits(db: Db, scope: ShopScope, f: AnalyticsFilters, c
       engineFamily: r.engine_family,
       modelLine: r.model_line,
       buildMonth: r.build_month,
-      repairLineKey: r.repair_line_key === null ? null : Number(r.repair_line_key),
+      repairLineKey: r.repair_line_key === null ? null : String(r.repair_line_key),
     }))
     .filter((u) => u.entry < u.time);
 }
 
 export interface RecurrenceRow {
-  machineKey: number;
+  machineKey: string;
   ages: number[];
   startAge: number;
   endAge: number;
@@ -112,7 +112,7 @@ export interface RecurrenceRow {
 export async function recurrences(db: Db, scope: ShopScope, f: AnalyticsFilters, component: string): Promise<RecurrenceRow[]> {
   const unitFilter: AnalyticsFilters = { ...f, tempBands: [], hourBands: [], lots: [] };
   const res = await sql<{
-    machine_key: number; ages: number[] | null; start_age: number; end_age: number; lot: string; shop_code: string;
+    machine_key: string; ages: number[] | null; start_age: number; end_age: number; lot: string; shop_code: string;
     climate_zone: string | null; engine_family: string;
   }>`
     WITH fam AS (
@@ -144,7 +144,7 @@ export async function recurrences(db: Db, scope: ShopScope, f: AnalyticsFilters,
     const start = Number(r.start_age);
     const end = Number(r.end_age);
     return {
-      machineKey: Number(r.machine_key),
+      machineKey: String(r.machine_key),
       ages: (r.ages ?? []).map(Number).filter((a) => a > start && a <= end),
       startAge: start,
       endAge: end,

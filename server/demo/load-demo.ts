@@ -1,0 +1,72 @@
+import path from "node:path";
+import { existsSync, readFileSync } from "node:fs";
+import type pg from "pg";
+import type { Db } from "../db/database.js";
+import { generateDemo, type Manifest } from "../../etl/demo/generate.js";
+import { shops as demoShops } from "../../etl/demo/scenario.js";
+import { loadFile } from "../../etl/load/load-file.js";
+import { upsertShops } from "../../etl/load/shops.js";
+import { refreshExposure } from "../db/derived/refresh-exposure.js";
+
+export interface DemoLoadSummary {
+  files: number;
+  read: number;
+  inserted: number;
+  rejected: number;
+  seconds: number;
+  exposureSeconds: number;
+}
+
+/** True when the warehouse holds no machines yet. */
+export async function warehouseIsEmpty(db: Db): Promise<boolean> {
+  const row = await db.selectFrom("dim_machine").select((eb) => eb.fn.countAll<number>().as("n")).executeTakeFirst();
+  return Number(row?.n ?? 0) === 0;
+}
+
+/**
+ * Generates the invented demo world into `dir` (unless a manifest with the same seed and scale is there),
+ * registers its shops, loads every export in the manifest's order through the ETL, names the technicians
+ * and rebuilds the exposure aggregate.
+ */
+export async function loadDemo(
+  db: Db,
+  pool: pg.Pool,
+  o: { dir: string; seed?: number; scale?: number; log?: (line: string) => void },
+): Promise<DemoLoadSummary> {
+  const started = performance.now();
+  const seed = o.seed ?? 1;
+  const scale = o.scale ?? 1;
+  const log = o.log ?? (() => {});
+  const manifestPath = path.join(o.dir, "manifest.json");
+  let manifest: Manifest | null = null;
+  if (existsSync(manifestPath)) {
+    const m = JSON.parse(readFileSync(manifestPath, "utf8")) as Manifest;
+    if (m.seed === seed && m.scale === scale) manifest = m;
+  }
+  if (!manifest) {
+    log(`Generating the demo world (seed ${seed}, scale ${scale})…`);
+    manifest = await generateDemo({ out: o.dir, seed, scale });
+  }
+  await upsertShops(
+    pool,
+    demoShops.map((s) => ({ code: s.code, name: s.town, town: s.town, climateZone: s.zone })),
+  );
+  const totals = { read: 0, inserted: 0, rejected: 0 };
+  for (const [i, f] of manifest.files.entries()) {
+    const s = await loadFile(pool, { path: path.join(o.dir, f.file), kind: f.kind, profile: f.profile, loadedBy: "demo" });
+    totals.read += s.read;
+    totals.inserted += s.inserted;
+    totals.rejected += s.rejected;
+    log(`  [${String(i + 1).padStart(2)}/${manifest.files.length}] ${f.file.padEnd(24)} read ${s.read}, inserted ${s.inserted}, rejected ${s.rejected}`);
+  }
+  for (const t of manifest.technicians) {
+    await db
+      .updateTable("dim_technician")
+      .set({ display_name: t.name })
+      .where("tech_id", "=", t.id)
+      .execute();
+  }
+  log("Rebuilding exposure by hour band and temperature band…");
+  const exp = await refreshExposure(db);
+  return { files: manifest.files.length, ...totals, seconds: (performance.now() - started) / 1000, exposureSeconds: exp.seconds };
+}
