@@ -1,7 +1,7 @@
 import { createHmac, randomBytes } from "node:crypto";
 import { createApp } from "../../server/app.js";
 import { createOidcClient } from "../../server/auth/oidc-client.js";
-import { freshTestDb, type TestDb } from "./test-db.js";
+import { freshDemoDb, freshTestDb, type TestDb } from "./test-db.js";
 import type { Role } from "../../shared/roles.js";
 import type { Db } from "../../server/db/database.js";
 
@@ -13,9 +13,12 @@ export interface TestApp extends TestDb {
   signInAs(user: { roles: Role[]; shops?: string[]; sub?: string; name?: string }): Promise<string>;
 }
 
-/** createApp over a fresh migrated database; sign-in goes through a stored session (tests/e2e walks real OIDC). */
-export async function testApp(): Promise<TestApp> {
-  const tdb = await freshTestDb();
+/**
+ * createApp over a fresh migrated database (with `demo: true`, one holding the demo world at scale 1);
+ * sign-in goes through a stored session (tests/e2e walks the real OIDC flow).
+ */
+export async function testApp(o: { demo?: boolean } = {}): Promise<TestApp> {
+  const tdb = o.demo ? await freshDemoDb() : await freshTestDb();
   const issuer = "http://127.0.0.1:9"; // never contacted by API tests
   const app = createApp({
     db: tdb.db,

@@ -1,5 +1,9 @@
 import pg from "pg";
-import { randomBytes } from "node:crypto";
+import { createHash, randomBytes } from "node:crypto";
+import { mkdtempSync, readdirSync, readFileSync, rmSync } from "node:fs";
+import { tmpdir } from "node:os";
+import path from "node:path";
+import { loadDemo } from "../../server/demo/load-demo.js";
 import { createDb, type Db } from "../../server/db/database.js";
 import { adminUrl, TEMPLATE_DB } from "./test-db-names.js";
 
@@ -21,6 +25,10 @@ export async function freshTestDb(): Promise<TestDb> {
   } finally {
     await admin.end();
   }
+  return open(name);
+}
+
+function open(name: string): TestDb {
   const url = adminUrl(name);
   const { db, pool } = createDb(url, 5);
   return {
@@ -36,4 +44,54 @@ export async function freshTestDb(): Promise<TestDb> {
       await c.end();
     },
   };
+}
+
+function sourceHash(): string {
+  const root = path.resolve(import.meta.dirname, "../..");
+  const h = createHash("sha256");
+  const walk = (dir: string) => {
+    for (const e of readdirSync(dir, { withFileTypes: true }).sort((a, b) => a.name.localeCompare(b.name))) {
+      const p = path.join(dir, e.name);
+      if (e.isDirectory()) walk(p);
+      else if (/\.(ts|json)$/.test(e.name)) h.update(p.slice(root.length)).update(readFileSync(p));
+    }
+  };
+  for (const d of ["etl", "migrations", "server/db/derived", "server/demo"]) walk(path.join(root, d));
+  return h.digest("hex").slice(0, 12);
+}
+
+/**
+ * A fresh database holding the demo world at scale 1 (seed 1). The first caller in a test cluster builds a
+ * template (about a minute) under an advisory lock; everyone else clones it in seconds. The template's name
+ * carries a hash of the ETL, generator and migration sources, so a change to them builds a new one.
+ */
+export async function freshDemoDb(): Promise<TestDb> {
+  const template = `ironledger_demo_${sourceHash()}`;
+  const admin = new pg.Client({ connectionString: adminUrl("postgres") });
+  await admin.connect();
+  try {
+    await admin.query("SELECT pg_advisory_lock(4242)");
+    const exists = await admin.query("SELECT 1 FROM pg_database WHERE datname = $1", [template]);
+    if (exists.rowCount === 0) {
+      await admin.query(`CREATE DATABASE ${template} TEMPLATE ${TEMPLATE_DB}`);
+      const { db, pool } = createDb(adminUrl(template), 5);
+      const dir = mkdtempSync(path.join(tmpdir(), "ironledger-demo-"));
+      try {
+        await loadDemo(db, pool, { dir, seed: 1, scale: 1 });
+      } catch (err) {
+        await db.destroy();
+        await admin.query(`DROP DATABASE IF EXISTS ${template} WITH (FORCE)`);
+        throw err;
+      } finally {
+        rmSync(dir, { recursive: true, force: true });
+      }
+      await db.destroy();
+    }
+    const name = `t_${randomBytes(6).toString("hex")}`;
+    await admin.query(`CREATE DATABASE ${name} TEMPLATE ${template}`);
+    return open(name);
+  } finally {
+    await admin.query("SELECT pg_advisory_unlock(4242)").catch(() => {});
+    await admin.end();
+  }
 }
