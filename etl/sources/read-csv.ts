@@ -58,6 +58,7 @@ export function headerCells(head: Buffer, profile: Profile): string[] {
  * Streams a CSV file through the profile's decoding: fs stream → sha256 + byte count → iconv-lite → csv-parse.
  * Yields the header first (line 1), then every record; rows the parser cannot read come back with `error`
  * so the caller can reject them instead of losing them. Memory stays flat in the file size.
+ * `line` is the record's last line in the file; blank lines are skipped and not counted.
  */
 export async function* readCsv(
   path: string,
@@ -75,23 +76,28 @@ export async function* readCsv(
     },
   });
   const skipped: CsvRecord[] = [];
+  let line = 0;
   const parser = parse({
     delimiter: profile.delimiter,
     relax_column_count: true,
     skip_empty_lines: true,
     skip_records_with_error: true,
-    info: true,
     on_skip: (err, raw) => {
-      skipped.push({ line: (err as { lines?: number } | undefined)?.lines ?? -1, fields: raw ? [raw] : [], error: err?.message ?? "unreadable row" });
+      line += 1 + (raw?.match(/\n/g)?.length ?? 0);
+      skipped.push({ line, fields: raw ? [raw.replace(/\r?\n$/, "")] : [], error: err?.message ?? "unreadable row" });
       return undefined;
     },
   });
   const source = createReadStream(path, { highWaterMark: 1 << 20 });
   source.on("error", (e) => parser.destroy(new EtlFatalError("FILE_UNREADABLE", `cannot read ${path}: ${e.message}`)));
   source.pipe(tap).pipe(iconv.decodeStream(ICONV[profile.encoding])).pipe(parser);
-  for await (const item of parser as AsyncIterable<{ record: string[]; info: { lines: number } }>) {
+  // line numbers are counted here (csv-parse's per-record info costs more than the parse): one per record,
+  // plus the line breaks inside quoted fields
+  for await (const record of parser as AsyncIterable<string[]>) {
     while (skipped.length) yield skipped.shift()!;
-    yield { line: item.info.lines, fields: item.record };
+    line += 1;
+    for (const f of record) if (f.includes("\n")) line += f.split("\n").length - 1;
+    yield { line, fields: record };
   }
   while (skipped.length) yield skipped.shift()!;
 }

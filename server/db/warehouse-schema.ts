@@ -1,11 +1,14 @@
 // Table interfaces for the star schema (dimensions dim_*, facts fact_*, ETL bookkeeping etl_*).
 // Kept in step with migrations/0002_create_warehouse.ts. Driver types (server/db/database.ts):
-// numeric → string, bigint → number, date → 'YYYY-MM-DD' string, timestamptz → Date.
+// numeric → string, bigint → string (keys are 64-bit hashes beyond 2^53), date → 'YYYY-MM-DD' string, timestamptz → Date.
 import type { ColumnType, Generated } from "kysely";
 
 /** pg numeric arrives as a string; accept numbers on write. */
 type Numeric = ColumnType<string, string | number, string | number>;
 type NullableNumeric = ColumnType<string | null, string | number | null | undefined, string | number | null>;
+/** pg bigint arrives as a string (keys are 64-bit hashes beyond 2^53); numbers are accepted on write. */
+type Bigint = ColumnType<string, string | number, string | number>;
+type NullableBigint = ColumnType<string | null, string | number | null | undefined, string | number | null>;
 /** Columns computed by PostgreSQL (GENERATED ALWAYS … STORED): readable, never written. */
 type Computed<T> = ColumnType<T, never, never>;
 
@@ -15,7 +18,7 @@ export type HourSource = "delivery" | "ro" | "pm" | "telematics" | "registry";
 export type MeasurementKindColumn = "compression" | "plug_resistance" | "rail_voltage" | "battery_voltage";
 
 export interface EtlBatchTable {
-  batch_id: Generated<number>;
+  batch_id: Generated<string>;
   file_name: string;
   sha256: string;
   profile: string;
@@ -34,7 +37,7 @@ export interface EtlBatchTable {
 }
 
 export interface EtlRejectTable {
-  batch_id: number;
+  batch_id: Bigint;
   row_number: number;
   raw_row: unknown;
   reason_code: string;
@@ -57,7 +60,7 @@ export interface DimDateTable {
 }
 
 export interface DimShopTable {
-  shop_key: number;
+  shop_key: Bigint;
   shop_code: string;
   name: string;
   region: string | null;
@@ -71,7 +74,7 @@ export interface DimShopTable {
 }
 
 export interface DimComponentTable {
-  component_key: number;
+  component_key: Bigint;
   component_code: string;
   name: string;
   system: string;
@@ -80,7 +83,7 @@ export interface DimComponentTable {
 }
 
 export interface DimFailureModeTable {
-  failure_mode_key: number;
+  failure_mode_key: Bigint;
   failure_mode_code: string;
   name: string;
 }
@@ -91,7 +94,7 @@ export interface DimFmiTable {
 }
 
 export interface DimMachineTable {
-  machine_key: number;
+  machine_key: Bigint;
   serial: string;
   model_code: string;
   model_line: string;
@@ -101,7 +104,7 @@ export interface DimMachineTable {
   build_date: string | null;
   delivery_date: string | null;
   delivery_hours: NullableNumeric;
-  home_shop_key: number | null;
+  home_shop_key: NullableBigint;
   heater_plug_lot: string | null;
   block_heater_fitted: Generated<boolean>;
   block_heater_date: string | null;
@@ -110,18 +113,18 @@ export interface DimMachineTable {
   warranty_engine_months: number | null;
   warranty_engine_hours: number | null;
   row_hash: string;
-  batch_id: number;
+  batch_id: Bigint;
 }
 
 export interface DimTechnicianTable {
-  technician_key: number;
-  shop_key: number;
+  technician_key: Bigint;
+  shop_key: Bigint;
   tech_id: string;
   display_name: string;
 }
 
 export interface DimPartTable {
-  part_key: number;
+  part_key: Bigint;
   part_number: string;
   supplier_lot: Generated<string>;
   description: string | null;
@@ -129,15 +132,15 @@ export interface DimPartTable {
 }
 
 export interface FactRepairLineTable {
-  repair_line_key: number;
-  shop_key: number;
+  repair_line_key: Bigint;
+  shop_key: Bigint;
   ro_number: string;
   line_no: number;
-  machine_key: number;
-  component_key: number;
-  failure_mode_key: number | null;
-  technician_key: number | null;
-  part_key: number | null;
+  machine_key: Bigint;
+  component_key: Bigint;
+  failure_mode_key: NullableBigint;
+  technician_key: NullableBigint;
+  part_key: NullableBigint;
   opened_date: string;
   closed_date: string | null;
   hour_meter: NullableNumeric;
@@ -165,32 +168,32 @@ export interface FactRepairLineTable {
   fault_codes_raw: string | null;
   ambient_temp_c: NullableNumeric;
   row_hash: string;
-  first_batch_id: number;
-  batch_id: number;
+  first_batch_id: Bigint;
+  batch_id: Bigint;
 }
 
 export interface FactRepairLineHistoryTable {
-  history_id: Generated<number>;
-  repair_line_key: number;
+  history_id: Generated<string>;
+  repair_line_key: Bigint;
   /** the fact row as it was before the correcting batch, as JSON */
   prior_row: unknown;
-  prior_batch_id: number;
-  replaced_by_batch: number;
+  prior_batch_id: Bigint;
+  replaced_by_batch: Bigint;
   replaced_at: ColumnType<Date, Date | undefined, Date>;
 }
 
 export interface FactFaultCodeTable {
-  repair_line_key: number;
+  repair_line_key: Bigint;
   spn: number;
   fmi: number;
   occurrences: Generated<number>;
 }
 
 export interface FactMeasurementTable {
-  measurement_key: number;
-  repair_line_key: number;
-  machine_key: number;
-  shop_key: number;
+  measurement_key: Bigint;
+  repair_line_key: Bigint;
+  machine_key: Bigint;
+  shop_key: Bigint;
   measured_date: string;
   kind: MeasurementKindColumn;
   /** cylinder or plug number; 0 when the reading has no position */
@@ -205,16 +208,16 @@ export interface FactMeasurementTable {
   raw_unit: string | null;
   conversion_rule: string;
   row_hash: string;
-  batch_id: number;
+  batch_id: Bigint;
 }
 
 export interface FactHourReadingTable {
-  hour_reading_key: number;
-  machine_key: number;
+  hour_reading_key: Bigint;
+  machine_key: Bigint;
   reading_date: string;
   hours: Numeric;
   source: HourSource;
-  repair_line_key: number | null;
+  repair_line_key: NullableBigint;
   meter_change: Generated<boolean>;
   meter_note: string | null;
   /** 0 until the first meter replacement, then 1, 2, … */
@@ -222,17 +225,17 @@ export interface FactHourReadingTable {
   valid: Generated<boolean>;
   invalid_reason: string | null;
   row_hash: string;
-  batch_id: number;
+  batch_id: Bigint;
 }
 
 export interface FactWeatherDayTable {
-  shop_key: number;
+  shop_key: Bigint;
   date: string;
   tmin_c: Numeric;
   tmax_c: NullableNumeric;
   source_unit: "C" | "F";
   row_hash: string;
-  batch_id: number;
+  batch_id: Bigint;
 }
 
 export interface WarehouseTables {

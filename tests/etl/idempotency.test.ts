@@ -44,9 +44,9 @@ describe("loadFile idempotency and atomicity", () => {
     expect(s).toMatchObject({ read: 3, inserted: 1, updated: 1, unchanged: 1, rejected: 0 });
 
     const r = await t.pool.query(`SELECT cause, closed_date, labor_hours, batch_id, first_batch_id FROM fact_repair_line WHERE ro_number = 'R-102'`);
-    expect(r.rows[0]).toEqual({ cause: "Relay contacts burnt", closed_date: "2024-01-08", labor_hours: "0.90", batch_id: s.batchId, first_batch_id: first.batchId });
+    expect(r.rows[0]).toEqual({ cause: "Relay contacts burnt", closed_date: "2024-01-08", labor_hours: "0.90", batch_id: String(s.batchId), first_batch_id: String(first.batchId) });
     const h = await t.pool.query(`SELECT prior_row->>'cause' AS cause, prior_batch_id, replaced_by_batch FROM fact_repair_line_history`);
-    expect(h.rows).toEqual([{ cause: "Relay stuck", prior_batch_id: first.batchId, replaced_by_batch: s.batchId }]);
+    expect(h.rows).toEqual([{ cause: "Relay stuck", prior_batch_id: String(first.batchId), replaced_by_batch: String(s.batchId) }]);
     const codes = await t.pool.query(
       `SELECT spn, fmi FROM fact_fault_code JOIN fact_repair_line USING (repair_line_key) WHERE ro_number = 'R-102' ORDER BY spn`,
     );
