@@ -4,7 +4,7 @@ import { tmpdir } from "node:os";
 import path from "node:path";
 import { loadConfig } from "../../server/config.js";
 import { startStack, type Stack } from "../../server/stack.js";
-import { freshTestDb, type TestDb } from "./test-db.js";
+import { freshDemoDb, freshTestDb, type TestDb } from "./test-db.js";
 
 export async function freePort(): Promise<number> {
   return await new Promise((resolve, reject) => {
@@ -24,9 +24,12 @@ export interface TestStack extends Stack {
   stop(): Promise<void>;
 }
 
-/** The whole product (app, local provider, SMTP and S3 fakes) on free loopback ports over a fresh database. */
-export async function startTestStack(env: Record<string, string> = {}): Promise<TestStack> {
-  const tdb = await freshTestDb();
+/**
+ * The whole product (app, local provider, SMTP and S3 fakes) on free loopback ports over a fresh database;
+ * with `demo: true` the database holds the demo world at scale 1.
+ */
+export async function startTestStack(env: Record<string, string> = {}, o: { demo?: boolean } = {}): Promise<TestStack> {
+  const tdb = o.demo ? await freshDemoDb() : await freshTestDb();
   const dataDir = mkdtempSync(path.join(tmpdir(), "ironledger-test-"));
   const port = await freePort();
   const config = loadConfig({

@@ -1,0 +1,25 @@
+import { useMemo } from "react";
+import { useSearchParams } from "react-router-dom";
+import { analyticsFiltersSchema, filtersToSearchParams, type AnalyticsFilters } from "@shared/schemas/analytics-filters";
+
+const FILTER_KEYS = ["from", "to", "shops", "engineFamilies", "modelLines", "components", "buildFrom", "buildTo", "lots", "tempBands", "hourBands"] as const;
+
+/**
+ * The shared analytics filters live in the URL search params, so a link reproduces a view and the filters
+ * carry across pages. Invalid params are dropped, not fatal.
+ */
+export function useFilters(): { filters: AnalyticsFilters; search: string; setFilters: (next: Partial<AnalyticsFilters>) => void } {
+  const [params, setParams] = useSearchParams();
+  const filters = useMemo(() => {
+    const raw = Object.fromEntries(FILTER_KEYS.map((k) => [k, params.get(k) ?? undefined]));
+    const parsed = analyticsFiltersSchema.safeParse(raw);
+    return parsed.success ? parsed.data : analyticsFiltersSchema.parse({});
+  }, [params]);
+  const search = filtersToSearchParams(filters).toString();
+  const setFilters = (next: Partial<AnalyticsFilters>) => {
+    const merged = filtersToSearchParams({ ...filters, ...next });
+    for (const [k, v] of params) if (!(FILTER_KEYS as readonly string[]).includes(k)) merged.set(k, v);
+    setParams(merged, { replace: true });
+  };
+  return { filters, search, setFilters };
+}
