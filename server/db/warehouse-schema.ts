@@ -255,4 +255,91 @@ export interface WarehouseTables {
   fact_measurement: FactMeasurementTable;
   fact_hour_reading: FactHourReadingTable;
   fact_weather_day: FactWeatherDayTable;
+  warranty_policy: WarrantyPolicyTable;
+  warranty_claim: WarrantyClaimTable;
+  warranty_claim_line: WarrantyClaimLineTable;
+  warranty_claim_audit: WarrantyClaimAuditTable;
+  warranty_attachment: WarrantyAttachmentTable;
+  warranty_send: WarrantySendTable;
+}
+
+// Warranty claims (migrations/0020_create_warranty.ts).
+export type ClaimKindColumn = "repair" | "campaign";
+export type ClaimStatusColumn = "draft" | "submitted" | "accepted" | "rejected" | "credited";
+export type SendStatusColumn = "sending" | "queued" | "sent" | "failed";
+
+export interface WarrantyPolicyTable {
+  engine_family: string;
+  claim_days: number;
+  part_retention_days: number;
+  warranty_email: string;
+  updated_at: ColumnType<Date, Date | undefined, Date>;
+}
+
+export interface WarrantyClaimTable {
+  claim_id: Generated<string>;
+  claim_number: string;
+  kind: ClaimKindColumn;
+  status: Generated<ClaimStatusColumn>;
+  title: string;
+  shop_code: string | null;
+  engine_family: string;
+  closed_date: string;
+  claim_days: number;
+  deadline: string;
+  amount_claimed: NullableNumeric;
+  amount_credited: NullableNumeric;
+  reason: string | null;
+  note: string | null;
+  cluster_id: string | null;
+  cluster_snapshot: unknown;
+  created_by: string;
+  created_by_name: string;
+  created_at: ColumnType<Date, Date | undefined, never>;
+  updated_at: ColumnType<Date, Date | undefined, Date>;
+  submitted_at: Date | null;
+  decided_at: Date | null;
+  credited_at: Date | null;
+}
+
+export interface WarrantyClaimLineTable {
+  claim_id: Bigint;
+  repair_line_key: Bigint;
+  shop_code: string;
+}
+
+export interface WarrantyClaimAuditTable {
+  audit_id: Generated<string>;
+  claim_id: Bigint;
+  at: ColumnType<Date, Date | undefined, never>;
+  actor_sub: string;
+  actor_name: string;
+  action: string;
+  changes: unknown;
+}
+
+export interface WarrantyAttachmentTable {
+  attachment_id: Generated<string>;
+  claim_id: Bigint;
+  s3_key: string;
+  content_type: string;
+  extension: string;
+  size_bytes: number;
+  original_name: string;
+  uploaded_by: string;
+  uploaded_at: ColumnType<Date, Date | undefined, never>;
+}
+
+export interface WarrantySendTable {
+  send_id: Generated<string>;
+  claim_id: Bigint;
+  to_address: string;
+  status: SendStatusColumn;
+  attempts: Generated<number>;
+  last_error: string | null;
+  message_id: string | null;
+  requested_by: string;
+  requested_at: ColumnType<Date, Date | undefined, never>;
+  updated_at: ColumnType<Date, Date | undefined, Date>;
+  sent_at: Date | null;
 }
