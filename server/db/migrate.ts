@@ -23,7 +23,8 @@ class FolderMigrationProvider implements MigrationProvider {
 
 /** Runs every pending migration in migrations/; throws with the failing migration's name. */
 export async function migrateToLatest(db: Kysely<any>): Promise<MigrationResultSet> {
-  const migrator = new Migrator({ db, provider: new FolderMigrationProvider() });
+  // Parallel work lands migrations out of number order; each still runs once, in name order.
+  const migrator = new Migrator({ db, provider: new FolderMigrationProvider(), allowUnorderedMigrations: true });
   const result = await migrator.migrateToLatest();
   if (result.error) {
     const failed = result.results?.find((r) => r.status === "Error")?.migrationName ?? "unknown";

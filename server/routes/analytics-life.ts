@@ -1,4 +1,4 @@
-import { Router } from "express";
+import { Router, type Request } from "express";
 import { allow, requireScope } from "../auth/require-user.js";
 import type { Db } from "../db/database.js";
 import { analyticsFiltersSchema } from "../../shared/schemas/analytics-filters.js";
@@ -17,6 +17,8 @@ import { weibullLine } from "../analytics/weibull-band.js";
 import { kaplanMeier, logRankTest } from "../analytics/kaplan-meier.js";
 import { meanCumulativeFunction, mcfSlope } from "../analytics/mcf.js";
 import { ANALYTICS_ROLES } from "./analytics-rates.js";
+import { ResultCache } from "../services/result-cache.js";
+import { dataVersion } from "../db/queries/data-version.js";
 
 type Grouped<T> = { label: string; items: T[] }[];
 
@@ -55,8 +57,12 @@ const thin = <T,>(rows: T[], max: number): T[] => (rows.length <= max ? rows : r
 export function analyticsLifeRoutes(db: Db): Router {
   const router = Router();
   router.use(allow(...ANALYTICS_ROLES));
+  // Fits and curves change only when the warehouse does: cache each answer per request and data version.
+  const cache = new ResultCache<unknown>(200);
+  const cached = async <T,>(req: Request, compute: () => Promise<T>): Promise<T> =>
+    (await cache.get(JSON.stringify([req.path, requireScope(req), req.query]), await dataVersion(db), compute)) as T;
 
-  const load = async (req: Parameters<Parameters<typeof router.get>[1]>[0]) => {
+  const load = async (req: Request) => {
     const f = analyticsFiltersSchema.parse(req.query);
     const q = lifeQuerySchema.parse(req.query);
     const cold = q.compareBy === "climate" ? await coldShopCodes(db) : new Set<string>();
@@ -64,6 +70,9 @@ export function analyticsLifeRoutes(db: Db): Router {
   };
 
   router.get("/weibull", async (req, res) => {
+    res.json(await cached(req, () => weibull(req)));
+  });
+  const weibull = async (req: Request): Promise<WeibullResponse> => {
     const { f, q, cold } = await load(req);
     const units = await lifeUnits(db, requireScope(req), f, q.component);
     const groups = split<LifeUnit>(units, q, cold);
@@ -95,10 +104,13 @@ export function analyticsLifeRoutes(db: Db): Router {
         };
       }
     }
-    res.json(body);
-  });
+    return body;
+  };
 
   router.get("/kaplan-meier", async (req, res) => {
+    res.json(await cached(req, () => km(req)));
+  });
+  const km = async (req: Request): Promise<KaplanMeierResponse> => {
     const { f, q, cold } = await load(req);
     const groups = split<LifeUnit>(await lifeUnits(db, requireScope(req), f, q.component), q, cold);
     let logRank: KaplanMeierResponse["logRank"] = null;
@@ -120,10 +132,13 @@ export function analyticsLifeRoutes(db: Db): Router {
       }),
       logRank,
     };
-    res.json(body);
-  });
+    return body;
+  };
 
   router.get("/mcf", async (req, res) => {
+    res.json(await cached(req, () => mcf(req)));
+  });
+  const mcf = async (req: Request): Promise<McfResponse> => {
     const f = analyticsFiltersSchema.parse(req.query);
     const q = lifeQuerySchema.parse({ component: "HYD-LIN-HOSE", ...req.query });
     const cold = q.compareBy === "climate" ? await coldShopCodes(db) : new Set<string>();
@@ -143,7 +158,7 @@ export function analyticsLifeRoutes(db: Db): Router {
         };
       }),
     };
-    res.json(body);
-  });
+    return body;
+  };
   return router;
 }

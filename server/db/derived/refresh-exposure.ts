@@ -62,6 +62,12 @@ export async function refreshExposure(db: Db): Promise<{ rows: number; seconds: 
       GROUP BY 1, 2, 3, 4, 5, 6, 7, 8
     `.execute(trx);
     const n = Number(res.numAffectedRows ?? 0);
+    await sql`TRUNCATE agg_exposure_fleet`.execute(trx);
+    await sql`
+      INSERT INTO agg_exposure_fleet (engine_family, model_line, shop_key, month, temp_band, hour_band, machine_days, engine_hours)
+      SELECT engine_family, model_line, shop_key, month, temp_band, hour_band, sum(machine_days), sum(engine_hours)
+      FROM agg_exposure GROUP BY 1, 2, 3, 4, 5, 6
+    `.execute(trx);
     const batch = await sql<{ b: number | null }>`SELECT max(batch_id)::bigint AS b FROM etl_batch`.execute(trx);
     await sql`
       INSERT INTO agg_refresh (name, refreshed_at, last_batch, rows, seconds)

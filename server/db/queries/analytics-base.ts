@@ -34,13 +34,17 @@ export function cohortConditions(t: string, scope: ShopScope, f: AnalyticsFilter
   return and(parts);
 }
 
-/** Exposure rows (agg_exposure with the shop code) inside the date window. */
-export function exposureRelation(scope: ShopScope, f: AnalyticsFilters): RawBuilder<unknown> {
+/**
+ * Exposure rows with the shop code inside the date window: agg_exposure when the query needs the build
+ * cohort or the lot (or `cube` is set), otherwise the much smaller agg_exposure_fleet.
+ */
+export function exposureRelation(scope: ShopScope, f: AnalyticsFilters, cube = false): RawBuilder<unknown> {
   const window: RawBuilder<unknown>[] = [];
   if (f.from) window.push(sql`e.month >= date_trunc('month', ${f.from}::date)::date`);
   if (f.to) window.push(sql`e.month <= ${f.to}::date`);
+  const table = cube || f.lots.length || f.buildFrom || f.buildTo ? sql`agg_exposure` : sql`agg_exposure_fleet`;
   return sql`(
-    SELECT * FROM (SELECT e.*, s.shop_code FROM agg_exposure e JOIN dim_shop s ON s.shop_key = e.shop_key WHERE ${and(window)}) x
+    SELECT * FROM (SELECT e.*, s.shop_code FROM ${table} e JOIN dim_shop s ON s.shop_key = e.shop_key WHERE ${and(window)}) x
     WHERE ${cohortConditions("x", scope, f)}
   )`;
 }

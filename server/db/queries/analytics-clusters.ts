@@ -33,7 +33,7 @@ export async function scanCells(db: Db, scope: ShopScope, f: AnalyticsFilters): 
       WHERE c.component_code IN (${sql.join(f.components.map((c) => sql`${c}`))})
     ), e AS (
       SELECT engine_family, build_month, lot, shop_code, temp_band, hour_band, sum(engine_hours) AS engine_hours
-      FROM ${exposureRelation(scope, f)} ex WHERE engine_family IN (SELECT engine_family FROM fam)
+      FROM ${exposureRelation(scope, f, true)} ex WHERE engine_family IN (SELECT engine_family FROM fam)
       GROUP BY 1, 2, 3, 4, 5, 6
     ), fl AS (
       SELECT engine_family, build_month, lot, shop_code, temp_band, hour_band, count(*) AS failures,
