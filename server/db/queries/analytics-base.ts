@@ -76,12 +76,14 @@ export function failureRelation(scope: ShopScope, f: AnalyticsFilters): RawBuild
       JOIN dim_machine m ON m.machine_key = fl.machine_key
       JOIN dim_shop s ON s.shop_key = m.home_shop_key
       LEFT JOIN fact_weather_day w ON w.shop_key = m.home_shop_key AND w.date = fl.opened_date
-      LEFT JOIN LATERAL (
-        SELECT p.opened_date AS repl_date, coalesce(nullif(p.supplier_lot, ''), 'replacement') AS repl_lot
-        FROM fact_repair_line p JOIN dim_component pc ON pc.component_key = p.component_key
-        WHERE p.machine_key = fl.machine_key AND pc.component_code = ${HEATER_PLUG} AND p.line_type = 'failure'
-        ORDER BY p.opened_date LIMIT 1
-      ) r ON TRUE
+      LEFT JOIN (
+        SELECT DISTINCT ON (p.machine_key) p.machine_key, p.opened_date AS repl_date,
+               coalesce(nullif(p.supplier_lot, ''), 'replacement') AS repl_lot
+        FROM fact_repair_line p
+        WHERE p.line_type = 'failure'
+          AND p.component_key = (SELECT component_key FROM dim_component WHERE component_code = ${HEATER_PLUG})
+        ORDER BY p.machine_key, p.opened_date
+      ) r ON r.machine_key = fl.machine_key
       WHERE ${and(window)}
         AND NOT EXISTS (
           SELECT 1 FROM fact_repair_line p
