@@ -4,6 +4,9 @@ import os from "node:os";
 import pg from "pg";
 import { EtlFatalError } from "./errors.js";
 import { loadFile, type BatchSummary, type LoadProgress } from "./load/load-file.js";
+import { Kysely, PostgresDialect } from "kysely";
+import type { Database } from "../server/db/schema.js";
+import { refreshExposure } from "../server/db/derived/refresh-exposure.js";
 import { exportKindSchema, type ExportKind } from "./profiles/profile-schema.js";
 
 // A thin shell over etl/load/load-file.ts: parse arguments, load each file, print progress and a summary.
@@ -25,6 +28,7 @@ async function load(files: string[], o: { kind?: ExportKind; profile?: string; s
   const pool = new pg.Pool({ connectionString: defaultUrl(), max: 2 });
   const tty = !o.json && process.stderr.isTTY;
   const loadedBy = `cli:${os.userInfo().username}`;
+  let changed = false;
   try {
     for (const file of files) {
       const bar = tty ? new cliProgress.SingleBar({ format: `${file} [{bar}] {percentage}% | {rows} rows | {rate} rows/s | {phase}`, stream: process.stderr }, cliProgress.Presets.shades_classic) : null;
@@ -43,6 +47,7 @@ async function load(files: string[], o: { kind?: ExportKind; profile?: string; s
       try {
         const s = await loadFile(pool, { path: file, kind: o.kind, profile: o.profile, shop: o.shop, loadedBy, onProgress });
         bar?.stop();
+        if (s.inserted + s.updated > 0) changed = true;
         if (o.json) {
           const { file: _f, kind, profile, read, inserted, updated, unchanged, rejected, ...rest } = s;
           process.stdout.write(JSON.stringify({ event: "summary", file, kind, profile, read, inserted, updated, unchanged, rejected, ...rest }) + "\n");
@@ -59,7 +64,14 @@ async function load(files: string[], o: { kind?: ExportKind; profile?: string; s
     }
     return 0;
   } finally {
-    await pool.end();
+    // The analytics read exposure from a derived table: rebuild it once after the files that changed something.
+    const db = new Kysely<Database>({ dialect: new PostgresDialect({ pool }) });
+    if (changed) {
+      const r = await refreshExposure(db);
+      if (o.json) process.stdout.write(JSON.stringify({ event: "exposure_rebuilt", rows: r.rows, seconds: r.seconds }) + "\n");
+      else process.stderr.write(`Exposure rebuilt: ${r.rows} rows in ${r.seconds.toFixed(1)} s\n`);
+    }
+    await db.destroy();
   }
 }
 

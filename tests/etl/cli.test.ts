@@ -29,7 +29,8 @@ describe("npm run etl -- load", () => {
     const r = await etl(t.url, ["load", "--json", fixture("machines.csv")]);
     expect(r.code).toBe(0);
     const lines = r.stdout.trim().split("\n").map((l) => JSON.parse(l));
-    const summary = lines.at(-1);
+    const summary = lines.filter((l) => l.event === "summary").at(-1);
+    expect(lines.at(-1)).toMatchObject({ event: "exposure_rebuilt" }); // once, after the files that changed something
     expect(summary).toMatchObject({ event: "summary", file: fixture("machines.csv"), kind: "machines", profile: "generic-machines", read: 3, inserted: 3, updated: 0, unchanged: 0, rejected: 0 });
   });
 
