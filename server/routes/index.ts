@@ -4,6 +4,9 @@ import { shopRoutes } from "./shops.js";
 import { analyticsRateRoutes } from "./analytics-rates.js";
 import { analyticsLifeRoutes } from "./analytics-life.js";
 import { analyticsClusterRoutes } from "./analytics-clusters.js";
+import { repairCsvRoutes, repairRoutes } from "./repairs.js";
+import { overviewRoutes } from "./overview.js";
+import { clusterDetailRoutes } from "./analytics-cluster-detail.js";
 
 /** Mounts the resource routers under /api. Each router declares its roles with allow(). */
 export function apiRoutes(db: Db): Router {
@@ -12,5 +15,9 @@ export function apiRoutes(db: Db): Router {
   router.use("/analytics/rates", analyticsRateRoutes(db));
   router.use("/analytics/life", analyticsLifeRoutes(db));
   router.use("/analytics/clusters", analyticsClusterRoutes(db));
+  router.use("/analytics/clusters", clusterDetailRoutes(db));
+  router.use("/repairs.csv", repairCsvRoutes(db));
+  router.use("/repairs", repairRoutes(db));
+  router.use("/overview", overviewRoutes(db));
   return router;
 }

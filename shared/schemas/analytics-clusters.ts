@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { repairRowSchema } from "./repairs.js";
 
 export const clusterQuerySchema = z.object({
   /** component codes to scan; default: the cold-start aids */
@@ -7,6 +8,7 @@ export const clusterQuerySchema = z.object({
   standardise: z.enum(["hour", "hour+temperature"]).default("hour+temperature"),
   limit: z.coerce.number().int().min(1).max(200).default(50),
 });
+export type ClusterQuery = z.infer<typeof clusterQuerySchema>;
 
 const monthRange = z.object({ from: z.string(), to: z.string() });
 export const clusterDimensionsSchema = z.object({
@@ -46,3 +48,32 @@ export const clusterListSchema = z.object({
   clusters: z.array(clusterSchema),
 });
 export type ClusterList = z.infer<typeof clusterListSchema>;
+
+const bandCount = z.object({ band: z.string(), inCluster: z.number(), elsewhere: z.number() });
+
+/** GET /api/analytics/clusters/:id (same query parameters as the list, so the scan is the same) */
+export const clusterDetailSchema = z.object({
+  cluster: clusterSchema,
+  components: z.array(z.string()),
+  method: z.string(),
+  caution: z.string(),
+  lines: z.array(repairRowSchema),
+  machines: z.array(
+    z.object({
+      serial: z.string(),
+      modelLine: z.string(),
+      engineFamily: z.string(),
+      homeShop: z.string(),
+      buildDate: z.string().nullable(),
+      lot: z.string(),
+      failures: z.number(),
+      firstFailure: z.string(),
+      lastFailure: z.string(),
+    }),
+  ),
+  timeline: z.array(z.object({ month: z.string(), failures: z.number() })),
+  /** the cluster's failures by band beside the other failures of the components scanned (same filters) */
+  temperatureProfile: z.array(bandCount),
+  hourProfile: z.array(bandCount),
+});
+export type ClusterDetail = z.infer<typeof clusterDetailSchema>;

@@ -1,0 +1,74 @@
+import { z } from "zod";
+import { rateSchema } from "./analytics-rates.js";
+import { clusterSchema } from "./analytics-clusters.js";
+
+const loadSchema = z.object({
+  batchId: z.string(),
+  fileName: z.string(),
+  kind: z.string(),
+  status: z.string(),
+  finishedAt: z.string().nullable(),
+  rowsRead: z.number(),
+  rowsInserted: z.number(),
+  rowsUpdated: z.number(),
+  rowsUnchanged: z.number(),
+  rowsRejected: z.number(),
+});
+
+const headlineSchema = z.object({
+  label: z.string(),
+  components: z.array(z.string()),
+  thisYear: z.object({ failures: z.number(), engineHours: z.number(), rate: rateSchema.nullable() }),
+  lastYear: z.object({ failures: z.number(), engineHours: z.number(), rate: rateSchema.nullable() }),
+  /** this year's rate ÷ last year's; null when either is missing */
+  change: z.number().nullable(),
+});
+export type Headline = z.infer<typeof headlineSchema>;
+
+/** GET /api/overview */
+export const overviewSchema = z.object({
+  loads: z.array(
+    z.object({
+      /** null: files spanning the group (machine master, telematics hours) */
+      shopCode: z.string().nullable(),
+      shopName: z.string(),
+      lastFinishedAt: z.string().nullable(),
+      rowsRead: z.number(),
+      rowsRejected: z.number(),
+      files: z.array(loadSchema),
+    }),
+  ),
+  headlines: z.object({
+    /** the twelve months ending with the last month of data, and the twelve before ('YYYY-MM') */
+    thisYear: z.object({ from: z.string(), to: z.string() }).nullable(),
+    lastYear: z.object({ from: z.string(), to: z.string() }).nullable(),
+    rows: z.array(headlineSchema),
+    method: z.string(),
+  }),
+  clusters: z.object({
+    firstVisit: z.boolean(),
+    previousVisitAt: z.string().nullable(),
+    total: z.number(),
+    /** clusters in the current scan that the previous visit did not show (every cluster on a first visit) */
+    newSinceLastVisit: z.array(clusterSchema.omit({ repairLineIds: true })),
+  }),
+  attention: z.object({
+    windowEnd: z.string().nullable(),
+    definition: z.string(),
+    machines: z.array(
+      z.object({
+        serial: z.string(),
+        modelLine: z.string(),
+        engineFamily: z.string(),
+        homeShop: z.string().nullable(),
+        failures: z.number(),
+        comebacks: z.number(),
+        repeatComponents: z.array(z.string()),
+        lastOpened: z.string(),
+        lastRepairId: z.string(),
+        score: z.number(),
+      }),
+    ),
+  }),
+});
+export type Overview = z.infer<typeof overviewSchema>;
