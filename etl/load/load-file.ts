@@ -177,6 +177,7 @@ export async function loadFile(target: pg.Pool | string, opts: LoadFileOptions):
   const totalBytes = checkReadable(opts.path);
   const today = opts.today ?? utcToday();
   const pool = typeof target === "string" ? new pg.Pool({ connectionString: target, max: 1 }) : target;
+  if (typeof target === "string") pool.on("error", () => {}); // an idle client closed by the server is simply dropped
   const client = await pool.connect();
   if (process.env.ETL_TIMINGS) traceQueries(client);
   const startedAt = new Date();

@@ -1,6 +1,7 @@
 import pg from "pg";
 import { Kysely, PostgresDialect } from "kysely";
 import type { Database } from "./schema.js";
+import { logger } from "../logger.js";
 
 // date columns stay ISO strings ("2024-01-03"). bigint stays a string (pg's default): warehouse keys are
 // 64-bit hashes beyond 2^53, so counts are converted with Number() where they are read.
@@ -9,7 +10,11 @@ pg.types.setTypeParser(1082, (v: string) => v);
 export type Db = Kysely<Database>;
 
 export function createPool(connectionString: string, max = 10): pg.Pool {
-  return new pg.Pool({ connectionString, max });
+  const pool = new pg.Pool({ connectionString, max });
+  // An idle client whose server connection ends (restart, database dropped) must not crash the process;
+  // the pool discards it and the next query opens a new connection.
+  pool.on("error", (err) => logger.warn({ err: err.message }, "idle database connection closed"));
+  return pool;
 }
 
 export function createDb(connectionString: string, max = 10): { db: Db; pool: pg.Pool } {
