@@ -15,6 +15,10 @@ import { healthRoutes } from "./routes/health.js";
 import { meRoutes } from "./routes/me.js";
 import { adminUserRoutes } from "./routes/admin-users.js";
 import { apiRoutes } from "./routes/index.js";
+import { adminMailRoutes } from "./routes/admin-mail.js";
+import type { Storage } from "./services/storage.js";
+import type { Mailer } from "./services/mailer.js";
+import type PgBoss from "pg-boss";
 
 export interface AppDeps {
   db: Db;
@@ -28,6 +32,14 @@ export interface AppDeps {
   shopsClaim: string;
   /** folder of the built client (dist/); omitted in API-only tests */
   staticDir?: string;
+  /** object storage for claim attachments; omitted in API tests that attach nothing */
+  storage?: Storage;
+  /** outgoing mail for claim packets */
+  mailer?: Mailer;
+  /** where the local SMTP fake keeps captured mail; null or omitted with a real mail server */
+  mailDir?: string | null;
+  /** the job queue that retries failed packet sends */
+  boss?: PgBoss | null;
 }
 
 /** Builds the Express app without listening: index.ts and the tests both use it. */
@@ -69,7 +81,8 @@ export function createApp(d: AppDeps): express.Express {
   app.use("/api/health", healthRoutes(d.db));
   app.use("/api/me", meRoutes());
   app.use("/api/admin/users", adminUserRoutes(d.db));
-  app.use("/api", apiRoutes(d.db));
+  app.use("/api/admin/mail", adminMailRoutes(d.mailDir ?? null));
+  app.use("/api", apiRoutes(d.db, { storage: d.storage, mailer: d.mailer, boss: d.boss }));
   app.use("/api", apiNotFound);
 
   if (d.staticDir && existsSync(path.join(d.staticDir, "index.html"))) {

@@ -13,6 +13,8 @@ import { startS3Fake } from "./dev/s3-fake.js";
 import { createStorage, type Storage } from "./services/storage.js";
 import { createMailer, type Mailer } from "./services/mailer.js";
 import { logger } from "./logger.js";
+import PgBoss from "pg-boss";
+import { startSendWorker } from "./warranty/send.js";
 import type pg from "pg";
 
 export interface Stack {
@@ -88,6 +90,13 @@ export async function startStack(config: Config, opts: { staticDir?: string } = 
     const storage = createStorage(s3);
     await storage.ensureBucket();
 
+    // the job queue (its own schema in the same database) that retries claim packets the mail server refused
+    const boss = new PgBoss({ connectionString: config.databaseUrl, max: 3 });
+    boss.on("error", (err) => logger.warn({ err }, "job queue error"));
+    await boss.start();
+    closers.push(() => boss.stop({ graceful: false, wait: true, timeout: 5000 }));
+    await startSendWorker({ db, mailer, storage, boss });
+
     const app = createApp({
       db,
       pool,
@@ -99,6 +108,10 @@ export async function startStack(config: Config, opts: { staticDir?: string } = 
       rolesClaim: config.oidc.rolesClaim,
       shopsClaim: config.oidc.shopsClaim,
       staticDir: opts.staticDir ?? path.join(projectRoot, "dist"),
+      storage,
+      mailer,
+      mailDir,
+      boss,
     });
     const server = await listen(app, config.port, config.host);
     closers.push(() => closeServer(server));

@@ -4,17 +4,19 @@ import { shopRoutes } from "./shops.js";
 import { analyticsRateRoutes } from "./analytics-rates.js";
 import { analyticsLifeRoutes } from "./analytics-life.js";
 import { analyticsClusterRoutes } from "./analytics-clusters.js";
+import { claimRoutes, type ClaimRouteDeps } from "./claims.js";
 import { repairCsvRoutes, repairRoutes } from "./repairs.js";
 import { overviewRoutes } from "./overview.js";
 import { clusterDetailRoutes } from "./analytics-cluster-detail.js";
 
 /** Mounts the resource routers under /api. Each router declares its roles with allow(). */
-export function apiRoutes(db: Db): Router {
+export function apiRoutes(db: Db, services: Omit<ClaimRouteDeps, "db"> = {}): Router {
   const router = Router();
   router.use("/shops", shopRoutes(db));
   router.use("/analytics/rates", analyticsRateRoutes(db));
   router.use("/analytics/life", analyticsLifeRoutes(db));
   router.use("/analytics/clusters", analyticsClusterRoutes(db));
+  router.use("/claims", claimRoutes({ db, ...services }));
   router.use("/analytics/clusters", clusterDetailRoutes(db));
   router.use("/repairs.csv", repairCsvRoutes(db));
   router.use("/repairs", repairRoutes(db));

@@ -1,0 +1,121 @@
+import { classifyPlug, classifyRailVoltage, summariseCompression } from "../../shared/measurement-interpretation.js";
+import type { EligibilityView, Interpretation, RepairLineEvidence } from "../../shared/schemas/claims.js";
+import type { FaultCodeRow, MeasurementRow, RepairLineRow } from "../db/queries/claims.js";
+import { coverageClassFor, eligibility, termsFor } from "./eligibility.js";
+import { filingDeadline } from "./deadline.js";
+
+const num = (v: string | number | null | undefined): number | null => (v === null || v === undefined || v === "" ? null : Number(v));
+
+/** Rail voltages at or near zero with an open-circuit/low-voltage code point at the fuse or relay (FMI 4/5, from memory). */
+const hasPreheatCode = (faults: readonly FaultCodeRow[]) => faults.some((f) => f.fmi === 4 || f.fmi === 5);
+
+/**
+ * The readings of one repair line, interpreted: compression per cylinder (mean of attempts, average,
+ * lowest, spread, pattern), each heater plug's resistance against its siblings, rail and battery voltage.
+ */
+export function interpretMeasurements(ms: readonly MeasurementRow[], faults: readonly FaultCodeRow[]): Interpretation {
+  const byPos = new Map<number, number[]>();
+  for (const m of ms.filter((x) => x.kind === "compression" && x.value !== null)) {
+    byPos.set(m.position, [...(byPos.get(m.position) ?? []), Number(m.value)]);
+  }
+  const compression = summariseCompression([...byPos].map(([position, attempts]) => ({ position, attempts })));
+  const plugRows = ms.filter((x) => x.kind === "plug_resistance");
+  const plugOhms = plugRows.map((p) => (p.over_range ? null : num(p.value)));
+  const plugs = plugRows.map((p, i) => {
+    const c = classifyPlug(plugOhms[i], plugOhms.filter((_, j) => j !== i));
+    return { position: p.position, ohms: plugOhms[i], raw: `${p.raw_value}${p.raw_unit ? ` ${p.raw_unit}` : ""}`, ...c };
+  });
+  const rail = ms
+    .filter((x) => x.kind === "rail_voltage" && x.value !== null)
+    .map((r) => ({ volts: Number(r.value), raw: `${r.raw_value}${r.raw_unit ? ` ${r.raw_unit}` : ""}`, ...classifyRailVoltage(Number(r.value), hasPreheatCode(faults)) }));
+  const battery = ms
+    .filter((x) => x.kind === "battery_voltage" && x.value !== null)
+    .map((r) => ({ volts: Number(r.value), raw: `${r.raw_value}${r.raw_unit ? ` ${r.raw_unit}` : ""}` }));
+  return { compression, plugs, rail, battery };
+}
+
+export function lineEligibility(l: RepairLineRow): EligibilityView {
+  const cls = coverageClassFor(l);
+  const t = termsFor(cls, {
+    warrantyBaseMonths: l.warranty_base_months,
+    warrantyBaseHours: l.warranty_base_hours,
+    warrantyEngineMonths: l.warranty_engine_months,
+    warrantyEngineHours: l.warranty_engine_hours,
+  });
+  const e = eligibility({ coverageClass: cls, terms: t, deliveryDate: l.delivery_date, failureDate: l.opened_date, hoursAtFailure: num(l.hour_meter) });
+  return { ...e, termsFromRegistry: t.fromRegistry };
+}
+
+/** A repair line as warranty evidence: facts, readings with their interpretation, eligibility, deadline. */
+export function toEvidence(l: RepairLineRow, ms: readonly MeasurementRow[], faults: readonly FaultCodeRow[], claimDays: number, today: string): RepairLineEvidence {
+  const own = ms.filter((m) => m.repair_line_key === l.repair_line_key);
+  const codes = faults.filter((f) => f.repair_line_key === l.repair_line_key);
+  return {
+    id: String(l.repair_line_key),
+    shopCode: l.shop_code,
+    roNumber: l.ro_number,
+    lineNo: l.line_no,
+    openedDate: l.opened_date,
+    closedDate: l.closed_date,
+    hourMeter: num(l.hour_meter),
+    complaint: l.complaint,
+    cause: l.cause,
+    correction: l.correction,
+    laborOp: l.labor_op,
+    standardHours: num(l.standard_hours),
+    laborHours: num(l.labor_hours),
+    partsCost: num(l.parts_cost),
+    laborCost: num(l.labor_cost),
+    payType: l.pay_type,
+    partNumber: l.part_number,
+    partDescription: l.part_description,
+    partQty: num(l.part_qty),
+    supplierLot: l.supplier_lot,
+    component: { code: l.component_code, name: l.component_name, system: l.system, assembly: l.assembly },
+    machine: {
+      serial: l.serial,
+      modelCode: l.model_code,
+      modelLine: l.model_line,
+      engineFamily: l.engine_family,
+      engineSerial: l.engine_serial,
+      buildDate: l.build_date,
+      deliveryDate: l.delivery_date,
+      heaterPlugLot: l.heater_plug_lot,
+    },
+    faultCodes: codes.map((f) => ({ spn: f.spn, fmi: f.fmi, meaning: f.meaning, occurrences: Number(f.occurrences) })),
+    measurements: own.map((m) => ({
+      kind: m.kind,
+      position: m.position,
+      attempt: m.attempt,
+      value: num(m.value),
+      unit: m.unit,
+      overRange: m.over_range,
+      rawValue: m.raw_value,
+      rawUnit: m.raw_unit,
+    })),
+    interpretation: interpretMeasurements(own, codes),
+    eligibility: lineEligibility(l),
+    deadline: l.closed_date ? filingDeadline(l.closed_date, claimDays, today) : null,
+  };
+}
+
+export function eligibilityCounts(lines: readonly { eligibility: { verdict: string } }[]) {
+  return {
+    covered: lines.filter((l) => l.eligibility.verdict === "covered").length,
+    notCovered: lines.filter((l) => l.eligibility.verdict === "not_covered").length,
+    unknown: lines.filter((l) => l.eligibility.verdict === "unknown").length,
+  };
+}
+
+/** Parts plus labour on the lines, or null when no line carries a cost. */
+export function amountOf(lines: readonly { partsCost: number | null; laborCost: number | null }[]): number | null {
+  const costs = lines.flatMap((l) => [l.partsCost, l.laborCost]).filter((x): x is number => x !== null);
+  return costs.length ? Math.round(costs.reduce((s, x) => s + x, 0) * 100) / 100 : null;
+}
+
+/** The most frequent engine family among the lines (ties: alphabetical). */
+export function mainEngineFamily(lines: readonly { machine: { engineFamily: string } }[]): string {
+  const n = new Map<string, number>();
+  for (const l of lines) n.set(l.machine.engineFamily, (n.get(l.machine.engineFamily) ?? 0) + 1);
+  return [...n].sort((a, b) => b[1] - a[1] || a[0].localeCompare(b[0]))[0]?.[0] ?? "*";
+}

@@ -1,0 +1,31 @@
+import { stringify } from "csv-stringify/sync";
+import type { RepairLineEvidence } from "../../shared/schemas/claims.js";
+
+/**
+ * A cell a spreadsheet would read as a formula (it starts with = + - @, or a tab or carriage return) gets
+ * a leading apostrophe, so the text shows as typed and nothing runs.
+ */
+export function neutralise(v: string | number | null | undefined): string {
+  if (v === null || v === undefined) return "";
+  const s = typeof v === "number" ? String(v) : v;
+  if (typeof v === "number") return s;
+  return /^[=+\-@\t\r]/.test(s) ? `'${s}` : s;
+}
+
+export const lineCsvColumns = [
+  "claim_number", "shop", "ro_number", "line_no", "opened", "closed", "serial", "model_line", "engine_family", "delivery_date",
+  "hour_meter", "component", "complaint", "cause", "correction", "part_number", "supplier_lot", "labor_op", "standard_hours",
+  "actual_hours", "parts_cost", "labor_cost", "eligibility", "eligibility_summary", "deadline",
+] as const;
+
+/** The claim's repair lines as CSV (RFC 4180 via csv-stringify), one row per line. */
+export function claimLinesCsv(claimNumber: string, lines: readonly RepairLineEvidence[]): string {
+  const rows = lines.map((l) =>
+    [
+      claimNumber, l.shopCode, l.roNumber, l.lineNo, l.openedDate, l.closedDate, l.machine.serial, l.machine.modelLine, l.machine.engineFamily,
+      l.machine.deliveryDate, l.hourMeter, l.component.name, l.complaint, l.cause, l.correction, l.partNumber, l.supplierLot, l.laborOp,
+      l.standardHours, l.laborHours, l.partsCost, l.laborCost, l.eligibility.verdict, l.eligibility.summary, l.deadline?.deadline ?? null,
+    ].map(neutralise),
+  );
+  return stringify([[...lineCsvColumns], ...rows], { record_delimiter: "\r\n" });
+}

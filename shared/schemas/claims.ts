@@ -1,0 +1,237 @@
+import { z } from "zod";
+import { clusterSchema } from "./analytics-clusters.js";
+
+export const claimStatusSchema = z.enum(["draft", "submitted", "accepted", "rejected", "credited"]);
+export type ClaimStatus = z.infer<typeof claimStatusSchema>;
+export const claimKindSchema = z.enum(["repair", "campaign"]);
+export type ClaimKind = z.infer<typeof claimKindSchema>;
+export const sendStatusSchema = z.enum(["sending", "queued", "sent", "failed"]);
+
+export const claimStatusLabels: Record<ClaimStatus, string> = {
+  draft: "Draft",
+  submitted: "Submitted",
+  accepted: "Accepted",
+  rejected: "Rejected",
+  credited: "Credited",
+};
+
+const keyString = z.string().regex(/^-?\d{1,20}$/, "must be a repair line id (digits)");
+
+/** POST /api/claims */
+export const createClaimSchema = z.discriminatedUnion("kind", [
+  z.object({ kind: z.literal("repair"), repairLineId: keyString, note: z.string().max(2000).optional() }),
+  z.object({
+    kind: z.literal("campaign"),
+    clusterId: z.string().regex(/^[0-9a-f]{16}$/, "must be a cluster id (16 hex digits)"),
+    /** the cluster scan's own query parameters (filters, standardise, q), as the Clusters page put them in the link */
+    clusterQuery: z.record(z.string(), z.string()).optional(),
+    note: z.string().max(2000).optional(),
+  }),
+]);
+export type CreateClaim = z.infer<typeof createClaimSchema>;
+
+/** GET /api/claims/preview?repairLine=… | ?cluster=…&<cluster query> */
+export const claimPreviewQuerySchema = z
+  .object({ repairLine: keyString.optional(), cluster: z.string().regex(/^[0-9a-f]{16}$/, "must be a cluster id (16 hex digits)").optional() })
+  .refine((q) => Boolean(q.repairLine) !== Boolean(q.cluster), { message: "Give either repairLine or cluster, not both and not neither." });
+
+/** POST /api/claims/:id/status */
+export const statusChangeSchema = z.object({
+  to: claimStatusSchema,
+  reason: z.string().trim().max(2000).optional(),
+  amount: z.coerce.number().positive("must be greater than zero").max(10_000_000).optional(),
+});
+export type StatusChangeBody = z.infer<typeof statusChangeSchema>;
+
+const check = z.object({ inside: z.boolean().nullable(), text: z.string() });
+export const eligibilitySchema = z.object({
+  verdict: z.enum(["covered", "not_covered", "unknown"]),
+  coverageClass: z.enum(["base", "engine"]),
+  terms: z.object({ months: z.number(), hours: z.number() }),
+  coverEnds: z.string().nullable(),
+  monthsCheck: check,
+  hoursCheck: check,
+  endedBy: z.enum(["months", "hours", "both"]).nullable(),
+  summary: z.string(),
+  termsFromRegistry: z.boolean(),
+});
+export type EligibilityView = z.infer<typeof eligibilitySchema>;
+
+export const deadlineSchema = z.object({
+  deadline: z.string(),
+  daysLeft: z.number(),
+  state: z.enum(["open", "due_today", "overdue"]),
+  text: z.string(),
+});
+
+const verdict = z.enum(["good", "watch", "fault"]);
+export const interpretationSchema = z.object({
+  compression: z
+    .object({
+      cylinders: z.array(z.object({ position: z.number(), attempts: z.array(z.number()), mean: z.number(), verdict, band: z.string() })),
+      average: z.number(),
+      lowest: z.object({ position: z.number(), mean: z.number(), verdict, band: z.string() }),
+      highest: z.object({ position: z.number(), mean: z.number() }),
+      spread: z.number(),
+      spreadVerdict: verdict,
+      spreadBand: z.string(),
+      pattern: z.object({ kind: z.string(), meaning: z.string(), provenance: z.string() }),
+    })
+    .nullable(),
+  plugs: z.array(z.object({ position: z.number(), ohms: z.number().nullable(), raw: z.string(), verdict: z.string(), label: z.string(), provenance: z.string() })),
+  rail: z.array(z.object({ volts: z.number(), raw: z.string(), verdict, label: z.string(), provenance: z.string() })),
+  battery: z.array(z.object({ volts: z.number(), raw: z.string() })),
+});
+export type Interpretation = z.infer<typeof interpretationSchema>;
+
+export const repairLineEvidenceSchema = z.object({
+  id: z.string(),
+  shopCode: z.string(),
+  roNumber: z.string(),
+  lineNo: z.number(),
+  openedDate: z.string(),
+  closedDate: z.string().nullable(),
+  hourMeter: z.number().nullable(),
+  complaint: z.string().nullable(),
+  cause: z.string().nullable(),
+  correction: z.string().nullable(),
+  laborOp: z.string().nullable(),
+  standardHours: z.number().nullable(),
+  laborHours: z.number().nullable(),
+  partsCost: z.number().nullable(),
+  laborCost: z.number().nullable(),
+  payType: z.string(),
+  partNumber: z.string().nullable(),
+  partDescription: z.string().nullable(),
+  partQty: z.number().nullable(),
+  supplierLot: z.string().nullable(),
+  component: z.object({ code: z.string(), name: z.string(), system: z.string(), assembly: z.string() }),
+  machine: z.object({
+    serial: z.string(),
+    modelCode: z.string(),
+    modelLine: z.string(),
+    engineFamily: z.string(),
+    engineSerial: z.string().nullable(),
+    buildDate: z.string().nullable(),
+    deliveryDate: z.string().nullable(),
+    heaterPlugLot: z.string().nullable(),
+  }),
+  faultCodes: z.array(z.object({ spn: z.number(), fmi: z.number(), meaning: z.string().nullable(), occurrences: z.number() })),
+  measurements: z.array(
+    z.object({ kind: z.string(), position: z.number(), attempt: z.number(), value: z.number().nullable(), unit: z.string(), overRange: z.boolean(), rawValue: z.string(), rawUnit: z.string().nullable() }),
+  ),
+  interpretation: interpretationSchema,
+  eligibility: eligibilitySchema,
+  deadline: deadlineSchema.nullable(),
+});
+export type RepairLineEvidence = z.infer<typeof repairLineEvidenceSchema>;
+
+export const clusterSnapshotSchema = z.object({
+  cluster: clusterSchema,
+  components: z.array(z.string()),
+  method: z.string(),
+  caution: z.string(),
+  query: z.record(z.string(), z.string()),
+  takenAt: z.string(),
+});
+export type ClusterSnapshot = z.infer<typeof clusterSnapshotSchema>;
+
+export const eligibilityCountsSchema = z.object({ covered: z.number(), notCovered: z.number(), unknown: z.number() });
+
+export const sendSchema = z.object({
+  id: z.string(),
+  toAddress: z.string(),
+  status: sendStatusSchema,
+  attempts: z.number(),
+  lastError: z.string().nullable(),
+  requestedBy: z.string(),
+  requestedAt: z.string(),
+  sentAt: z.string().nullable(),
+});
+export type ClaimSend = z.infer<typeof sendSchema>;
+
+export const claimSummarySchema = z.object({
+  id: z.string(),
+  claimNumber: z.string(),
+  kind: claimKindSchema,
+  status: claimStatusSchema,
+  title: z.string(),
+  shopCode: z.string().nullable(),
+  engineFamily: z.string(),
+  closedDate: z.string(),
+  deadline: deadlineSchema,
+  lineCount: z.number(),
+  amountClaimed: z.number().nullable(),
+  amountCredited: z.number().nullable(),
+  lastSend: sendSchema.nullable(),
+  createdAt: z.string(),
+  createdBy: z.string(),
+});
+export type ClaimSummary = z.infer<typeof claimSummarySchema>;
+
+/** GET /api/claims */
+export const claimListSchema = z.object({ today: z.string(), claims: z.array(claimSummarySchema) });
+
+export const auditEntrySchema = z.object({ id: z.string(), at: z.string(), actorName: z.string(), action: z.string(), changes: z.record(z.string(), z.unknown()) });
+
+export const attachmentSchema = z.object({
+  id: z.string(),
+  originalName: z.string(),
+  contentType: z.string(),
+  extension: z.string(),
+  sizeBytes: z.number(),
+  isImage: z.boolean(),
+  uploadedBy: z.string(),
+  uploadedAt: z.string(),
+});
+export type Attachment = z.infer<typeof attachmentSchema>;
+
+/** GET /api/claims/:id */
+export const claimDetailSchema = claimSummarySchema.extend({
+  reason: z.string().nullable(),
+  note: z.string().nullable(),
+  warrantyEmail: z.string(),
+  claimDays: z.number(),
+  allowedMoves: z.array(claimStatusSchema),
+  lines: z.array(repairLineEvidenceSchema),
+  eligibilityCounts: eligibilityCountsSchema,
+  cluster: clusterSnapshotSchema.nullable(),
+  audit: z.array(auditEntrySchema),
+  attachments: z.array(attachmentSchema),
+  sends: z.array(sendSchema),
+  cautions: z.array(z.string()),
+  storageAvailable: z.boolean(),
+  sendAvailable: z.boolean(),
+});
+export type ClaimDetail = z.infer<typeof claimDetailSchema>;
+
+/** GET /api/claims/preview */
+export const claimPreviewSchema = z.object({
+  kind: claimKindSchema,
+  title: z.string(),
+  lines: z.array(repairLineEvidenceSchema),
+  eligibilityCounts: eligibilityCountsSchema,
+  deadline: deadlineSchema.nullable(),
+  amountClaimed: z.number().nullable(),
+  cluster: clusterSnapshotSchema.nullable(),
+  existingClaims: z.array(z.object({ id: z.string(), claimNumber: z.string(), kind: claimKindSchema, status: claimStatusSchema })),
+  problems: z.array(z.string()),
+  cautions: z.array(z.string()),
+});
+export type ClaimPreview = z.infer<typeof claimPreviewSchema>;
+
+/** GET /api/admin/mail */
+export const capturedMailListSchema = z.object({
+  mail: z.array(
+    z.object({
+      id: z.string(),
+      from: z.string(),
+      to: z.array(z.string()),
+      subject: z.string(),
+      receivedAt: z.string(),
+      text: z.string(),
+      attachments: z.array(z.object({ filename: z.string(), contentType: z.string(), sizeBytes: z.number() })),
+    }),
+  ),
+});
+export type CapturedMailList = z.infer<typeof capturedMailListSchema>;
