@@ -4,6 +4,7 @@ import { shopRoutes } from "./shops.js";
 import { analyticsRateRoutes } from "./analytics-rates.js";
 import { analyticsLifeRoutes } from "./analytics-life.js";
 import { analyticsClusterRoutes } from "./analytics-clusters.js";
+import { benchmarkRoutes } from "./benchmarks.js";
 import { claimRoutes, type ClaimRouteDeps } from "./claims.js";
 import { repairCsvRoutes, repairRoutes } from "./repairs.js";
 import { overviewRoutes } from "./overview.js";
@@ -16,6 +17,7 @@ export function apiRoutes(db: Db, services: Omit<ClaimRouteDeps, "db"> = {}): Ro
   router.use("/analytics/rates", analyticsRateRoutes(db));
   router.use("/analytics/life", analyticsLifeRoutes(db));
   router.use("/analytics/clusters", analyticsClusterRoutes(db));
+  router.use("/benchmarks", benchmarkRoutes(db));
   router.use("/claims", claimRoutes({ db, ...services }));
   router.use("/analytics/clusters", clusterDetailRoutes(db));
   router.use("/repairs.csv", repairCsvRoutes(db));
