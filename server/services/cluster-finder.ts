@@ -45,7 +45,7 @@ export async function findClusters(db: Db, scope: ShopScope, raw: Record<string,
   const key = JSON.stringify([scope, filters, query.standardise, query.q]);
   const scan = await cache.get(key, await dataVersion(db), async () => {
     const rows = await scanCells(db, scope, filters);
-    const cells = buildScanCells(rows.map((r) => ({ ...r, repairLineIds: r.repairLineKeys })), query.standardise);
+    const cells = buildScanCells(rows, query.standardise);
     return scanClusters(cells, {
       subject: subjectFor(comps),
       qThreshold: query.q,

@@ -96,3 +96,31 @@ export function failureRelation(scope: ShopScope, f: AnalyticsFilters): RawBuild
     ) y WHERE ${cohortConditions("y", scope, f)}
   )`;
 }
+
+/** The engine families that carry any of these components: those with at least one repair line of them. */
+export function familiesCarrying(componentCodes: readonly string[]): RawBuilder<unknown> {
+  return sql`(
+    SELECT DISTINCT m.engine_family FROM fact_repair_line fl
+    JOIN dim_component c ON c.component_key = fl.component_key JOIN dim_machine m ON m.machine_key = fl.machine_key
+    WHERE c.component_code IN (${sql.join(componentCodes.map((c) => sql`${c}`))})
+  )`;
+}
+
+/**
+ * Machines of the families that carry a component, with cohort labels and their engine-hour trail:
+ * install hours (the delivery reading), first and last valid engine hours and the first reading date.
+ */
+export function machinesCarrying(component: string): RawBuilder<unknown> {
+  return sql`(
+    SELECT m.machine_key, m.engine_family, m.model_line, s.shop_code, s.climate_zone, m.delivery_date,
+           date_trunc('month', coalesce(m.build_date, m.delivery_date))::date AS build_month,
+           coalesce(nullif(m.heater_plug_lot, ''), 'none') AS build_lot,
+           coalesce(m.delivery_hours::double precision, 0) AS install_h,
+           t.first_h, t.last_h, t.first_d
+    FROM dim_machine m
+    JOIN dim_shop s ON s.shop_key = m.home_shop_key
+    JOIN (SELECT machine_key, min(engine_hours) AS first_h, max(engine_hours) AS last_h, min(reading_date) AS first_d
+          FROM v_engine_hours GROUP BY machine_key) t ON t.machine_key = m.machine_key
+    WHERE m.engine_family IN ${familiesCarrying([component])}
+  )`;
+}

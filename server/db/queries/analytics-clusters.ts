@@ -2,38 +2,22 @@ import { sql } from "kysely";
 import type { Db } from "../database.js";
 import type { ShopScope } from "../../../shared/schemas/me.js";
 import type { AnalyticsFilters } from "../../../shared/schemas/analytics-filters.js";
-import { exposureRelation, failureRelation } from "./analytics-base.js";
-
-/** One finest-grain cell of the cluster scan: failures, engine hours, and the failing repair lines. */
-export interface ScanCellRow {
-  engineFamily: string;
-  buildMonth: string; // YYYY-MM
-  lot: string;
-  shopCode: string;
-  tempBand: string;
-  hourBand: string;
-  failures: number;
-  engineHours: number;
-  repairLineKeys: string[];
-}
+import { exposureRelation, failureRelation, familiesCarrying } from "./analytics-base.js";
+import type { CubeRow } from "../../analytics/cluster-cells.js";
 
 /**
  * Failures and engine-hour exposure over engine family × build month × lot × shop × temperature band ×
  * hour band, aggregated in PostgreSQL. Exposure covers only the engine families that carry the
  * components scanned (a family with no such repair line in the warehouse cannot contribute).
  */
-export async function scanCells(db: Db, scope: ShopScope, f: AnalyticsFilters): Promise<ScanCellRow[]> {
+export async function scanCells(db: Db, scope: ShopScope, f: AnalyticsFilters): Promise<CubeRow[]> {
   const res = await sql<{
     engine_family: string; build_month: string; lot: string; shop_code: string; temp_band: string; hour_band: string;
     failures: number | null; engine_hours: number | null; keys: string[] | null;
   }>`
-    WITH fam AS (
-      SELECT DISTINCT m.engine_family FROM fact_repair_line fl
-      JOIN dim_component c ON c.component_key = fl.component_key JOIN dim_machine m ON m.machine_key = fl.machine_key
-      WHERE c.component_code IN (${sql.join(f.components.map((c) => sql`${c}`))})
-    ), e AS (
+    WITH e AS (
       SELECT engine_family, build_month, lot, shop_code, temp_band, hour_band, sum(engine_hours) AS engine_hours
-      FROM ${exposureRelation(scope, f, true)} ex WHERE engine_family IN (SELECT engine_family FROM fam)
+      FROM ${exposureRelation(scope, f, true)} ex WHERE engine_family IN ${familiesCarrying(f.components)}
       GROUP BY 1, 2, 3, 4, 5, 6
     ), fl AS (
       SELECT engine_family, build_month, lot, shop_code, temp_band, hour_band, count(*) AS failures,
@@ -57,6 +41,6 @@ export async function scanCells(db: Db, scope: ShopScope, f: AnalyticsFilters): 
     hourBand: r.hour_band,
     failures: Number(r.failures ?? 0),
     engineHours: Number(r.engine_hours ?? 0),
-    repairLineKeys: (r.keys ?? []).map(String),
+    repairLineIds: (r.keys ?? []).map(String),
   }));
 }

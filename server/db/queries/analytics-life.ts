@@ -2,7 +2,7 @@ import { sql } from "kysely";
 import type { Db } from "../database.js";
 import type { ShopScope } from "../../../shared/schemas/me.js";
 import type { AnalyticsFilters } from "../../../shared/schemas/analytics-filters.js";
-import { cohortConditions, failureRelation } from "./analytics-base.js";
+import { cohortConditions, failureRelation, machinesCarrying } from "./analytics-base.js";
 
 export interface LifeUnit {
   machineKey: string;
@@ -33,22 +33,7 @@ export async function lifeUnits(db: Db, scope: ShopScope, f: AnalyticsFilters, c
     machine_key: string; start_h: number; end_h: number; entry_h: number; event: number; lot: string; shop_code: string;
     climate_zone: string | null; engine_family: string; model_line: string; build_month: string; repair_line_key: string | null;
   }>`
-    WITH fam AS (
-      SELECT DISTINCT m.engine_family FROM fact_repair_line fl
-      JOIN dim_component c ON c.component_key = fl.component_key JOIN dim_machine m ON m.machine_key = fl.machine_key
-      WHERE c.component_code = ${component}
-    ), mach AS (
-      SELECT m.machine_key, m.engine_family, m.model_line, s.shop_code, s.climate_zone,
-             date_trunc('month', coalesce(m.build_date, m.delivery_date))::date AS build_month,
-             coalesce(nullif(m.heater_plug_lot, ''), 'none') AS build_lot,
-             coalesce(m.delivery_hours::double precision, 0) AS install_h,
-             t.first_h, t.last_h, t.first_d, m.delivery_date
-      FROM dim_machine m
-      JOIN dim_shop s ON s.shop_key = m.home_shop_key
-      JOIN (SELECT machine_key, min(engine_hours) AS first_h, max(engine_hours) AS last_h, min(reading_date) AS first_d
-            FROM v_engine_hours GROUP BY machine_key) t ON t.machine_key = m.machine_key
-      WHERE m.engine_family IN (SELECT engine_family FROM fam)
-    ), fails AS (
+    WITH mach AS ${machinesCarrying(component)}, fails AS (
       SELECT fr.machine_key, fr.repair_line_key, fr.hour_meter, coalesce(nullif(p.supplier_lot, ''), 'replacement') AS fitted_lot,
              row_number() OVER (PARTITION BY fr.machine_key ORDER BY fr.hour_meter, fr.opened_date) AS k
       FROM ${failureRelation(scope, ff)} fr
@@ -115,21 +100,8 @@ export async function recurrences(db: Db, scope: ShopScope, f: AnalyticsFilters,
     machine_key: string; ages: number[] | null; start_age: number; end_age: number; lot: string; shop_code: string;
     climate_zone: string | null; engine_family: string;
   }>`
-    WITH fam AS (
-      SELECT DISTINCT m.engine_family FROM fact_repair_line fl
-      JOIN dim_component c ON c.component_key = fl.component_key JOIN dim_machine m ON m.machine_key = fl.machine_key
-      WHERE c.component_code = ${component}
-    ), mach AS (
-      SELECT m.machine_key, m.engine_family, m.model_line, s.shop_code, s.climate_zone,
-             date_trunc('month', coalesce(m.build_date, m.delivery_date))::date AS build_month,
-             coalesce(nullif(m.heater_plug_lot, ''), 'none') AS lot,
-             coalesce(m.delivery_hours::double precision, 0) AS install_h, t.first_h, t.last_h
-      FROM dim_machine m JOIN dim_shop s ON s.shop_key = m.home_shop_key
-      JOIN (SELECT machine_key, min(engine_hours) AS first_h, max(engine_hours) AS last_h FROM v_engine_hours GROUP BY 1) t
-        ON t.machine_key = m.machine_key
-      WHERE m.engine_family IN (SELECT engine_family FROM fam)
-    )
-    SELECT m.machine_key, m.lot, m.shop_code, m.climate_zone, m.engine_family,
+    WITH mach AS ${machinesCarrying(component)}
+    SELECT m.machine_key, m.build_lot AS lot, m.shop_code, m.climate_zone, m.engine_family,
            greatest(m.first_h - m.install_h, 0) AS start_age, m.last_h - m.install_h AS end_age,
            (SELECT array_agg(fl.hour_meter::double precision - m.install_h ORDER BY fl.hour_meter)
               FROM fact_repair_line fl JOIN dim_component c ON c.component_key = fl.component_key
