@@ -11,4 +11,17 @@ export const apiPaths = {
   },
   login: (returnTo?: string) => (returnTo ? `/auth/login?returnTo=${encodeURIComponent(returnTo)}` : "/auth/login"),
   logout: () => "/auth/logout",
+  claims: () => "/api/claims",
+  claim: (id: string) => `/api/claims/${encodeURIComponent(id)}`,
+  /** `search` is repairLine=… or cluster=… plus the cluster scan's own parameters */
+  claimPreview: (search: string) => `/api/claims/preview?${search}`,
+  claimStatus: (id: string) => `/api/claims/${encodeURIComponent(id)}/status`,
+  claimAttachments: (id: string) => `/api/claims/${encodeURIComponent(id)}/attachments`,
+  claimAttachment: (id: string, attachmentId: string) => `/api/claims/${encodeURIComponent(id)}/attachments/${encodeURIComponent(attachmentId)}`,
+  claimPacket: (id: string) => `/api/claims/${encodeURIComponent(id)}/packet.pdf`,
+  claimLinesCsv: (id: string) => `/api/claims/${encodeURIComponent(id)}/lines.csv`,
+  claimSend: (id: string) => `/api/claims/${encodeURIComponent(id)}/send`,
+  /** the cluster list a campaign case is picked from (the analytics scan with its default parameters) */
+  claimClusterChoices: () => "/api/analytics/clusters",
+  adminMail: () => "/api/admin/mail",
 } as const;

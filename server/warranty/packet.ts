@@ -100,6 +100,7 @@ function table(doc: Doc, cols: Col[], rows: string[][], opts: { highlight?: (i: 
     if (doc.y + h > doc.page.height - MARGIN - 24) {
       doc.addPage();
       drawHeader();
+      doc.font("regular").fontSize(8.5);
     }
     const y = doc.y;
     let x = MARGIN;

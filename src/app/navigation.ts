@@ -10,6 +10,8 @@ export interface NavItem {
 export const navItems: readonly NavItem[] = [
   { to: "/", label: "Overview", roles: ["admin", "analyst", "director", "manager", "clerk"] },
   { to: "/admin/users", label: "Users", roles: ["admin"] },
+  { to: "/claims", label: "Claims", roles: ["clerk", "manager"] },
+  { to: "/admin/mail", label: "Captured mail", roles: ["admin"] },
 ];
 
 export function navFor(roles: readonly Role[]): NavItem[] {

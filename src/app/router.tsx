@@ -19,6 +19,10 @@ export function routes(qc: QueryClient): RouteObject[] {
       children: [
         { index: true, lazy: () => import("@/routes/overview") },
         { path: "admin/users", lazy: () => import("@/routes/admin-users") },
+        { path: "claims", lazy: () => import("@/routes/claims") },
+        { path: "claims/new", lazy: () => import("@/routes/claim-new") },
+        { path: "claims/:id", lazy: () => import("@/routes/claim-detail") },
+        { path: "admin/mail", lazy: () => import("@/routes/admin-mail") },
         { path: "*", lazy: () => import("@/routes/not-found") },
       ],
     },

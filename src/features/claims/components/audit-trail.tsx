@@ -1,0 +1,24 @@
+import type { ClaimDetail } from "@shared/schemas/claims";
+
+const describe = (changes: Record<string, unknown>) =>
+  Object.entries(changes)
+    .map(([k, v]) => {
+      if (v && typeof v === "object" && "from" in v && "to" in v) return `${k}: ${String((v as { from: unknown }).from)} → ${String((v as { to: unknown }).to)}`;
+      return `${k}: ${typeof v === "object" ? JSON.stringify(v) : String(v)}`;
+    })
+    .join("; ");
+
+/** Who changed what and when, oldest first. */
+export function AuditTrail({ audit }: { audit: ClaimDetail["audit"] }) {
+  return (
+    <ol className="space-y-1 text-sm" aria-label="Audit trail">
+      {audit.map((a) => (
+        <li key={a.id} className="grid grid-cols-[10rem_8rem_1fr] gap-2 border-b border-line/50 py-1">
+          <time dateTime={a.at} className="text-muted tabular-nums">{new Date(a.at).toLocaleString()}</time>
+          <span>{a.actorName}</span>
+          <span><b>{a.action}</b> <span className="text-muted">{describe(a.changes)}</span></span>
+        </li>
+      ))}
+    </ol>
+  );
+}

@@ -1,0 +1,128 @@
+import type { RepairLineEvidence } from "@shared/schemas/claims";
+import { money, num } from "./deadline-badge";
+
+const verdictTone = (v: string) => (v === "good" || v === "healthy" || v === "covered" ? "text-ok" : v === "watch" || v === "unknown" ? "text-ochre" : "text-alert");
+
+export function EligibilityPanel({ line }: { line: RepairLineEvidence }) {
+  const e = line.eligibility;
+  return (
+    <div className="space-y-1 text-sm" data-testid="eligibility">
+      <p className={`font-semibold ${verdictTone(e.verdict)}`}>{e.summary}</p>
+      <p><span className="text-muted">Months:</span> {e.monthsCheck.text}</p>
+      <p><span className="text-muted">Hours:</span> {e.hoursCheck.text}</p>
+      <p className="text-xs text-muted">{e.termsFromRegistry ? "Terms from the machine registry." : "Terms from the common-practice defaults: the machine registry has none."}</p>
+    </div>
+  );
+}
+
+function Fact({ label, children }: { label: string; children: React.ReactNode }) {
+  return (
+    <div>
+      <dt className="text-xs uppercase tracking-wide text-muted">{label}</dt>
+      <dd>{children}</dd>
+    </div>
+  );
+}
+
+/** Machine, repair order and parts/labour of one line. */
+export function LineFacts({ line: l }: { line: RepairLineEvidence }) {
+  return (
+    <div className="space-y-3 text-sm">
+      <dl className="grid grid-cols-2 gap-3 md:grid-cols-4">
+        <Fact label="Serial">{l.machine.serial}</Fact>
+        <Fact label="Model line">{l.machine.modelLine} <span className="text-muted">({l.machine.modelCode})</span></Fact>
+        <Fact label="Engine family">{l.machine.engineFamily}</Fact>
+        <Fact label="Engine serial">{l.machine.engineSerial ?? "–"}</Fact>
+        <Fact label="Build date">{l.machine.buildDate ?? "–"}</Fact>
+        <Fact label="Delivery date">{l.machine.deliveryDate ?? "–"}</Fact>
+        <Fact label="Hour meter">{l.hourMeter === null ? "not recorded" : `${num(l.hourMeter)} h`}</Fact>
+        <Fact label="Plug lot at build">{l.machine.heaterPlugLot ?? "–"}</Fact>
+        <Fact label="Repair order">{l.roNumber} / line {l.lineNo} <span className="text-muted">at {l.shopCode}</span></Fact>
+        <Fact label="Opened – closed">{l.openedDate} – {l.closedDate ?? "open"}</Fact>
+        <Fact label="Component">{l.component.name}</Fact>
+        <Fact label="Fault codes (SPN / FMI)">{l.faultCodes.length ? l.faultCodes.map((f) => `${f.spn} / ${f.fmi}`).join(", ") : "none"}</Fact>
+      </dl>
+      <dl className="grid gap-2 md:grid-cols-3">
+        <Fact label="Complaint">{l.complaint ?? "–"}</Fact>
+        <Fact label="Cause">{l.cause ?? "–"}</Fact>
+        <Fact label="Correction">{l.correction ?? "–"}</Fact>
+      </dl>
+      <table className="w-full text-left text-sm">
+        <thead className="border-b border-line text-xs text-muted">
+          <tr><th className="py-1">Part</th><th>Lot</th><th className="text-right">Qty</th><th>Labour op</th><th className="text-right">Standard h</th><th className="text-right">Actual h</th><th className="text-right">Parts</th><th className="text-right">Labour</th></tr>
+        </thead>
+        <tbody>
+          <tr>
+            <td className="py-1">{l.partNumber ?? "–"} <span className="text-muted">{l.partDescription}</span></td>
+            <td>{l.supplierLot ?? "–"}</td>
+            <td className="text-right tabular-nums">{num(l.partQty, 2)}</td>
+            <td>{l.laborOp ?? "–"}</td>
+            <td className="text-right tabular-nums">{num(l.standardHours, 2)}</td>
+            <td className="text-right tabular-nums">{num(l.laborHours, 2)}</td>
+            <td className="text-right tabular-nums">{money(l.partsCost)}</td>
+            <td className="text-right tabular-nums">{money(l.laborCost)}</td>
+          </tr>
+        </tbody>
+      </table>
+    </div>
+  );
+}
+
+/** Readings with their interpretation (shared/measurement-interpretation, computed by the server). */
+export function MeasurementPanel({ line }: { line: RepairLineEvidence }) {
+  const m = line.interpretation;
+  if (!m.compression && !m.plugs.length && !m.rail.length && !m.battery.length) return <p className="text-sm text-muted">No readings were recorded on this line.</p>;
+  const c = m.compression;
+  return (
+    <div className="space-y-4 text-sm" data-testid="measurements">
+      {c && (
+        <div>
+          <h3 className="font-semibold">Compression per cylinder (psi, mean of the attempts)</h3>
+          <table className="mt-1 w-full text-left">
+            <thead className="border-b border-line text-xs text-muted"><tr><th className="py-1">Cylinder</th><th>Attempts</th><th className="text-right">Mean</th><th className="pl-4">Band</th></tr></thead>
+            <tbody>
+              {c.cylinders.map((y) => (
+                <tr key={y.position} className="border-b border-line/50">
+                  <td className="py-1">{y.position}</td>
+                  <td className="tabular-nums">{y.attempts.map((a) => a.toFixed(0)).join(" / ")}</td>
+                  <td className="text-right tabular-nums">{y.mean.toFixed(0)}</td>
+                  <td className={`pl-4 ${verdictTone(y.verdict)}`}>{y.band}</td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+          <p className="mt-2">
+            Average <b>{c.average.toFixed(0)} psi</b>; lowest cylinder {c.lowest.position} at <b className={verdictTone(c.lowest.verdict)}>{c.lowest.mean.toFixed(0)} psi</b> (the engine is rated by it);
+            spread ({c.highest.mean.toFixed(0)} − {c.lowest.mean.toFixed(0)}) ÷ {c.highest.mean.toFixed(0)} = <b className={verdictTone(c.spreadVerdict)}>{(c.spread * 100).toFixed(1)} %</b> ({c.spreadBand}); {c.pattern.meaning}.
+          </p>
+        </div>
+      )}
+      {m.plugs.length > 0 && (
+        <div>
+          <h3 className="font-semibold">Heater-plug resistance (cold, disconnected)</h3>
+          <ul className="mt-1 space-y-0.5">
+            {m.plugs.map((p) => (
+              <li key={p.position}>Plug {p.position}: {p.raw} → <span className={verdictTone(p.verdict)}>{p.label}</span> <span className="text-xs text-muted">({p.provenance})</span></li>
+            ))}
+          </ul>
+        </div>
+      )}
+      {m.rail.length > 0 && (
+        <div>
+          <h3 className="font-semibold">Preheat rail voltage</h3>
+          {m.rail.map((r, i) => <p key={i}>{r.raw} → <span className={verdictTone(r.verdict)}>{r.label}</span> <span className="text-xs text-muted">({r.provenance})</span></p>)}
+        </div>
+      )}
+      {m.battery.length > 0 && <p>Battery: {m.battery.map((b) => `${b.volts.toFixed(2)} V`).join(", ")}</p>}
+    </div>
+  );
+}
+
+export function Cautions({ cautions }: { cautions: readonly string[] }) {
+  return (
+    <aside aria-label="Safety cautions" className="rounded-lg border border-ochre/60 bg-ochre/10 p-3 text-xs">
+      <p className="font-semibold">Safety cautions</p>
+      <ul className="mt-1 list-disc space-y-1 pl-4">{cautions.map((c) => <li key={c}>{c}</li>)}</ul>
+    </aside>
+  );
+}

@@ -1,0 +1,112 @@
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { execFileSync } from "node:child_process";
+import { mkdtempSync, readFileSync, rmSync } from "node:fs";
+import { tmpdir } from "node:os";
+import path from "node:path";
+import { artifactsDir, openBrowser, signInThroughProvider, type Browser } from "../helpers/browser.js";
+import { startTestStack, type TestStack } from "../helpers/test-stack.js";
+import { DEMO_PASSWORD } from "../../server/auth/demo-accounts.js";
+
+// The warranty clerk's journey on the demo world: the planted heater-plug lot BT-2109 (../shared/SCENARIO.md)
+// becomes a campaign case with a photo, its packet is downloaded and e-mailed to the SMTP fake.
+
+let stack: TestStack;
+let browser: Browser;
+const work = mkdtempSync(path.join(tmpdir(), "ironledger-warranty-e2e-"));
+
+beforeAll(async () => {
+  stack = await startTestStack({}, { demo: true });
+  browser = await openBrowser();
+}, 600_000);
+afterAll(async () => {
+  await browser?.close();
+  await stack?.stop();
+  rmSync(work, { recursive: true, force: true });
+});
+
+describe("a campaign case from the planted cluster in Chromium", () => {
+  let claimNumber = "";
+
+  it("lets the clerk pick the BT-2109 cluster on the new-claim page and see its statistics", async () => {
+    const { page } = browser;
+    await signInThroughProvider(page, stack.url, "clerk", DEMO_PASSWORD);
+    await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Claims" }).click();
+    await page.getByRole("link", { name: "New claim" }).click();
+    const choice = page.getByRole("list", { name: "Clusters to choose from" }).getByRole("listitem").filter({ hasText: "BT-2109" }).first();
+    await choice.getByRole("button", { name: /^Use cluster/ }).click();
+    await page.waitForURL(/\/claims\/new\?cluster=[0-9a-f]{16}$/);
+    await page.getByTestId("cluster-stats").getByText("BT-2109").first().waitFor();
+    await page.getByRole("table", { name: "Repair lines in the case" }).waitFor();
+    await browser.screenshot("warranty-campaign-preview");
+  });
+
+  it("makes the campaign case and shows its deadline, lines and audit trail", async () => {
+    const { page } = browser;
+    await page.getByRole("button", { name: "Make the campaign case" }).click();
+    await page.waitForURL(/\/claims\/\d+$/);
+    claimNumber = (await page.getByRole("heading", { level: 1 }).textContent())!.trim();
+    expect(claimNumber).toMatch(/^IL-\d{2}C\d{5}$/);
+    await page.getByText(/RO closed \d{4}-\d{2}-\d{2} \+ 30 days = deadline/).first().waitFor();
+    await page.getByRole("list", { name: "Audit trail" }).getByText("created").waitFor();
+  });
+
+  it("attaches a photo and shows it as a thumbnail", async () => {
+    const { page } = browser;
+    // a small PNG drawn on a canvas in the page itself
+    const dataUrl = await page.evaluate(() => {
+      const c = document.createElement("canvas");
+      c.width = 160;
+      c.height = 100;
+      const g = c.getContext("2d")!;
+      g.fillStyle = "#e9e4d8";
+      g.fillRect(0, 0, 160, 100);
+      g.fillStyle = "#7a5a3c";
+      g.fillRect(20, 44, 90, 12);
+      g.fillStyle = "#b7410e";
+      g.fillRect(110, 40, 30, 20);
+      return c.toDataURL("image/png");
+    });
+    const buffer = Buffer.from(dataUrl.split(",")[1], "base64");
+    await page.getByLabel("Attach a file").setInputFiles({ name: "failed-plug.png", mimeType: "image/png", buffer });
+    const thumb = page.getByRole("img", { name: "failed-plug.png" });
+    await thumb.waitFor();
+    await expect.poll(() => thumb.evaluate((img: HTMLImageElement) => img.complete && img.naturalWidth)).toBe(160);
+    await page.getByRole("list", { name: "Audit trail" }).getByText("attachment added").waitFor();
+    await browser.screenshot("warranty-campaign-detail");
+  });
+
+  it("downloads the packet PDF with the cluster statistics and the photo's name in it", async () => {
+    const { page } = browser;
+    const [download] = await Promise.all([page.waitForEvent("download"), page.getByRole("link", { name: "Download packet (PDF)" }).click()]);
+    const file = path.join(work, "packet.pdf");
+    await download.saveAs(file);
+    expect(readFileSync(file).subarray(0, 5).toString()).toBe("%PDF-");
+    const text = execFileSync("pdftotext", ["-layout", file, "-"], { encoding: "utf8" });
+    expect(text).toContain(claimNumber);
+    expect(text).toContain("Cluster statistics");
+    expect(text).toContain("BT-2109");
+    expect(text).toContain("failed-plug.png");
+    execFileSync("pdftoppm", ["-png", "-r", "60", "-f", "1", "-l", "2", file, path.join(artifactsDir, "warranty-packet")], { stdio: "ignore" });
+  });
+
+  it("sends the packet and shows it as sent", async () => {
+    const { page } = browser;
+    await page.getByRole("button", { name: "Send packet" }).click();
+    await page.getByTestId("send-state").getByText(/^Sent to claims-k26@warranty\.ironledger\.invalid/).waitFor();
+    await page.getByRole("list", { name: "Audit trail" }).getByText("packet sent").waitFor();
+    await browser.screenshot("warranty-campaign-sent");
+  });
+
+  it("lets the admin read the captured mail with the packet attached", async () => {
+    const { page } = browser;
+    await page.context().clearCookies();
+    await signInThroughProvider(page, stack.url, "admin", DEMO_PASSWORD);
+    await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Captured mail" }).click();
+    await page.getByRole("list", { name: "Captured mail" }).getByText(`${claimNumber}.pdf`, { exact: false }).waitFor();
+    await browser.screenshot("warranty-captured-mail");
+  });
+
+  it("logs no console errors on the way", () => {
+    expect(browser.consoleErrors).toEqual([]);
+  });
+});
