@@ -4,7 +4,7 @@ import { testApp, type TestApp } from "../helpers/test-app.js";
 import { coldShopCodes } from "../../server/db/queries/shops.js";
 import type { ClusterList } from "../../shared/schemas/analytics-clusters.js";
 import type { TemperatureBandRates } from "../../shared/schemas/analytics-rates.js";
-import type { WeibullResponse, KaplanMeierResponse } from "../../shared/schemas/analytics-life.js";
+import type { WeibullResponse, KaplanMeierResponse, McfResponse } from "../../shared/schemas/analytics-life.js";
 
 // The planted signals of the invented demo world and their pass bands come from the scenario brief
 // (../shared/SCENARIO.md, "Planted signals"). These tests check that the analytics find what the
@@ -132,6 +132,19 @@ describe("GET /api/analytics/rates/temperature-bands on the demo world", () => {
     const ratio = pooled([b["below-0F"], b["0-20F"]]) / pooled([b["45F-up"]]);
     expect(ratio).toBeGreaterThan(0.5);
     expect(ratio).toBeLessThan(2);
+  });
+});
+
+describe("GET /api/analytics/life/mcf on the demo world", () => {
+  it("recovers the hydraulic-hose repair rate the scenario plants (exponential, η 3,000 h → about 0.33 per 1,000 h)", async () => {
+    // SCENARIO.md: hose failures are a renewal process with β 1.0, η 3,000 h, so repairs per 1,000 h ≈ 1000/3000;
+    // comebacks for the same fault add a little on top.
+    const body = await get<McfResponse>("/api/analytics/life/mcf?component=HYD-LIN-HOSE");
+    const g = body.groups[0];
+    expect(g.machines).toBeGreaterThan(3000);
+    expect(g.slopePerThousandHours).toBeGreaterThan(0.25);
+    expect(g.slopePerThousandHours).toBeLessThan(0.45);
+    expect(g.steps.every((s, i, a) => i === 0 || s.mcf >= a[i - 1].mcf)).toBe(true);
   });
 });
 

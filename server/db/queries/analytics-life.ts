@@ -112,7 +112,9 @@ export async function recurrences(db: Db, scope: ShopScope, f: AnalyticsFilters,
     FROM mach m
     WHERE m.last_h > m.install_h AND ${cohortConditions("m", scope, unitFilter)}
   `.execute(db);
-  return res.rows.map((r) => {
+  return res.rows
+    .filter((r) => Number(r.end_age) > Number(r.start_age)) // a machine seen at one age only has no observation window
+    .map((r) => {
     const start = Number(r.start_age);
     const end = Number(r.end_age);
     return {
