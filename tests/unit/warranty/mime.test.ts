@@ -1,9 +1,9 @@
 import { describe, expect, it } from "vitest";
-import nodemailer from "nodemailer";
+import nodemailer, { type SendMailOptions } from "nodemailer";
 import { decodeWords, parseMail } from "../../../server/warranty/mime.js";
 
 /** The raw message nodemailer would put on the wire, built without a server (stream transport). */
-async function build(message: nodemailer.SendMailOptions): Promise<Buffer> {
+async function build(message: SendMailOptions): Promise<Buffer> {
   const t = nodemailer.createTransport({ streamTransport: true, buffer: true });
   const info = await t.sendMail(message);
   return info.message as Buffer;
