@@ -5,6 +5,15 @@ export const apiPaths = {
   session: () => "/auth/session",
   adminUsers: () => "/api/admin/users",
   shops: () => "/api/shops",
+  /** `search` is a query string without "?" (filters, paging, sorting) */
+  repairs: (search = "") => `/api/repairs${search ? `?${search}` : ""}`,
+  repairsCsv: (search = "") => `/api/repairs.csv${search ? `?${search}` : ""}`,
+  repair: (id: string) => `/api/repairs/${encodeURIComponent(id)}`,
+  overview: () => "/api/overview",
+  clusters: (search = "") => `/api/analytics/clusters${search ? `?${search}` : ""}`,
+  cluster: (id: string, search = "") => `/api/analytics/clusters/${encodeURIComponent(id)}${search ? `?${search}` : ""}`,
+  rates: (what: "hour-bands" | "temperature-bands" | "components" | "monthly", search = "") => `/api/analytics/rates/${what}${search ? `?${search}` : ""}`,
+  life: (what: "weibull" | "kaplan-meier" | "mcf", search = "") => `/api/analytics/life/${what}${search ? `?${search}` : ""}`,
   benchmarks: (what: "shops" | "funnel" | "trend" | "comebacks", params: Record<string, string | number | undefined> = {}) => {
     const q = new URLSearchParams(Object.entries(params).filter((e): e is [string, string | number] => e[1] !== undefined).map(([k, v]) => [k, String(v)]));
     return `/api/benchmarks/${what}${q.size ? `?${q}` : ""}`;

@@ -9,6 +9,10 @@ export interface NavItem {
 /** Navigation shaped by role: a role sees only the pages it may use (the server enforces the same). */
 export const navItems: readonly NavItem[] = [
   { to: "/", label: "Overview", roles: ["admin", "analyst", "director", "manager", "clerk"] },
+  { to: "/clusters", label: "Clusters", roles: ["analyst", "director", "manager", "admin"] },
+  { to: "/rates", label: "Rates", roles: ["analyst", "director", "manager", "admin"] },
+  { to: "/life", label: "Life", roles: ["analyst", "director", "admin"] },
+  { to: "/repairs", label: "Repairs", roles: ["analyst", "director", "manager", "clerk", "admin"] },
   { to: "/admin/users", label: "Users", roles: ["admin"] },
   { to: "/claims", label: "Claims", roles: ["clerk", "manager"] },
   { to: "/admin/mail", label: "Captured mail", roles: ["admin"] },

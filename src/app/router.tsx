@@ -18,6 +18,12 @@ export function routes(qc: QueryClient): RouteObject[] {
       },
       children: [
         { index: true, lazy: () => import("@/routes/overview") },
+        { path: "clusters", lazy: () => import("@/routes/clusters") },
+        { path: "clusters/:id", lazy: () => import("@/routes/cluster-detail") },
+        { path: "rates", lazy: () => import("@/routes/rates") },
+        { path: "life", lazy: () => import("@/routes/life") },
+        { path: "repairs", lazy: () => import("@/routes/repairs") },
+        { path: "repairs/:id", lazy: () => import("@/routes/repair-detail") },
         { path: "admin/users", lazy: () => import("@/routes/admin-users") },
         { path: "claims", lazy: () => import("@/routes/claims") },
         { path: "claims/new", lazy: () => import("@/routes/claim-new") },

@@ -1,20 +1,134 @@
-import { useSuspenseQuery } from "@tanstack/react-query";
-import { meQueries } from "@/features/session/api/me-queries";
-import { Card } from "@/components/ui/states";
-import { roleLabels } from "@shared/roles";
+import { useQuery } from "@tanstack/react-query";
+import { Link } from "react-router-dom";
+import { overviewQueries } from "@/features/overview/api/overview-queries";
+import { QueryView } from "@/features/filters/components/query-view";
+import { Card, EmptyState } from "@/components/ui/states";
+import type { Overview } from "@shared/schemas/overview";
+
+const n = (v: number) => v.toLocaleString("en-US");
+const rate = (r: { rate: number; lower: number; upper: number } | null) => (r ? `${r.rate.toFixed(3)} (${r.lower.toFixed(3)}–${r.upper.toFixed(3)})` : "—");
+const when = (iso: string | null) => (iso ? new Date(iso).toLocaleString("en-GB", { dateStyle: "medium", timeStyle: "short" }) : "never");
+
+function Loads({ loads }: { loads: Overview["loads"] }) {
+  if (!loads.length) return <EmptyState title="Nothing loaded yet">No export has been loaded for your shops. Loads appear here after the monthly ETL run.</EmptyState>;
+  return (
+    <div className="overflow-x-auto">
+      <table className="w-full text-left text-sm">
+        <thead className="text-muted">
+          <tr className="border-b border-line"><th className="py-1.5 pr-3">Shop</th><th className="pr-3">Last load</th><th className="pr-3">Files</th><th className="pr-3 text-right">Rows read</th><th className="text-right">Rejected</th></tr>
+        </thead>
+        <tbody>
+          {loads.map((l) => (
+            <tr key={l.shopCode ?? "group"} className="border-b border-line/60 align-top">
+              <td className="py-1.5 pr-3 font-semibold">{l.shopCode ? `${l.shopCode} · ${l.shopName}` : l.shopName}</td>
+              <td className="pr-3">{when(l.lastFinishedAt)}</td>
+              <td className="pr-3 text-muted">{l.files.map((f) => `${f.fileName} (${f.kind})`).join(", ")}</td>
+              <td className="pr-3 text-right tabular-nums">{n(l.rowsRead)}</td>
+              <td className={`text-right tabular-nums ${l.rowsRejected ? "font-semibold text-alert" : ""}`} title={l.files.map((f) => `${f.fileName}: ${f.rowsRejected} rejected`).join("\n")}>
+                {n(l.rowsRejected)}
+                {l.rowsRead > 0 && <span className="ml-1 text-xs font-normal text-muted">({((100 * l.rowsRejected) / l.rowsRead).toFixed(1)} %)</span>}
+              </td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+    </div>
+  );
+}
+
+function Headlines({ h }: { h: Overview["headlines"] }) {
+  if (!h.thisYear || !h.rows.length) return <EmptyState title="No exposure yet">Rates need machine hours in the warehouse; none are loaded for your shops.</EmptyState>;
+  return (
+    <>
+      <div className="grid gap-3 sm:grid-cols-3">
+        {h.rows.map((r) => {
+          const up = r.change !== null && r.change > 1;
+          return (
+            <div key={r.label} className="rounded border border-line p-3">
+              <p className="text-sm font-semibold">{r.label}</p>
+              <p className="mt-1 text-2xl font-bold tabular-nums">{r.thisYear.rate ? r.thisYear.rate.rate.toFixed(3) : "—"}</p>
+              <p className="text-xs text-muted">per 1,000 engine hours, {h.thisYear!.from} to {h.thisYear!.to}; 95 % {rate(r.thisYear.rate)}</p>
+              <p className="mt-2 text-sm">
+                Last year {r.lastYear.rate ? r.lastYear.rate.rate.toFixed(3) : "—"}
+                {r.change !== null && <span className={`ml-2 font-semibold ${up ? "text-alert" : "text-ok"}`}>{up ? "▲" : "▼"} {Math.abs((r.change - 1) * 100).toFixed(0)} %</span>}
+              </p>
+              <p className="text-xs text-muted">{n(r.thisYear.failures)} failures this year, {n(r.lastYear.failures)} the year before</p>
+            </div>
+          );
+        })}
+      </div>
+      <p className="mt-2 text-xs text-muted">{h.method}</p>
+    </>
+  );
+}
+
+function NewClusters({ c }: { c: Overview["clusters"] }) {
+  const intro = c.firstVisit
+    ? `Your first visit: all ${c.total} clusters the finder reports are new to you.`
+    : c.newSinceLastVisit.length
+      ? `${c.newSinceLastVisit.length} of ${c.total} clusters were not there at your last visit (${when(c.previousVisitAt)}).`
+      : `Nothing new since your last visit (${when(c.previousVisitAt)}); ${c.total} clusters in all.`;
+  return (
+    <>
+      <p className="text-sm text-muted">{intro}</p>
+      {c.newSinceLastVisit.length > 0 && (
+        <ol className="mt-2 space-y-1.5">
+          {c.newSinceLastVisit.slice(0, 6).map((x) => (
+            <li key={x.id} className="text-sm">
+              <Link to={`/clusters/${x.id}`} className="text-accent underline-offset-2 hover:underline">{x.description}</Link>
+            </li>
+          ))}
+        </ol>
+      )}
+      <Link to="/clusters" className="mt-3 inline-block text-sm font-semibold text-accent">All clusters →</Link>
+    </>
+  );
+}
+
+function Attention({ a }: { a: Overview["attention"] }) {
+  if (!a.machines.length) return <EmptyState title="No machine stands out">No failure visits in the last 365 days of data for your shops.</EmptyState>;
+  return (
+    <>
+      <div className="overflow-x-auto">
+        <table className="w-full text-left text-sm">
+          <thead className="text-muted">
+            <tr className="border-b border-line"><th className="py-1.5 pr-3">Machine</th><th className="pr-3">Home shop</th><th className="pr-3 text-right">Visits</th><th className="pr-3 text-right">Comebacks</th><th className="pr-3">Repeat repairs</th><th className="pr-3 text-right">Score</th><th>Latest</th></tr>
+          </thead>
+          <tbody>
+            {a.machines.map((m) => (
+              <tr key={m.serial} className="border-b border-line/60">
+                <td className="py-1.5 pr-3"><span className="font-semibold">{m.serial}</span> <span className="text-muted">{m.modelLine} · {m.engineFamily}</span></td>
+                <td className="pr-3">{m.homeShop ?? "—"}</td>
+                <td className="pr-3 text-right tabular-nums">{m.failures}</td>
+                <td className="pr-3 text-right tabular-nums">{m.comebacks}</td>
+                <td className="pr-3">{m.repeatComponents.join(", ") || "—"}</td>
+                <td className="pr-3 text-right font-semibold tabular-nums">{m.score}</td>
+                <td><Link to={`/repairs/${m.lastRepairId}`} className="text-accent hover:underline">{m.lastOpened}</Link></td>
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      </div>
+      <p className="mt-2 text-xs text-muted">How this list is made: {a.definition}{a.windowEnd ? ` Latest repair order: ${a.windowEnd}.` : ""}</p>
+    </>
+  );
+}
 
 export function Component() {
-  const { data: me } = useSuspenseQuery(meQueries.current());
-  if (!me) return null;
+  const q = useQuery(overviewQueries.current());
   return (
     <div className="space-y-4">
       <h1 className="text-2xl font-bold">Overview</h1>
-      <Card title={`Signed in as ${me.name}`}>
-        <p>
-          {me.roles.map((r) => roleLabels[r]).join(", ")} ·{" "}
-          {me.scope.kind === "all" ? "every shop of the group" : `shops ${me.scope.shops.join(", ")}`}
-        </p>
-      </Card>
+      <QueryView query={q} label="the overview" lines={8}>
+        {(o) => (
+          <div className="grid gap-4 lg:grid-cols-2">
+            <Card title="Failure rates against last year"><Headlines h={o.headlines} /></Card>
+            <Card title="New clusters since your last visit"><NewClusters c={o.clusters} /></Card>
+            <div className="lg:col-span-2"><Card title="Last loads per shop"><Loads loads={o.loads} /></Card></div>
+            <div className="lg:col-span-2"><Card title="Machines most in need of attention"><Attention a={o.attention} /></Card></div>
+          </div>
+        )}
+      </QueryView>
     </div>
   );
 }

@@ -1,0 +1,16 @@
+import { queryOptions } from "@tanstack/react-query";
+import { apiGet } from "@/lib/api-client";
+import { apiPaths } from "@shared/api-paths";
+import { componentRatesSchema, hourBandRatesSchema, monthlyRatesSchema, temperatureBandRatesSchema } from "@shared/schemas/analytics-rates";
+
+export const rateQueries = {
+  all: () => ["rates"] as const,
+  hourBands: (search: string) =>
+    queryOptions({ queryKey: [...rateQueries.all(), "hour-bands", search] as const, queryFn: ({ signal }) => apiGet(apiPaths.rates("hour-bands", search), hourBandRatesSchema, signal) }),
+  temperatureBands: (search: string) =>
+    queryOptions({ queryKey: [...rateQueries.all(), "temperature-bands", search] as const, queryFn: ({ signal }) => apiGet(apiPaths.rates("temperature-bands", search), temperatureBandRatesSchema, signal) }),
+  components: (search: string) =>
+    queryOptions({ queryKey: [...rateQueries.all(), "components", search] as const, queryFn: ({ signal }) => apiGet(apiPaths.rates("components", search), componentRatesSchema, signal) }),
+  monthly: (search: string) =>
+    queryOptions({ queryKey: [...rateQueries.all(), "monthly", search] as const, queryFn: ({ signal }) => apiGet(apiPaths.rates("monthly", search), monthlyRatesSchema, signal) }),
+};

@@ -1,0 +1,103 @@
+import * as Plot from "@observablehq/plot";
+import type { Palette } from "@/lib/palette";
+import type { ComponentRates, HourBandRates, MonthlyRates, TemperatureBandRates } from "@shared/schemas/analytics-rates";
+import { hourBandLabel, temperatureBandLabel } from "@shared/bands";
+
+const per = (v: number) => (v >= 1 ? v.toFixed(2) : v.toPrecision(2));
+
+interface BandPoint {
+  label: string;
+  failures: number;
+  exposure: number;
+  rate: number | null;
+  lower: number | null;
+  upper: number | null;
+}
+
+/** Bars of a rate per band with its 95 % interval as a whisker, bands in their own order. */
+function bandRateChart(points: BandPoint[], c: Palette, o: { x: string; y: string; exposure: string; fill: string }): Plot.PlotOptions {
+  const shown = points.filter((p) => p.rate !== null);
+  return {
+    height: 300,
+    marginLeft: 56,
+    marginBottom: points.length > 5 ? 72 : 48,
+    x: { label: o.x, domain: points.map((p) => p.label), tickRotate: points.length > 5 ? -20 : 0, labelOffset: points.length > 5 ? 66 : 40 },
+    y: { label: o.y, grid: true, zero: true },
+    marks: [
+      Plot.barY(shown, { x: "label", y: "rate", fill: o.fill, fillOpacity: 0.85 }),
+      Plot.ruleX(shown, { x: "label", y1: "lower", y2: "upper", stroke: c.ink, strokeWidth: 1.5 }),
+      Plot.dot(shown, { x: "label", y: "upper", symbol: "times", r: 3, stroke: c.ink }),
+      Plot.dot(shown, { x: "label", y: "lower", symbol: "times", r: 3, stroke: c.ink }),
+      Plot.tip(
+        shown,
+        Plot.pointerX({
+          x: "label",
+          y: "rate",
+          title: (p: BandPoint) => `${p.label}\n${per(p.rate!)} (95 % ${per(p.lower!)}–${per(p.upper!)})\n${p.failures} failures over ${Math.round(p.exposure).toLocaleString("en-US")} ${o.exposure}`,
+        }),
+      ),
+      Plot.ruleY([0]),
+    ],
+  };
+}
+
+export function hourBandChart(d: HourBandRates, c: Palette): Plot.PlotOptions {
+  return bandRateChart(
+    d.rows.map((r) => ({ label: hourBandLabel(r.band), failures: r.failures, exposure: r.engineHours, rate: r.perThousandHours?.rate ?? null, lower: r.perThousandHours?.lower ?? null, upper: r.perThousandHours?.upper ?? null })),
+    c,
+    { x: "Engine hours on the meter at the repair", y: "Failures per 1,000 engine hours", exposure: "engine hours", fill: c.series[0] },
+  );
+}
+
+export function temperatureBandChart(d: TemperatureBandRates, c: Palette, unit: "C" | "F"): Plot.PlotOptions {
+  return bandRateChart(
+    d.rows
+      .filter((r) => r.band !== "unknown" || r.failures > 0)
+      .map((r) => ({ label: r.band === "unknown" ? "no weather" : temperatureBandLabel(r.band, unit), failures: r.failures, exposure: r.machineDays, rate: r.perThousandMachineDays?.rate ?? null, lower: r.perThousandMachineDays?.lower ?? null, upper: r.perThousandMachineDays?.upper ?? null })),
+    c,
+    { x: `Daily minimum temperature at the home shop (°${unit})`, y: "Failures per 1,000 machine-days", exposure: "machine-days", fill: c.series[2] },
+  );
+}
+
+/** Pareto: each component's share of failures as bars, the cumulative share as a line, both in %. */
+export function paretoChart(d: ComponentRates, c: Palette): Plot.PlotOptions {
+  const rows = d.rows.map((r) => ({ ...r, sharePct: r.share * 100, cumulativePct: r.cumulativeShare * 100 }));
+  return {
+    height: 340,
+    marginLeft: 56,
+    marginBottom: 96,
+    x: { label: null, domain: rows.map((r) => r.name), tickRotate: -35 },
+    y: { label: "Share of failures (%)", grid: true, domain: [0, 100] },
+    marks: [
+      Plot.barY(rows, { x: "name", y: "sharePct", fill: c.series[1], fillOpacity: 0.9 }),
+      Plot.lineY(rows, { x: "name", y: "cumulativePct", stroke: c.ink, strokeWidth: 1.5, marker: "circle" }),
+      Plot.ruleY([80], { stroke: c.muted, strokeDasharray: "4,3" }),
+      Plot.tip(rows, Plot.pointerX({ x: "name", y: "sharePct", title: (r: (typeof rows)[number]) => `${r.name} (${r.system})\n${r.failures} failures, ${r.sharePct.toFixed(1)} % of all\ncumulative ${r.cumulativePct.toFixed(1)} %` })),
+      Plot.ruleY([0]),
+    ],
+  };
+}
+
+/** u-chart: monthly rate with its centre line and 3-sigma limits; months outside the limits marked. */
+export function monthlyChart(d: MonthlyRates, c: Palette): Plot.PlotOptions {
+  const rows = d.rows
+    .filter((r) => r.perThousandHours)
+    .map((r) => ({ date: new Date(`${r.month}-01T00:00:00Z`), month: r.month, rate: r.perThousandHours!.rate, lower: r.controlLower ?? 0, upper: r.controlUpper ?? 0, failures: r.failures, hours: r.engineHours, out: r.outOfControl }));
+  const centre = d.centre;
+  // months with little exposure have very wide limits: keep the axis on the rates, clip the band
+  const top = Math.max(...rows.map((r) => r.rate), centre ?? 0) * 1.4 || 1;
+  return {
+    height: 300,
+    marginLeft: 56,
+    x: { label: "Month the repair order opened", type: "utc" },
+    y: { label: "Failures per 1,000 engine hours", grid: true, domain: [0, top] },
+    color: { domain: [false, true], range: [c.series[0], c.alert], legend: false },
+    marks: [
+      Plot.areaY(rows, { x: "date", y1: "lower", y2: (r: (typeof rows)[number]) => Math.min(r.upper, top), fill: c.accentSoft, curve: "step" }),
+      ...(centre !== null ? [Plot.ruleY([centre], { stroke: c.muted, strokeDasharray: "5,3" })] : []),
+      Plot.lineY(rows, { x: "date", y: "rate", stroke: c.series[0] }),
+      Plot.dot(rows, { x: "date", y: "rate", fill: "out", r: 3 }),
+      Plot.tip(rows, Plot.pointerX({ x: "date", y: "rate", title: (r: (typeof rows)[number]) => `${r.month}: ${per(r.rate)} per 1,000 h\n${r.failures} failures, ${Math.round(r.hours).toLocaleString("en-US")} h\nlimits ${per(r.lower)}–${per(r.upper)}${r.out ? "\noutside the control limits" : ""}` })),
+    ],
+  };
+}

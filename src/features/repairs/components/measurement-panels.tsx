@@ -1,0 +1,136 @@
+import {
+  classifyPlug,
+  classifyRailVoltage,
+  compressionBands,
+  safetyCautions,
+  spreadBands,
+  summariseCompression,
+  type Verdict,
+} from "@shared/measurement-interpretation";
+import type { RepairDetail, RepairMeasurement } from "@shared/schemas/repairs";
+
+const tone: Record<string, string> = {
+  good: "bg-ok/10 text-ok", healthy: "bg-ok/10 text-ok", watch: "bg-ochre/15 text-ink", high: "bg-ochre/15 text-ink", suspect: "bg-ochre/15 text-ink",
+  fault: "bg-alert/10 text-alert", open: "bg-alert/10 text-alert", short: "bg-alert/10 text-alert",
+};
+function Verdict({ v, children }: { v: Verdict | string; children: React.ReactNode }) {
+  return <span className={`rounded px-1.5 py-0.5 text-xs font-semibold ${tone[v] ?? ""}`}>{children}</span>;
+}
+const Source = ({ p }: { p: string }) => <span className="text-xs text-muted">({p})</span>;
+const raw = (m: RepairMeasurement) => `${m.rawValue}${m.rawUnit ? ` ${m.rawUnit}` : ""}`;
+
+function Compression({ readings }: { readings: RepairMeasurement[] }) {
+  const byCyl = new Map<number, RepairMeasurement[]>();
+  for (const r of readings) if (r.value !== null) byCyl.set(r.position, [...(byCyl.get(r.position) ?? []), r]);
+  const s = summariseCompression([...byCyl].map(([position, rs]) => ({ position, attempts: rs.map((r) => r.value!) })));
+  if (!s) return <p className="text-sm text-muted">No compression recorded on this line.</p>;
+  const maxAttempts = Math.max(...s.cylinders.map((c) => c.attempts.length));
+  return (
+    <div className="space-y-2">
+      <table className="w-full text-left text-sm" aria-label="Compression per cylinder">
+        <thead className="text-muted">
+          <tr className="border-b border-line">
+            <th className="py-1 pr-3">Cylinder</th>
+            {Array.from({ length: maxAttempts }, (_, i) => <th key={i} className="pr-3 text-right">Attempt {i + 1} (psi)</th>)}
+            <th className="pr-3 text-right">Mean (psi)</th>
+            <th>Reading</th>
+          </tr>
+        </thead>
+        <tbody>
+          {s.cylinders.map((c) => (
+            <tr key={c.position} className="border-b border-line/60">
+              <td className="py-1 pr-3 font-semibold">{c.position}</td>
+              {Array.from({ length: maxAttempts }, (_, i) => {
+                const m = byCyl.get(c.position)?.[i];
+                return <td key={i} className="pr-3 text-right tabular-nums" title={m ? `recorded ${raw(m)}; ${m.conversionRule}` : undefined}>{c.attempts[i]?.toFixed(0) ?? "—"}</td>;
+              })}
+              <td className="pr-3 text-right font-semibold tabular-nums">{c.mean.toFixed(0)}</td>
+              <td><Verdict v={c.verdict}>{c.verdict}</Verdict> <span className="text-xs">{c.band}</span> <Source p={compressionBands.find((b) => b.label === c.band)?.provenance ?? ""} /></td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+      <dl className="grid gap-2 text-sm sm:grid-cols-3">
+        <div className="rounded border border-line p-2"><dt className="text-xs uppercase text-muted">Average</dt><dd className="font-semibold tabular-nums">{s.average.toFixed(0)} psi</dd></div>
+        <div className="rounded border border-line p-2"><dt className="text-xs uppercase text-muted">Lowest (rates the engine)</dt><dd className="font-semibold tabular-nums">cylinder {s.lowest.position}: {s.lowest.mean.toFixed(0)} psi <Verdict v={s.lowest.verdict}>{s.lowest.verdict}</Verdict></dd></div>
+        <div className="rounded border border-line p-2"><dt className="text-xs uppercase text-muted">Spread between cylinders</dt><dd className="font-semibold tabular-nums">{(s.spread * 100).toFixed(1)} % <Verdict v={s.spreadVerdict}>{s.spreadVerdict}</Verdict></dd><dd className="text-xs">{s.spreadBand} <Source p={spreadBands.find((b) => b.label === s.spreadBand)?.provenance ?? ""} /></dd></div>
+      </dl>
+      <p className="text-sm">Pattern: {s.pattern.meaning} <Source p={s.pattern.provenance} /></p>
+      <p className="text-xs text-muted">Spread = (highest − lowest) ÷ highest of the cylinder means. Bands: {compressionBands.map((b) => `${b.label} (${b.provenance})`).join("; ")}.</p>
+    </div>
+  );
+}
+
+function Plugs({ readings }: { readings: RepairMeasurement[] }) {
+  if (!readings.length) return <p className="text-sm text-muted">No heater-plug resistance recorded on this line.</p>;
+  const values = readings.map((r) => (r.overRange ? null : r.value));
+  return (
+    <table className="w-full text-left text-sm" aria-label="Heater-plug resistance">
+      <thead className="text-muted"><tr className="border-b border-line"><th className="py-1 pr-3">Plug</th><th className="pr-3">Recorded</th><th className="pr-3 text-right">Ω</th><th>Reading</th></tr></thead>
+      <tbody>
+        {readings.map((r, i) => {
+          const c = classifyPlug(values[i], values.filter((_, j) => j !== i));
+          return (
+            <tr key={`${r.position}-${r.attempt}`} className="border-b border-line/60">
+              <td className="py-1 pr-3 font-semibold">{r.position || "—"}</td>
+              <td className="pr-3" title={r.conversionRule}>{raw(r)}</td>
+              <td className="pr-3 text-right tabular-nums">{r.overRange ? "over range" : r.value!.toLocaleString("en-US", { maximumFractionDigits: 2 })}</td>
+              <td><Verdict v={c.verdict}>{c.verdict}</Verdict> <span className="text-xs">{c.label}</span> <Source p={c.provenance} /></td>
+            </tr>
+          );
+        })}
+      </tbody>
+    </table>
+  );
+}
+
+function Voltages({ readings, hasFaultCode }: { readings: RepairMeasurement[]; hasFaultCode: boolean }) {
+  const rail = readings.filter((r) => r.kind === "rail_voltage");
+  const battery = readings.filter((r) => r.kind === "battery_voltage");
+  if (!rail.length && !battery.length) return <p className="text-sm text-muted">No voltage recorded on this line.</p>;
+  return (
+    <ul className="space-y-1 text-sm">
+      {rail.map((r) => {
+        const c = r.value !== null ? classifyRailVoltage(r.value, hasFaultCode) : null;
+        return (
+          <li key={`r${r.position}-${r.attempt}`}>
+            Preheat rail, key on: <b className="tabular-nums">{r.value?.toFixed(1) ?? "over range"} V</b> <span className="text-xs text-muted">(recorded {raw(r)})</span>{" "}
+            {c && <><Verdict v={c.verdict}>{c.verdict}</Verdict> <span className="text-xs">{c.label}</span> <Source p={c.provenance} /></>}
+          </li>
+        );
+      })}
+      {battery.map((r) => (
+        <li key={`b${r.position}-${r.attempt}`}>Battery: <b className="tabular-nums">{r.value?.toFixed(1) ?? "over range"} V</b> <span className="text-xs text-muted">(recorded {raw(r)}; not interpreted)</span></li>
+      ))}
+    </ul>
+  );
+}
+
+/** The readings of one line, interpreted against the shared bands, with the safety cautions beside them. */
+export function MeasurementPanels({ d }: { d: RepairDetail }) {
+  const by = (k: string) => d.measurements.filter((m) => m.kind === k);
+  return (
+    <div className="grid gap-4 lg:grid-cols-[1fr_20rem]">
+      <div className="space-y-4">
+        <section aria-labelledby="m-compression" className="rounded-lg border border-line bg-card p-4">
+          <h2 id="m-compression" className="mb-2 font-semibold">Compression</h2>
+          <Compression readings={by("compression")} />
+        </section>
+        <section aria-labelledby="m-plugs" className="rounded-lg border border-line bg-card p-4">
+          <h2 id="m-plugs" className="mb-2 font-semibold">Heater-plug resistance (cold, disconnected)</h2>
+          <Plugs readings={by("plug_resistance")} />
+        </section>
+        <section aria-labelledby="m-volts" className="rounded-lg border border-line bg-card p-4">
+          <h2 id="m-volts" className="mb-2 font-semibold">Voltages</h2>
+          <Voltages readings={[...by("rail_voltage"), ...by("battery_voltage")]} hasFaultCode={d.faultCodes.length > 0} />
+        </section>
+      </div>
+      <aside aria-labelledby="cautions" className="h-fit rounded-lg border-2 border-ochre bg-ochre/10 p-4 text-sm">
+        <h2 id="cautions" className="mb-2 font-semibold">Before you act on these readings</h2>
+        <ul className="list-disc space-y-1.5 pl-4">
+          {safetyCautions.map((c) => <li key={c}>{c}</li>)}
+        </ul>
+      </aside>
+    </div>
+  );
+}

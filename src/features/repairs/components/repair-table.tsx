@@ -1,0 +1,138 @@
+import { useState } from "react";
+import { Link } from "react-router-dom";
+import {
+  columnVisibilityFeature,
+  createColumnHelper,
+  rowPaginationFeature,
+  rowSortingFeature,
+  tableFeatures,
+  useTable,
+  type ColumnVisibilityState,
+  type PaginationState,
+  type SortingState,
+} from "@tanstack/react-table";
+import type { RepairRow, RepairSortKey } from "@shared/schemas/repairs";
+
+const features = tableFeatures({ rowSortingFeature, rowPaginationFeature, columnVisibilityFeature });
+const col = createColumnHelper<typeof features, RepairRow>();
+const hours = (v: number | null) => (v === null ? "—" : v.toLocaleString("en-US"));
+
+/** Column id = server sort key where the server can sort by it. */
+const columns = col.columns([
+  col.accessor("openedDate", { id: "opened", header: "Opened" }),
+  col.accessor("shopCode", { id: "shop", header: "Shop" }),
+  col.accessor("roNumber", { id: "ro", header: "Repair order", cell: (i) => <Link className="text-accent hover:underline" to={`/repairs/${i.row.original.id}`}>{i.getValue()}/{i.row.original.lineNo}</Link> }),
+  col.accessor("serial", { id: "serial", header: "Serial" }),
+  col.accessor("modelLine", { id: "model", header: "Model" }),
+  col.accessor("engineFamily", { id: "engineFamily", header: "Engine family" }),
+  col.accessor("componentName", { id: "component", header: "Component" }),
+  col.accessor("lineType", { id: "lineType", header: "Line type" }),
+  col.accessor("payType", { id: "payType", header: "Pay type" }),
+  col.accessor("hourMeter", { id: "hours", header: "Hour meter (h)", cell: (i) => hours(i.getValue()) }),
+  col.accessor("laborHours", { id: "laborHours", header: "Labour (h)", cell: (i) => hours(i.getValue()) }),
+  col.accessor("complaint", { id: "complaint", header: "Complaint", enableSorting: false, cell: (i) => i.getValue() ?? "—" }),
+  col.accessor("cause", { id: "cause", header: "Cause", enableSorting: false, cell: (i) => i.getValue() ?? "—" }),
+  col.accessor("supplierLot", { id: "lot", header: "Supplier lot", enableSorting: false, cell: (i) => i.getValue() ?? "—" }),
+  col.accessor("closedDate", { id: "closed", header: "Closed", cell: (i) => i.getValue() ?? "open" }),
+]);
+
+const HIDDEN_BY_DEFAULT: ColumnVisibilityState = { engineFamily: false, laborHours: false, cause: false, lot: false, closed: false };
+
+/**
+ * Repair lines paged, sorted and filtered on the server: the table only shows the page it is given and
+ * reports sorting and paging changes back.
+ */
+export function RepairTable(props: {
+  rows: RepairRow[];
+  total: number;
+  pagination: PaginationState;
+  sort: { id: RepairSortKey; desc: boolean };
+  onPagination: (p: PaginationState) => void;
+  onSort: (s: { id: RepairSortKey; desc: boolean }) => void;
+}) {
+  const [visibility, setVisibility] = useState<ColumnVisibilityState>(HIDDEN_BY_DEFAULT);
+  const [chooser, setChooser] = useState(false);
+  const sorting: SortingState = [{ id: props.sort.id, desc: props.sort.desc }];
+  const table = useTable({
+    features,
+    columns,
+    data: props.rows,
+    getRowId: (r) => r.id,
+    manualSorting: true,
+    manualPagination: true,
+    rowCount: props.total,
+    enableSortingRemoval: false,
+    state: { sorting, pagination: props.pagination, columnVisibility: visibility },
+    onSortingChange: (u) => {
+      const next = typeof u === "function" ? u(sorting) : u;
+      if (next[0]) props.onSort({ id: next[0].id as RepairSortKey, desc: next[0].desc });
+    },
+    onPaginationChange: (u) => props.onPagination(typeof u === "function" ? u(props.pagination) : u),
+    onColumnVisibilityChange: (u) => setVisibility((v) => (typeof u === "function" ? u(v) : u)),
+  });
+  const pages = Math.max(1, Math.ceil(props.total / props.pagination.pageSize));
+  return (
+    <div>
+      <div className="mb-2 flex flex-wrap items-center justify-between gap-2 text-sm">
+        <p className="text-muted">{props.total.toLocaleString("en-US")} repair lines</p>
+        <div className="relative">
+          <button type="button" aria-expanded={chooser} onClick={() => setChooser((c) => !c)} className="rounded border border-line bg-white px-3 py-1">Columns</button>
+          {chooser && (
+            <fieldset className="absolute right-0 z-10 mt-1 w-56 rounded border border-line bg-card p-2 shadow-lg">
+              <legend className="sr-only">Columns shown</legend>
+              {table.getAllLeafColumns().map((c) => (
+                <label key={c.id} className="flex items-center gap-2 py-0.5">
+                  <input type="checkbox" checked={c.getIsVisible()} onChange={() => c.toggleVisibility()} />
+                  {String(c.columnDef.header)}
+                </label>
+              ))}
+            </fieldset>
+          )}
+        </div>
+      </div>
+      <div className="overflow-x-auto rounded border border-line">
+        <table className="w-full text-left text-sm">
+          <thead className="bg-paper text-muted">
+            {table.getHeaderGroups().map((g) => (
+              <tr key={g.id}>
+                {g.headers.map((h) => {
+                  const sorted = h.column.getIsSorted();
+                  return (
+                    <th key={h.id} scope="col" aria-sort={sorted === "asc" ? "ascending" : sorted === "desc" ? "descending" : "none"} className="whitespace-nowrap border-b border-line px-2 py-1.5">
+                      {h.column.getCanSort() ? (
+                        <button type="button" onClick={h.column.getToggleSortingHandler()} className="font-semibold hover:text-ink">
+                          <table.FlexRender header={h} /> {sorted === "asc" ? "↑" : sorted === "desc" ? "↓" : ""}
+                        </button>
+                      ) : (
+                        <span className="font-semibold"><table.FlexRender header={h} /></span>
+                      )}
+                    </th>
+                  );
+                })}
+              </tr>
+            ))}
+          </thead>
+          <tbody>
+            {table.getRowModel().rows.map((r) => (
+              <tr key={r.id} className="border-b border-line/60 hover:bg-accent-soft/40">
+                {r.getVisibleCells().map((c) => (
+                  <td key={c.id} className="max-w-72 truncate px-2 py-1.5 tabular-nums"><table.FlexRender cell={c} /></td>
+                ))}
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      </div>
+      <nav aria-label="Pages" className="mt-2 flex flex-wrap items-center gap-2 text-sm">
+        <button type="button" disabled={props.pagination.pageIndex === 0} onClick={() => props.onPagination({ ...props.pagination, pageIndex: props.pagination.pageIndex - 1 })} className="rounded border border-line bg-white px-3 py-1 disabled:opacity-40">Previous</button>
+        <span>Page {props.pagination.pageIndex + 1} of {pages.toLocaleString("en-US")}</span>
+        <button type="button" disabled={props.pagination.pageIndex + 1 >= pages} onClick={() => props.onPagination({ ...props.pagination, pageIndex: props.pagination.pageIndex + 1 })} className="rounded border border-line bg-white px-3 py-1 disabled:opacity-40">Next</button>
+        <label className="ml-auto">Rows per page{" "}
+          <select value={props.pagination.pageSize} onChange={(e) => props.onPagination({ pageIndex: 0, pageSize: Number(e.target.value) })} className="rounded border border-line bg-white px-1 py-0.5">
+            {[25, 50, 100, 200].map((n) => <option key={n} value={n}>{n}</option>)}
+          </select>
+        </label>
+      </nav>
+    </div>
+  );
+}

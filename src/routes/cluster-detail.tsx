@@ -1,0 +1,143 @@
+import { useQuery, useQueryClient } from "@tanstack/react-query";
+import { Link, matchRoutes, useParams } from "react-router-dom";
+import { clusterQueries } from "@/features/clusters/api/cluster-queries";
+import { clusterProfileChart, clusterTimelineChart } from "@/features/clusters/charts/cluster-charts";
+import { useFilters } from "@/features/filters/use-filters";
+import { useTemperatureUnit } from "@/features/filters/hooks/use-temperature-unit";
+import { QueryView } from "@/features/filters/components/query-view";
+import { ChartCard } from "@/components/chart-card";
+import { Card } from "@/components/ui/states";
+import { palette } from "@/lib/palette";
+import { routes } from "@/app/router";
+import { hourBandLabel, temperatureBandLabel } from "@shared/bands";
+import type { ClusterDetail } from "@shared/schemas/analytics-clusters";
+
+const CASE_PATH = "/claims/new";
+
+/** True once the warranty pages are registered in the router (the catch-all does not count). */
+function useWarrantyCaseRoute(): boolean {
+  const qc = useQueryClient();
+  const m = matchRoutes(routes(qc), CASE_PATH);
+  return !!m && m[m.length - 1].route.path !== "*";
+}
+
+function Summary({ d }: { d: ClusterDetail }) {
+  const c = d.cluster;
+  const dims = c.dimensions;
+  const items: [string, string][] = [
+    ["Observed", String(c.observed)],
+    ["Expected", c.expected.toFixed(1)],
+    ["Ratio (95 %)", `${c.ratio.toFixed(1)} (${c.lower.toFixed(1)}–${c.upper.toFixed(1)})`],
+    ["q value", c.qValue < 0.001 ? "< 0.001" : c.qValue.toFixed(3)],
+    ["Engine family", dims.engineFamily === "all" ? "any" : dims.engineFamily],
+    ["Built", dims.build === "all" ? "any time" : `${dims.build.from} to ${dims.build.to}`],
+    ["Lot", dims.supplierLot === "all" ? "any" : dims.supplierLot],
+    ["Shop", dims.shop === "all" ? "any" : dims.shop],
+  ];
+  return (
+    <dl className="grid grid-cols-2 gap-3 sm:grid-cols-4">
+      {items.map(([k, v]) => (
+        <div key={k} className="rounded border border-line p-2">
+          <dt className="text-xs uppercase tracking-wide text-muted">{k}</dt>
+          <dd className="font-semibold tabular-nums">{v}</dd>
+        </div>
+      ))}
+    </dl>
+  );
+}
+
+export function Component() {
+  const { id = "" } = useParams();
+  const { search } = useFilters();
+  const [unit] = useTemperatureUnit();
+  const q = useQuery(clusterQueries.detail(id, search));
+  const canOpenCase = useWarrantyCaseRoute();
+  return (
+    <div className="space-y-4">
+      <Link to={`/clusters${search ? `?${search}` : ""}`} className="text-sm text-accent">← All clusters</Link>
+      <QueryView query={q} label="the cluster" lines={10}>
+        {(d) => (
+          <>
+            <div className="flex flex-wrap items-start justify-between gap-3">
+              <h1 className="max-w-3xl text-xl font-bold">{d.cluster.description}</h1>
+              {canOpenCase ? (
+                <Link to={`${CASE_PATH}?cluster=${encodeURIComponent(d.cluster.id)}`} className="rounded bg-accent px-3 py-2 text-sm font-semibold text-white">Open a warranty case</Link>
+              ) : (
+                <div className="text-right">
+                  <button type="button" disabled aria-describedby="case-reason" className="cursor-not-allowed rounded bg-line px-3 py-2 text-sm font-semibold text-muted">Open a warranty case</button>
+                  <p id="case-reason" className="mt-1 max-w-64 text-xs text-muted">Warranty cases are not available yet: the claims pages are still being built.</p>
+                </div>
+              )}
+            </div>
+            <Summary d={d} />
+            <div className="grid gap-4 lg:grid-cols-2">
+              <div className="lg:col-span-2">
+                <ChartCard title="Failures by month" subtitle="When the cluster's repair orders opened" options={clusterTimelineChart(d, palette)} rows={d.timeline} columns={[{ key: "month", label: "Month" }, { key: "failures", label: "Failures" }]} filename={`cluster-${d.cluster.id}-months.csv`} />
+              </div>
+              <ChartCard
+                title="Temperature profile"
+                subtitle="Share of the cluster's failures in each daily-minimum band, beside all other failures of the same components"
+                options={clusterProfileChart(d.temperatureProfile, (b) => (b === "unknown" ? "no weather" : temperatureBandLabel(b, unit)), `Daily minimum at the home shop (°${unit})`, palette)}
+                rows={d.temperatureProfile.map((b) => ({ ...b, label: temperatureBandLabel(b.band, unit) }))}
+                columns={[{ key: "label", label: "Band" }, { key: "inCluster", label: "In cluster" }, { key: "elsewhere", label: "Other failures" }]}
+                filename={`cluster-${d.cluster.id}-temperature.csv`}
+              />
+              <ChartCard
+                title="Hour-meter profile"
+                subtitle="Share of failures in each engine-hour band"
+                options={clusterProfileChart(d.hourProfile, (b) => (b === "unknown" ? "no reading" : hourBandLabel(b)), "Engine hours at the repair", palette)}
+                rows={d.hourProfile.map((b) => ({ ...b, label: hourBandLabel(b.band) }))}
+                columns={[{ key: "label", label: "Band" }, { key: "inCluster", label: "In cluster" }, { key: "elsewhere", label: "Other failures" }]}
+                filename={`cluster-${d.cluster.id}-hours.csv`}
+              />
+            </div>
+            <Card title={`Repair lines (${d.lines.length})`}>
+              <div className="max-h-[28rem] overflow-auto">
+                <table className="w-full text-left text-sm">
+                  <thead className="sticky top-0 bg-card text-muted">
+                    <tr className="border-b border-line"><th className="py-1.5 pr-3">Opened</th><th className="pr-3">Shop</th><th className="pr-3">Repair order</th><th className="pr-3">Serial</th><th className="pr-3 text-right">Hours</th><th>Complaint</th></tr>
+                  </thead>
+                  <tbody>
+                    {d.lines.map((l) => (
+                      <tr key={l.id} className="border-b border-line/60">
+                        <td className="py-1.5 pr-3 tabular-nums">{l.openedDate}</td>
+                        <td className="pr-3">{l.shopCode}</td>
+                        <td className="pr-3"><Link to={`/repairs/${l.id}`} className="text-accent hover:underline">{l.roNumber}/{l.lineNo}</Link></td>
+                        <td className="pr-3">{l.serial}</td>
+                        <td className="pr-3 text-right tabular-nums">{l.hourMeter?.toLocaleString("en-US") ?? "—"}</td>
+                        <td className="text-muted">{l.complaint ?? "—"}</td>
+                      </tr>
+                    ))}
+                  </tbody>
+                </table>
+              </div>
+            </Card>
+            <Card title={`Machines (${d.machines.length})`}>
+              <div className="max-h-80 overflow-auto">
+                <table className="w-full text-left text-sm">
+                  <thead className="sticky top-0 bg-card text-muted">
+                    <tr className="border-b border-line"><th className="py-1.5 pr-3">Serial</th><th className="pr-3">Model</th><th className="pr-3">Home shop</th><th className="pr-3">Built</th><th className="pr-3">Lot</th><th className="pr-3 text-right">Failures</th><th>First – last</th></tr>
+                  </thead>
+                  <tbody>
+                    {d.machines.map((m) => (
+                      <tr key={m.serial} className="border-b border-line/60">
+                        <td className="py-1.5 pr-3 font-semibold">{m.serial}</td>
+                        <td className="pr-3">{m.modelLine} · {m.engineFamily}</td>
+                        <td className="pr-3">{m.homeShop}</td>
+                        <td className="pr-3 tabular-nums">{m.buildDate ?? "—"}</td>
+                        <td className="pr-3">{m.lot}</td>
+                        <td className="pr-3 text-right tabular-nums">{m.failures}</td>
+                        <td className="tabular-nums">{m.firstFailure}{m.lastFailure !== m.firstFailure ? ` – ${m.lastFailure}` : ""}</td>
+                      </tr>
+                    ))}
+                  </tbody>
+                </table>
+              </div>
+            </Card>
+            <p className="text-xs text-muted"><b>How:</b> {d.method} <b>Caution:</b> {d.caution}</p>
+          </>
+        )}
+      </QueryView>
+    </div>
+  );
+}

@@ -1,0 +1,177 @@
+import { useQuery } from "@tanstack/react-query";
+import { useSearchParams } from "react-router-dom";
+import { lifeQueries } from "@/features/life/api/life-queries";
+import { kaplanMeierChart, mcfChart, weibullChart } from "@/features/life/charts/life-charts";
+import { FilterBar } from "@/features/filters/components/filter-bar";
+import { QueryView } from "@/features/filters/components/query-view";
+import { useFilters } from "@/features/filters/use-filters";
+import { ChartCard } from "@/components/chart-card";
+import { Card } from "@/components/ui/states";
+import { palette } from "@/lib/palette";
+import { components, engineFamilies } from "@shared/catalog";
+import type { WeibullResponse } from "@shared/schemas/analytics-life";
+
+const COMPARISONS = [
+  { id: "", label: "No comparison" },
+  { id: "lot", label: "A lot against the rest" },
+  { id: "engineFamily", label: "One engine family against another" },
+  { id: "climate", label: "Cold shops against mild shops" },
+] as const;
+
+const h = (v: number | null | undefined) => (v === null || v === undefined ? "—" : Math.round(v).toLocaleString("en-US"));
+const interval = (i: { lower: number | null; upper: number | null } | null, f = h) => (i ? `${f(i.lower)} – ${f(i.upper)}` : "—");
+const p = (v: number) => (v < 0.001 ? "< 0.001" : v.toFixed(3));
+const field = "mt-1 block rounded border border-line bg-white px-2 py-1 text-sm";
+
+function FitTable({ d }: { d: WeibullResponse }) {
+  return (
+    <div className="overflow-x-auto">
+      <table className="w-full text-left text-sm">
+        <thead className="text-muted">
+          <tr className="border-b border-line"><th className="py-1.5 pr-3">Group</th><th className="pr-3 text-right">Units</th><th className="pr-3 text-right">Failures</th><th className="pr-3">β shape (90 %)</th><th className="pr-3">η scale, h (90 %)</th><th>B10 life, h (90 %)</th></tr>
+        </thead>
+        <tbody>
+          {d.groups.map((g) => (
+            <tr key={g.label} className="border-b border-line/60">
+              <td className="py-1.5 pr-3 font-semibold">{g.label}</td>
+              <td className="pr-3 text-right tabular-nums">{g.fit.units.toLocaleString("en-US")}</td>
+              <td className="pr-3 text-right tabular-nums">{g.fit.failures}</td>
+              {g.fit.status === "fitted" ? (
+                <>
+                  <td className="pr-3 tabular-nums">{g.fit.shape.toFixed(2)} ({interval(g.fit.shapeInterval, (v) => (v === null || v === undefined ? "—" : v.toFixed(2)))})</td>
+                  <td className="pr-3 tabular-nums">{h(g.fit.scale)} ({interval(g.fit.scaleInterval)})</td>
+                  <td className="tabular-nums">{h(g.fit.b10)} ({interval(g.fit.b10Interval)})</td>
+                </>
+              ) : (
+                <td colSpan={3} className="text-muted">Not fitted: {g.fit.reason}. See the Kaplan–Meier curve below.</td>
+              )}
+            </tr>
+          ))}
+        </tbody>
+      </table>
+      {d.comparison && (
+        <p className="mt-2 text-sm">
+          Scale ratio {d.comparison.scaleRatio.estimate.toFixed(2)} ({interval(d.comparison.scaleRatio, (v) => (v === null || v === undefined ? "—" : v.toFixed(2)))}), hazard ratio {d.comparison.hazardRatio.estimate.toFixed(2)} under a common β of {d.comparison.commonShape.toFixed(2)}; same distribution: likelihood-ratio p {p(d.comparison.sameDistribution.pValue)}; same shape: p {p(d.comparison.sameShape.pValue)}.
+        </p>
+      )}
+    </div>
+  );
+}
+
+export function Component() {
+  const { search } = useFilters();
+  const [params, setParams] = useSearchParams();
+  const component = params.get("component") ?? "ENG-CSA-HPLUG";
+  const compareBy = params.get("compareBy") ?? "";
+  const compareValue = params.get("compareValue") ?? "";
+  const compareOther = params.get("compareOther") ?? "";
+  const mcfComponent = params.get("mcfComponent") ?? "HYD-LIN-HOSE";
+  const set = (next: Record<string, string>) => {
+    const p2 = new URLSearchParams(params);
+    for (const [k, v] of Object.entries(next)) (v ? p2.set(k, v) : p2.delete(k));
+    setParams(p2, { replace: true });
+  };
+  const life = new URLSearchParams(search);
+  life.delete("components");
+  life.set("component", component);
+  if (compareBy && compareValue) {
+    life.set("compareBy", compareBy);
+    life.set("compareValue", compareValue);
+    if (compareOther) life.set("compareOther", compareOther);
+  }
+  const mcf = new URLSearchParams(search);
+  mcf.delete("components");
+  mcf.set("component", mcfComponent);
+  const weibull = useQuery(lifeQueries.weibull(life.toString()));
+  const km = useQuery(lifeQueries.kaplanMeier(life.toString()));
+  const recurrences = useQuery(lifeQueries.mcf(mcf.toString()));
+  const compName = components.find((c) => c.code === component)?.name ?? component;
+
+  return (
+    <div className="space-y-4">
+      <div>
+        <h1 className="text-2xl font-bold">Life</h1>
+        <p className="text-muted">How long a fitted part lasts in engine hours, survivors counted as still running, and how repairs pile up on a machine.</p>
+      </div>
+      <FilterBar hide={["components", "tempBands", "hourBands"]} />
+      <Card>
+        <div className="flex flex-wrap items-end gap-3">
+          <label className="text-xs font-semibold uppercase tracking-wide text-muted">Part
+            <select className={field} value={component} onChange={(e) => set({ component: e.target.value })}>
+              {components.filter((c) => c.code !== "SVC-PM").map((c) => <option key={c.code} value={c.code}>{c.name}</option>)}
+            </select>
+          </label>
+          <label className="text-xs font-semibold uppercase tracking-wide text-muted">Compare
+            <select className={field} value={compareBy} onChange={(e) => set({ compareBy: e.target.value, compareValue: e.target.value === "climate" ? "cold" : e.target.value === "engineFamily" ? "K18-3G" : "", compareOther: e.target.value === "climate" ? "mild" : e.target.value === "engineFamily" ? "K26-4R" : "" })}>
+              {COMPARISONS.map((c) => <option key={c.id} value={c.id}>{c.label}</option>)}
+            </select>
+          </label>
+          {compareBy === "lot" && (
+            <label className="text-xs font-semibold uppercase tracking-wide text-muted">Lot
+              <input className={field} defaultValue={compareValue} placeholder="lot code" onBlur={(e) => set({ compareValue: e.target.value.trim() })} onKeyDown={(e) => e.key === "Enter" && set({ compareValue: e.currentTarget.value.trim() })} />
+            </label>
+          )}
+          {compareBy === "engineFamily" && (
+            <>
+              {(["compareValue", "compareOther"] as const).map((k) => (
+                <label key={k} className="text-xs font-semibold uppercase tracking-wide text-muted">{k === "compareValue" ? "Family" : "against"}
+                  <select className={field} value={k === "compareValue" ? compareValue : compareOther} onChange={(e) => set({ [k]: e.target.value })}>
+                    {engineFamilies.map((f) => <option key={f.code} value={f.code}>{f.code}</option>)}
+                  </select>
+                </label>
+              ))}
+            </>
+          )}
+        </div>
+      </Card>
+      <QueryView query={weibull} label="the Weibull fit" isEmpty={(d) => d.groups.every((g) => g.fit.units === 0)} emptyText={`No ${compName.toLowerCase()} units match these filters.`}>
+        {(d) => (
+          <ChartCard
+            title={`Weibull probability plot: ${compName}`}
+            subtitle="Points: failures by median rank; line: maximum-likelihood fit; band: 90 % interval"
+            options={weibullChart(d, palette)}
+            rows={d.groups.flatMap((g) => g.points.map((pt) => ({ group: g.label, time: pt.time, medianRank: pt.medianRank })))}
+            columns={[{ key: "group", label: "Group" }, { key: "time", label: "Engine hours" }, { key: "medianRank", label: "Median rank" }]}
+            filename="life-weibull-points.csv"
+            footer={<><FitTable d={d} /><p className="mt-2">{d.method}</p></>}
+          />
+        )}
+      </QueryView>
+      <div className="grid gap-4 lg:grid-cols-2">
+        <QueryView query={km} label="the Kaplan–Meier curve" isEmpty={(d) => d.groups.every((g) => g.units === 0)} emptyText={`No ${compName.toLowerCase()} units match these filters.`}>
+          {(d) => (
+            <ChartCard
+              title={`Kaplan–Meier: ${compName} still working`}
+              subtitle={d.logRank ? `Log-rank test between the groups: p ${p(d.logRank.pValue)}` : `${d.groups[0]?.units.toLocaleString("en-US")} units, ${d.groups[0]?.failures} failures`}
+              options={kaplanMeierChart(d, palette)}
+              rows={d.groups.flatMap((g) => g.steps.map((s) => ({ group: g.label, ...s })))}
+              columns={[{ key: "group", label: "Group" }, { key: "time", label: "Engine hours" }, { key: "atRisk", label: "At risk" }, { key: "survival", label: "Survival" }, { key: "lower", label: "95 % lower" }, { key: "upper", label: "95 % upper" }]}
+              filename="life-kaplan-meier.csv"
+              footer={d.method}
+            />
+          )}
+        </QueryView>
+        <QueryView query={recurrences} label="the mean cumulative function" isEmpty={(d) => d.groups.every((g) => g.machines === 0)} emptyText="No machines match these filters.">
+          {(d) => (
+            <ChartCard
+              title="Repeat repairs: mean cumulative function"
+              subtitle={
+                <label>Repairs of{" "}
+                  <select aria-label="Component for repeat repairs" className="rounded border border-line bg-white px-1 text-sm" value={mcfComponent} onChange={(e) => set({ mcfComponent: e.target.value })}>
+                    {components.filter((c) => c.code !== "SVC-PM").map((c) => <option key={c.code} value={c.code}>{c.name}</option>)}
+                  </select>
+                  {d.groups[0]?.slopePerThousandHours != null && <> · {d.groups[0].slopePerThousandHours.toFixed(3)} repairs per machine per 1,000 h</>}
+                </label>
+              }
+              options={mcfChart(d, palette)}
+              rows={d.groups.flatMap((g) => g.steps.map((s) => ({ group: g.label, ...s })))}
+              columns={[{ key: "group", label: "Group" }, { key: "age", label: "Engine hours" }, { key: "mcf", label: "Mean repairs" }, { key: "lower", label: "95 % lower" }, { key: "upper", label: "95 % upper" }, { key: "atRisk", label: "Machines" }]}
+              filename="life-mcf.csv"
+              footer={d.method}
+            />
+          )}
+        </QueryView>
+      </div>
+    </div>
+  );
+}

@@ -1,0 +1,129 @@
+import { useQuery } from "@tanstack/react-query";
+import { Link, useParams } from "react-router-dom";
+import { repairQueries } from "@/features/repairs/api/repair-queries";
+import { MeasurementPanels } from "@/features/repairs/components/measurement-panels";
+import { QueryView } from "@/features/filters/components/query-view";
+import { Card } from "@/components/ui/states";
+import type { RepairDetail } from "@shared/schemas/repairs";
+
+const v = (x: string | number | null | undefined, unit = "") => (x === null || x === undefined || x === "" ? "—" : `${typeof x === "number" ? x.toLocaleString("en-US") : x}${unit}`);
+
+function Facts({ items }: { items: [string, string][] }) {
+  return (
+    <dl className="grid grid-cols-2 gap-x-4 gap-y-2 text-sm sm:grid-cols-3">
+      {items.map(([k, val]) => (
+        <div key={k}><dt className="text-xs uppercase tracking-wide text-muted">{k}</dt><dd className="font-semibold">{val}</dd></div>
+      ))}
+    </dl>
+  );
+}
+
+function Detail({ d }: { d: RepairDetail }) {
+  const l = d.line;
+  const m = d.machine;
+  return (
+    <div className="space-y-4">
+      <div>
+        <p className="text-sm text-muted">{l.shopCode} · {l.shopName} · {l.system} › {l.assembly}</p>
+        <h1 className="text-2xl font-bold">Repair order {l.roNumber}, line {l.lineNo}: {l.componentName}</h1>
+      </div>
+      <div className="grid gap-4 lg:grid-cols-3">
+        <Card title="Complaint, cause, correction">
+          <dl className="space-y-2 text-sm">
+            <div><dt className="text-xs uppercase text-muted">Complaint</dt><dd>{v(l.complaint)}</dd></div>
+            <div><dt className="text-xs uppercase text-muted">Cause</dt><dd>{v(l.cause)}{l.failureMode ? ` (${l.failureMode})` : ""}</dd></div>
+            <div><dt className="text-xs uppercase text-muted">Correction</dt><dd>{v(l.correction)}</dd></div>
+          </dl>
+        </Card>
+        <Card title="The job">
+          <Facts items={[
+            ["Opened", l.openedDate], ["Closed", v(l.closedDate)], ["Line type", l.lineType], ["Pay type", l.payType],
+            ["Hour meter", v(l.hourMeter, " h")], ["Labour op", v(l.laborOp)], ["Labour", v(l.laborHours, " h")], ["Standard", v(l.standardHours, " h")],
+            ["Technician", v(l.technician)], ["Ambient", l.ambientTempC === null ? "—" : `${l.ambientTempC} °C`],
+          ]} />
+        </Card>
+        <Card title="Part">
+          <Facts items={[
+            ["Part", v(l.partNumber)], ["Description", v(l.partDescription)], ["Quantity", v(l.partQty)], ["Supplier lot", v(l.supplierLot)],
+            ["Ordered", v(l.partOrderedDate)], ["Received", v(l.partReceivedDate)], ["Back-ordered", l.backOrdered ? "yes" : "no"], ["Wait", v(l.partsWaitDays, " days")],
+          ]} />
+        </Card>
+      </div>
+      <Card title={`Machine ${m.serial}`}>
+        <Facts items={[
+          ["Model", `${m.modelLine} (${m.modelCode})`], ["Engine family", m.engineFamily], ["Engine serial", v(m.engineSerial)], ["Cold-start aid", m.coldStartAid.replace("_", " ")],
+          ["Built", v(m.buildDate)], ["Delivered", v(m.deliveryDate)], ["Hours at delivery", v(m.deliveryHours, " h")], ["Home shop", v(m.homeShop)],
+          ["Heater-plug lot at build", v(m.heaterPlugLot)], ["Block heater", m.blockHeaterFitted ? "fitted" : "none"],
+        ]} />
+        <details className="mt-3">
+          <summary className="cursor-pointer text-sm font-semibold text-accent">Hour-meter trail ({m.hoursTrail.length} readings)</summary>
+          <div className="mt-2 max-h-72 overflow-auto">
+            <table className="w-full text-left text-sm">
+              <thead className="sticky top-0 bg-card text-muted"><tr className="border-b border-line"><th className="py-1 pr-3">Date</th><th className="pr-3 text-right">Hours</th><th className="pr-3">Source</th><th className="pr-3">Meter</th><th>Note</th></tr></thead>
+              <tbody>
+                {m.hoursTrail.map((h, i) => (
+                  <tr key={i} className={`border-b border-line/60 ${h.valid ? "" : "text-alert"}`}>
+                    <td className="py-1 pr-3 tabular-nums">{h.date}</td>
+                    <td className="pr-3 text-right tabular-nums">{h.hours.toLocaleString("en-US")}</td>
+                    <td className="pr-3">{h.source}</td>
+                    <td className="pr-3">{h.meterGeneration === 0 ? "original" : `replacement ${h.meterGeneration}`}</td>
+                    <td>{h.valid ? (h.meterNote ?? "") : `set aside: ${h.invalidReason ?? "invalid"}`}</td>
+                  </tr>
+                ))}
+              </tbody>
+            </table>
+          </div>
+        </details>
+      </Card>
+      <Card title="Fault codes (SAE J1939 SPN / FMI)">
+        {d.faultCodes.length === 0 ? (
+          <p className="text-sm text-muted">No fault codes recorded on this line.</p>
+        ) : (
+          <ul className="space-y-1 text-sm">
+            {d.faultCodes.map((f) => (
+              <li key={`${f.spn}-${f.fmi}`}><b className="tabular-nums">SPN {f.spn} FMI {f.fmi}</b> — {f.fmiMeaning}{f.occurrences > 1 ? ` (×${f.occurrences})` : ""}</li>
+            ))}
+          </ul>
+        )}
+      </Card>
+      <MeasurementPanels d={d} />
+      {d.measurements.length > 0 && (
+        <details className="rounded-lg border border-line bg-card p-4">
+          <summary className="cursor-pointer text-sm font-semibold">All readings as recorded and as stored ({d.measurements.length})</summary>
+          <table className="mt-2 w-full text-left text-sm">
+            <thead className="text-muted"><tr className="border-b border-line"><th className="py-1 pr-3">Kind</th><th className="pr-3">Position</th><th className="pr-3">Attempt</th><th className="pr-3">Recorded</th><th className="pr-3">Stored</th><th>Conversion</th></tr></thead>
+            <tbody>
+              {d.measurements.map((x, i) => (
+                <tr key={i} className="border-b border-line/60">
+                  <td className="py-1 pr-3">{x.kind.replace("_", " ")}</td><td className="pr-3">{x.position}</td><td className="pr-3">{x.attempt}</td>
+                  <td className="pr-3">{x.rawValue}{x.rawUnit ? ` ${x.rawUnit}` : ""}</td>
+                  <td className="pr-3 tabular-nums">{x.overRange ? "over range" : `${x.value} ${x.unit}`}</td><td className="text-muted">{x.conversionRule}</td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        </details>
+      )}
+      {d.machineHistory.length > 0 && (
+        <Card title="Other repair lines on this machine">
+          <ul className="space-y-1 text-sm">
+            {d.machineHistory.map((h) => (
+              <li key={h.id}><Link to={`/repairs/${h.id}`} className="text-accent hover:underline">{h.openedDate} · {h.shopCode} {h.roNumber}/{h.lineNo}</Link> — {h.componentName} ({h.lineType}{h.hourMeter !== null ? `, ${h.hourMeter.toLocaleString("en-US")} h` : ""})</li>
+            ))}
+          </ul>
+        </Card>
+      )}
+    </div>
+  );
+}
+
+export function Component() {
+  const { id = "" } = useParams();
+  const q = useQuery(repairQueries.detail(id));
+  return (
+    <div className="space-y-4">
+      <Link to="/repairs" className="text-sm text-accent">← Repairs</Link>
+      <QueryView query={q} label="the repair line" lines={10}>{(d) => <Detail d={d} />}</QueryView>
+    </div>
+  );
+}

@@ -1,0 +1,80 @@
+import { useQuery } from "@tanstack/react-query";
+import { useState } from "react";
+import { useSearchParams } from "react-router-dom";
+import { repairQueries } from "@/features/repairs/api/repair-queries";
+import { RepairTable } from "@/features/repairs/components/repair-table";
+import { FilterBar } from "@/features/filters/components/filter-bar";
+import { QueryView } from "@/features/filters/components/query-view";
+import { useFilters } from "@/features/filters/use-filters";
+import { apiPaths } from "@shared/api-paths";
+import { repairSortKeys, type RepairSortKey } from "@shared/schemas/repairs";
+
+export function Component() {
+  const { search } = useFilters();
+  const [params, setParams] = useSearchParams();
+  const q = params.get("q") ?? "";
+  const page = Math.max(1, Number(params.get("page")) || 1);
+  const pageSize = [25, 50, 100, 200].includes(Number(params.get("pageSize"))) ? Number(params.get("pageSize")) : 25;
+  const sortParam = params.get("sort") as RepairSortKey | null;
+  const sort: RepairSortKey = sortParam && repairSortKeys.includes(sortParam) ? sortParam : "opened";
+  const dir = params.get("dir") === "asc" ? "asc" : "desc";
+  const [text, setText] = useState(q);
+
+  const set = (next: Record<string, string | number | undefined>) => {
+    const p = new URLSearchParams(params);
+    for (const [k, v] of Object.entries(next)) (v === undefined || v === "" ? p.delete(k) : p.set(k, String(v)));
+    setParams(p, { replace: true });
+  };
+  const listSearch = new URLSearchParams(search);
+  if (q) listSearch.set("q", q);
+  listSearch.set("sort", sort);
+  listSearch.set("dir", dir);
+  const csvSearch = listSearch.toString();
+  listSearch.set("page", String(page));
+  listSearch.set("pageSize", String(pageSize));
+  const list = useQuery(repairQueries.list(listSearch.toString()));
+
+  return (
+    <div className="space-y-4">
+      <div>
+        <h1 className="text-2xl font-bold">Repairs</h1>
+        <p className="text-muted">Every repair line behind the numbers, newest first. Open a line for its measurements and the machine's hour trail.</p>
+      </div>
+      <FilterBar />
+      <form
+        role="search"
+        className="flex flex-wrap items-center gap-2"
+        onSubmit={(e) => {
+          e.preventDefault();
+          set({ q: text.trim(), page: undefined });
+        }}
+      >
+        <label htmlFor="repair-search" className="text-sm font-semibold">Search</label>
+        <input id="repair-search" value={text} onChange={(e) => setText(e.target.value)} placeholder="RO number, serial, complaint, cause, part or lot" className="w-80 max-w-full rounded border border-line bg-white px-2 py-1 text-sm" />
+        <button type="submit" className="rounded bg-slate px-3 py-1 text-sm text-paper">Search</button>
+        <a href={apiPaths.repairsCsv(csvSearch)} download="repair-lines.csv" className="ml-auto rounded border border-line bg-white px-3 py-1 text-sm hover:border-accent">
+          Download CSV of these lines
+        </a>
+      </form>
+      <QueryView
+        query={list}
+        label="repair lines"
+        lines={10}
+        isEmpty={(d) => d.total === 0}
+        emptyTitle="No repair lines match"
+        emptyText={q ? `Nothing matches "${q}" with these filters. Try fewer words or clear a filter.` : "No repair lines match these filters in the shops you can see."}
+      >
+        {(d) => (
+          <RepairTable
+            rows={d.rows}
+            total={d.total}
+            pagination={{ pageIndex: page - 1, pageSize }}
+            sort={{ id: sort, desc: dir === "desc" }}
+            onPagination={(p) => set({ page: p.pageIndex + 1, pageSize: p.pageSize })}
+            onSort={(s) => set({ sort: s.id, dir: s.desc ? "desc" : "asc", page: undefined })}
+          />
+        )}
+      </QueryView>
+    </div>
+  );
+}
