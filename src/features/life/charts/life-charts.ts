@@ -14,18 +14,21 @@ export function weibullChart(d: WeibullResponse, c: Palette): Plot.PlotOptions {
   const line = d.groups.flatMap((g) =>
     g.line.filter((p) => p.F > 0 && p.F < 1 && p.time > 0).map((p) => ({ group: g.label, time: p.time, y: weibullY(p.F), lo: weibullY(Math.min(Math.max(p.lower, 1e-6), 1 - 1e-9)), hi: weibullY(Math.min(Math.max(p.upper, 1e-6), 1 - 1e-9)) })),
   );
-  const ys = [...points.map((p) => p.y), ...line.map((p) => p.y)];
-  const lo = Math.min(...ys, weibullY(0.01));
-  const hi = Math.max(...ys, weibullY(0.5));
+  // the axes follow the failures; the fitted line and band are clipped to them
+  const ys = points.map((p) => p.y);
+  const lo = Math.min(...ys, weibullY(0.01)) - 0.3;
+  const hi = Math.max(...ys, weibullY(0.5)) + 0.3;
+  const times = points.map((p) => p.time);
+  const xDomain: [number, number] = times.length ? [Math.min(...times) / 1.5, Math.max(...times) * 1.5] : [1, 10_000];
   return {
     height: 360,
     marginLeft: 56,
-    x: { type: "log", label: "Engine hours from fitting to failure (log scale)", grid: true },
+    x: { type: "log", label: "Engine hours from fitting to failure (log scale)", grid: true, domain: xDomain },
     y: { label: "Share failed (Weibull scale)", domain: [lo, hi], ticks: PROBABILITY_TICKS.map(weibullY).filter((t) => t >= lo && t <= hi), tickFormat: (t: number) => pct(fromWeibullY(t)), grid: true },
     color: { domain: d.groups.map((g) => g.label), range: c.series.slice(0, d.groups.length), legend: true },
     marks: [
-      Plot.areaY(line, { x: "time", y1: "lo", y2: "hi", fill: "group", fillOpacity: 0.15 }),
-      Plot.lineY(line, { x: "time", y: "y", stroke: "group", strokeWidth: 2 }),
+      Plot.areaY(line, { x: "time", y1: "lo", y2: "hi", fill: "group", fillOpacity: 0.15, clip: true }),
+      Plot.lineY(line, { x: "time", y: "y", stroke: "group", strokeWidth: 2, clip: true }),
       Plot.dot(points, { x: "time", y: "y", stroke: "group", r: 2.5 }),
       Plot.tip(points, Plot.pointer({ x: "time", y: "y", title: (p: (typeof points)[number]) => `${p.group}\nfailure at ${Math.round(p.time).toLocaleString("en-US")} h\nmedian rank ${pct(p.medianRank)}` })),
     ],
