@@ -1,4 +1,4 @@
-import { useQuery } from "@tanstack/react-query";
+import { useQuery, useSuspenseQuery } from "@tanstack/react-query";
 import { Link, useNavigate, useSearchParams } from "react-router-dom";
 import { useState } from "react";
 import { Card, EmptyState, ErrorNotice, Skeleton } from "@/components/ui/states";
@@ -7,15 +7,21 @@ import { DeadlineBadge, money } from "@/features/claims/components/deadline-badg
 import { Cautions, EligibilityPanel, LineFacts, MeasurementPanel } from "@/features/claims/components/line-evidence";
 import { CaseLines, ClusterStats } from "@/features/claims/components/cluster-stats";
 import type { ClaimPreview } from "@shared/schemas/claims";
+import { meQueries } from "@/features/session/api/me-queries";
 
 function Chooser() {
-  const clusters = useQuery(claimQueries.clusterChoices());
+  const { data: me } = useSuspenseQuery(meQueries.current());
+  // campaign cases span shops, so only a group-wide role (the clerk) makes them
+  const groupWide = me?.scope.kind === "all";
+  const clusters = useQuery({ ...claimQueries.clusterChoices(), enabled: groupWide });
   const [, setParams] = useSearchParams();
   const [line, setLine] = useState("");
   return (
     <div className="grid gap-4 lg:grid-cols-[2fr_1fr]">
       <Card title="A campaign case from a cluster">
-        {clusters.isPending ? (
+        {!groupWide ? (
+          <p className="text-sm text-muted">Campaign cases span shops, so the warranty clerk makes them. Open a claim from one of your shop's repair lines instead.</p>
+        ) : clusters.isPending ? (
           <Skeleton lines={5} label="Loading clusters" />
         ) : clusters.isError ? (
           <ErrorNotice error={clusters.error} onRetry={() => clusters.refetch()} />

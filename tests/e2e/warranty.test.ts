@@ -44,7 +44,10 @@ describe("a campaign case from the planted cluster in Chromium", () => {
     const { page } = browser;
     await page.getByRole("button", { name: "Make the campaign case" }).click();
     await page.waitForURL(/\/claims\/\d+$/);
-    claimNumber = (await page.getByRole("heading", { level: 1 }).textContent())!.trim();
+    // the detail page loads lazily after the URL changes: wait for its own heading
+    const heading = page.getByRole("heading", { level: 1, name: /^IL-\d{2}C\d{5}$/ });
+    await heading.waitFor();
+    claimNumber = (await heading.textContent())!.trim();
     expect(claimNumber).toMatch(/^IL-\d{2}C\d{5}$/);
     await page.getByText(/RO closed \d{4}-\d{2}-\d{2} \+ 30 days = deadline/).first().waitFor();
     await page.getByRole("list", { name: "Audit trail" }).getByText("created").waitFor();
