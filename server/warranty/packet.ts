@@ -83,12 +83,13 @@ function table(doc: Doc, cols: Col[], rows: string[][], opts: { highlight?: (i: 
   const drawHeader = () => {
     const y = doc.y;
     doc.font("bold").fontSize(7.5).fillColor(MUTED);
+    const h = Math.max(...cols.map((c, i) => doc.heightOfString(pdfText(c.label), { width: widths[i] - 4 })));
     let x = MARGIN;
     cols.forEach((c, i) => {
       doc.text(pdfText(c.label), x + 2, y, { width: widths[i] - 4, align: c.align ?? "left" });
       x += widths[i];
     });
-    doc.y = Math.max(doc.y, y + 10) + 2;
+    doc.y = y + h + 2;
     doc.moveTo(MARGIN, doc.y).lineTo(MARGIN + pageWidth(doc), doc.y).lineWidth(0.5).strokeColor(LINE).stroke();
     doc.y += 3;
   };
