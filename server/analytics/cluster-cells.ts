@@ -38,12 +38,22 @@ export function referenceRates(rows: readonly CubeRow[], by: Standardisation): M
 const stratum = (r: CubeRow, by: Standardisation) => (by === "hour" ? r.hourBand : `${r.hourBand}|${r.tempBand}`);
 
 interface Acc {
-  dims: Record<Dim, string>;
+  /** value index per dimension, −1 = ALL */
+  idx: Int32Array;
   observed: number;
   expected: number;
   ids: string[];
-  months: Set<string>;
-  families: Set<string>;
+  /** bitset over build-month indices and over engine-family indices, of rows with exposure or failures */
+  months: Uint32Array;
+  families: number;
+}
+
+/** Value dictionaries per dimension, so a cell key is one integer (mixed radix, ALL = 0). */
+function dictionaries(rows: readonly CubeRow[]) {
+  return DIMS.map((d) => {
+    const values = [...new Set(rows.map((r) => rowValue(r, d)))].sort();
+    return { values, index: new Map(values.map((v, i) => [v, i])) };
+  });
 }
 
 /**
@@ -56,59 +66,70 @@ interface Acc {
  */
 export function buildScanCells(rows: readonly CubeRow[], by: Standardisation = "hour+temperature"): ScanCell[] {
   const rates = referenceRates(rows, by);
-  const allMonths = [...new Set(rows.map((r) => r.buildMonth))].sort();
-  const cells = new Map<string, Acc>();
+  const dicts = dictionaries(rows);
+  const radix = dicts.map((d) => d.values.length + 1);
+  const BUILD = DIMS.indexOf("build");
+  const FAMILY = DIMS.indexOf("engineFamily");
+  const allMonths = dicts[BUILD].values; // sorted YYYY-MM
+  const words = Math.ceil(allMonths.length / 32) || 1;
+  if (dicts[FAMILY].values.length > 30) throw new RangeError("more than 30 engine families in one scan");
+  const cells = new Map<number, Acc>();
   const subsets = 1 << DIMS.length;
-  const FAMILY_BIT = 1 << DIMS.indexOf("engineFamily");
-  const BUILD_BIT = 1 << DIMS.indexOf("build");
+  const rowIdx = new Int32Array(DIMS.length);
   for (const r of rows) {
     const expected = r.engineHours * (rates.get(stratum(r, by)) ?? 0);
-    const values = DIMS.map((d) => rowValue(r, d));
+    DIMS.forEach((d, i) => (rowIdx[i] = dicts[i].index.get(rowValue(r, d))!));
     const counts = r.engineHours > 0 || r.failures > 0;
+    const month = rowIdx[BUILD];
+    const familyBit = 1 << rowIdx[FAMILY];
     for (let mask = 0; mask < subsets; mask++) {
-      let key = "";
-      for (let i = 0; i < values.length; i++) key += (mask & (1 << i) ? values[i] : ALL) + "\u0001";
+      let key = 0;
+      for (let i = 0; i < DIMS.length; i++) key = key * radix[i] + (mask & (1 << i) ? rowIdx[i] + 1 : 0);
       let a = cells.get(key);
       if (!a) {
-        const dims = {} as Record<Dim, string>;
-        DIMS.forEach((d, i) => (dims[d] = mask & (1 << i) ? values[i] : ALL));
-        a = { dims, observed: 0, expected: 0, ids: [], months: new Set(), families: new Set() };
+        const idx = new Int32Array(DIMS.length);
+        for (let i = 0; i < DIMS.length; i++) idx[i] = mask & (1 << i) ? rowIdx[i] : -1;
+        a = { idx, observed: 0, expected: 0, ids: [], months: new Uint32Array(words), families: 0 };
         cells.set(key, a);
       }
       a.observed += r.failures;
       a.expected += expected;
       if (r.repairLineIds.length) for (const id of r.repairLineIds) a.ids.push(id);
       if (counts) {
-        if (!(mask & BUILD_BIT)) a.months.add(r.buildMonth);
-        if (!(mask & FAMILY_BIT)) a.families.add(r.engineFamily);
+        a.months[month >>> 5] |= 1 << (month & 31);
+        a.families |= familyBit;
       }
     }
   }
+  const value = (a: Acc, i: number) => (a.idx[i] < 0 ? ALL : dicts[i].values[a.idx[i]]);
   const seen = new Set<string>();
   const out: ScanCell[] = [];
   const singleMonth: ScanCell[] = [];
   for (const a of cells.values()) {
     const d: CellDimensions = {
-      engineFamily: a.dims.engineFamily,
-      build: a.dims.build === ALL ? ALL : { from: a.dims.build, to: a.dims.build },
-      supplierLot: a.dims.supplierLot,
-      shop: a.dims.shop,
-      temperatureBand: a.dims.temperatureBand,
-      hourBand: a.dims.hourBand,
+      engineFamily: value(a, FAMILY),
+      build: a.idx[BUILD] < 0 ? ALL : { from: value(a, BUILD), to: value(a, BUILD) },
+      supplierLot: value(a, DIMS.indexOf("supplierLot")),
+      shop: value(a, DIMS.indexOf("shop")),
+      temperatureBand: value(a, DIMS.indexOf("temperatureBand")),
+      hourBand: value(a, DIMS.indexOf("hourBand")),
     };
-    if (d.engineFamily === ALL && a.families.size === 1) d.engineFamily = [...a.families][0];
-    if (d.build === ALL && a.months.size > 0) {
-      const months = [...a.months].sort();
-      const range: MonthRange = { from: months[0], to: months[months.length - 1] };
-      const span = allMonths.indexOf(range.to) - allMonths.indexOf(range.from) + 1;
-      if (span === months.length && months.length < allMonths.length) d.build = range;
+    if (d.engineFamily === ALL && a.families !== 0 && (a.families & (a.families - 1)) === 0) {
+      d.engineFamily = dicts[FAMILY].values[31 - Math.clz32(a.families)];
+    }
+    if (d.build === ALL) {
+      const present: number[] = [];
+      for (let m = 0; m < allMonths.length; m++) if (a.months[m >>> 5] & (1 << (m & 31))) present.push(m);
+      if (present.length > 0 && present.length < allMonths.length && present[present.length - 1] - present[0] + 1 === present.length) {
+        d.build = { from: allMonths[present[0]], to: allMonths[present[present.length - 1]] };
+      }
     }
     const key = JSON.stringify(d);
     if (seen.has(key)) continue;
     seen.add(key);
     const cell: ScanCell = { dimensions: d, observed: a.observed, expected: a.expected, repairLineIds: a.ids };
     out.push(cell);
-    if (a.dims.build !== ALL && cell.observed > cell.expected) singleMonth.push(cell);
+    if (a.idx[BUILD] >= 0 && cell.observed > cell.expected) singleMonth.push(cell);
   }
   for (const w of collapseBuildWindows(singleMonth)) {
     const b = w.dimensions.build;
