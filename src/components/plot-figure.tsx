@@ -1,17 +1,38 @@
-import { useEffect, useRef } from "react";
+import { useEffect, useRef, useState } from "react";
 import * as Plot from "@observablehq/plot";
 
-/** The only place Plot touches the DOM: renders a spec, replaces it when the spec changes, removes it on unmount. */
+/**
+ * The only place Plot touches the DOM: renders a spec at the width of its container (unless the spec sets
+ * one), replaces it when the spec or the width changes, and removes it on unmount.
+ */
 export function PlotFigure({ options, label }: { options: Plot.PlotOptions; label: string }) {
   const ref = useRef<HTMLDivElement>(null);
+  const [width, setWidth] = useState<number | null>(null);
+
+  useEffect(() => {
+    const node = ref.current;
+    if (!node || typeof ResizeObserver === "undefined") return;
+    const observer = new ResizeObserver(([entry]) => {
+      const w = Math.floor(entry.contentRect.width);
+      setWidth((prev) => (prev !== null && Math.abs(prev - w) < 8 ? prev : w));
+    });
+    observer.observe(node);
+    return () => observer.disconnect();
+  }, []);
+
   useEffect(() => {
     const node = ref.current;
     if (!node) return;
-    const chart = Plot.plot({ style: { fontFamily: "inherit", fontSize: "12px", background: "transparent" }, ...options });
+    const chart = Plot.plot({
+      style: { fontFamily: "inherit", fontSize: "12px", background: "transparent" },
+      ...(width && width > 200 ? { width } : {}),
+      ...options,
+    });
     chart.setAttribute("role", "img");
     chart.setAttribute("aria-label", label);
     node.replaceChildren(chart);
     return () => chart.remove();
-  }, [options, label]);
+  }, [options, label, width]);
+
   return <div ref={ref} data-testid="chart" className="w-full overflow-x-auto" />;
 }
