@@ -11,7 +11,7 @@ import type { Mailer } from "../services/mailer.js";
 import { HttpError, notFound } from "../errors.js";
 import { claimPreviewQuerySchema, createClaimSchema, statusChangeSchema } from "../../shared/schemas/claims.js";
 import { claimAttachments, getClaim, insertAttachment, updateClaimStatus } from "../db/queries/claims.js";
-import { claimDetail, claimQueue, createClaim, packetSnapshot, previewClaim, readObject } from "../warranty/claims-service.js";
+import { claimDetail, claimQueue, createClaim, packetSnapshot, previewClaim, readObject, unclaimedCandidates } from "../warranty/claims-service.js";
 import { checkMove, type ClaimStatus } from "../warranty/status.js";
 import { renderPacket } from "../warranty/packet.js";
 import { claimLinesCsv } from "../warranty/lines-csv.js";
@@ -76,6 +76,10 @@ export function claimRoutes(d: ClaimRouteDeps): Router {
 
   router.get("/", async (req, res) => {
     res.json(await claimQueue(db, requireScope(req)));
+  });
+
+  router.get("/candidates", async (req, res) => {
+    res.json({ candidates: await unclaimedCandidates(db, requireScope(req)) });
   });
 
   router.get("/preview", async (req, res) => {

@@ -1,7 +1,7 @@
 import { GetObjectCommand } from "@aws-sdk/client-s3";
 import type { Db } from "../db/database.js";
 import type { ShopScope } from "../../shared/schemas/me.js";
-import type { ClaimDetail, ClaimPreview, ClaimSend, ClaimSummary, ClusterSnapshot, CreateClaim, RepairLineEvidence } from "../../shared/schemas/claims.js";
+import type { ClaimCandidate, ClaimDetail, ClaimPreview, ClaimSend, ClaimSummary, ClusterSnapshot, CreateClaim, RepairLineEvidence } from "../../shared/schemas/claims.js";
 import { safetyCautions } from "../../shared/measurement-interpretation.js";
 import { HttpError, notFound } from "../errors.js";
 import type { Storage } from "../services/storage.js";
@@ -9,9 +9,10 @@ import { findClusters, toCluster } from "../services/cluster-finder.js";
 import { clusterCaution, clusterMethod } from "../routes/analytics-clusters.js";
 import {
   claimAttachments, claimAudit, claimLineKeys, claimSends, claimsHoldingLines, getClaim, insertClaim, listClaims, policyFor,
-  repairLinesByKeys, type Actor,
+  repairLinesByKeys, unclaimedCandidateKeys, type Actor,
 } from "../db/queries/claims.js";
 import { amountOf, eligibilityCounts, mainEngineFamily, toEvidence } from "./evidence.js";
+import { DEFAULT_TERMS } from "./eligibility.js";
 import { compareByDeadline, filingDeadline } from "./deadline.js";
 import { allowedMoves, type ClaimStatus } from "./status.js";
 import { todayIso } from "./dates.js";
@@ -98,6 +99,36 @@ export async function previewClaim(db: Db, scope: ShopScope, q: { repairLine?: s
     problems: d.problems,
     cautions: [...safetyCautions],
   };
+}
+
+/** Covered, closed failure lines no repair claim holds yet, nearest deadline first. */
+export async function unclaimedCandidates(db: Db, scope: ShopScope, limit = 40): Promise<ClaimCandidate[]> {
+  const today = todayIso();
+  const keys = await unclaimedCandidateKeys(
+    db,
+    scope,
+    { baseMonths: DEFAULT_TERMS.base.months, baseHours: DEFAULT_TERMS.base.hours, engineMonths: DEFAULT_TERMS.engine.months, engineHours: DEFAULT_TERMS.engine.hours },
+    limit,
+  );
+  const lines = await evidenceFor(db, scope, keys, today);
+  return lines
+    .filter((l) => l.eligibility.verdict === "covered" && l.deadline)
+    .sort((a, b) => compareByDeadline(a.deadline!, b.deadline!))
+    .map((l) => ({
+      repairLineId: l.id,
+      shopCode: l.shopCode,
+      roNumber: l.roNumber,
+      lineNo: l.lineNo,
+      closedDate: l.closedDate!,
+      serial: l.machine.serial,
+      modelLine: l.machine.modelLine,
+      component: l.component.name,
+      hourMeter: l.hourMeter,
+      payType: l.payType,
+      amount: amountOf([l]),
+      deadline: l.deadline!,
+      eligibility: l.eligibility.summary,
+    }));
 }
 
 /** Makes a claim (repair) or a campaign case (cluster) in draft, with its lines and first audit row. */

@@ -220,6 +220,25 @@ export const claimPreviewSchema = z.object({
 });
 export type ClaimPreview = z.infer<typeof claimPreviewSchema>;
 
+/** GET /api/claims/candidates */
+export const claimCandidateSchema = z.object({
+  repairLineId: z.string(),
+  shopCode: z.string(),
+  roNumber: z.string(),
+  lineNo: z.number(),
+  closedDate: z.string(),
+  serial: z.string(),
+  modelLine: z.string(),
+  component: z.string(),
+  hourMeter: z.number().nullable(),
+  payType: z.string(),
+  amount: z.number().nullable(),
+  deadline: deadlineSchema,
+  eligibility: z.string(),
+});
+export type ClaimCandidate = z.infer<typeof claimCandidateSchema>;
+export const claimCandidateListSchema = z.object({ candidates: z.array(claimCandidateSchema) });
+
 /** GET /api/admin/mail */
 export const capturedMailListSchema = z.object({
   mail: z.array(

@@ -120,6 +120,28 @@ describe("POST /api/claims from a repair line", () => {
   });
 });
 
+describe("GET /api/claims/candidates", () => {
+  it("lists covered, closed, unclaimed failure lines nearest deadline first, and drops one once it is claimed", async () => {
+    type List = { candidates: { repairLineId: string; closedDate: string; deadline: { daysLeft: number }; eligibility: string }[] };
+    const list = (await request(t.app).get("/api/claims/candidates").set("Cookie", clerk).expect(200)).body as List;
+    expect(list.candidates.length).toBeGreaterThan(5);
+    expect(list.candidates.every((c) => c.eligibility.startsWith("Covered"))).toBe(true);
+    expect(list.candidates.map((c) => c.repairLineId)).not.toContain(first.key);
+    const closes = list.candidates.map((c) => c.closedDate);
+    expect(closes).toEqual([...closes].sort().reverse());
+    const top = list.candidates[0].repairLineId;
+    await createRepairClaim(top);
+    const after = (await request(t.app).get("/api/claims/candidates").set("Cookie", clerk).expect(200)).body as List;
+    expect(after.candidates.map((c) => c.repairLineId)).not.toContain(top);
+  });
+
+  it("shows a manager only their own shop's lines", async () => {
+    const list = (await request(t.app).get("/api/claims/candidates").set("Cookie", managerS5).expect(200)).body as { candidates: { shopCode: string }[] };
+    expect(list.candidates.length).toBeGreaterThan(0);
+    expect(new Set(list.candidates.map((c) => c.shopCode))).toEqual(new Set(["S5"]));
+  });
+});
+
 describe("POST /api/claims/:id/status", () => {
   let id: string;
   beforeAll(async () => {

@@ -32,6 +32,8 @@ describe("a campaign case from the planted cluster in Chromium", () => {
     await signInThroughProvider(page, stack.url, "clerk", DEMO_PASSWORD);
     await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Claims" }).click();
     await page.getByRole("link", { name: "New claim" }).click();
+    await page.getByRole("table", { name: "Unclaimed repair lines in warranty" }).waitFor();
+    await browser.screenshot("warranty-new-claim-chooser");
     const choice = page.getByRole("list", { name: "Clusters to choose from" }).getByRole("listitem").filter({ hasText: "BT-2109" }).first();
     await choice.getByRole("button", { name: /^Use cluster/ }).click();
     await page.waitForURL(/\/claims\/new\?cluster=[0-9a-f]{16}$/);

@@ -2,7 +2,7 @@ import { queryOptions, useMutation, useQueryClient } from "@tanstack/react-query
 import { z } from "zod";
 import { apiGet, apiSend } from "@/lib/api-client";
 import { apiPaths } from "@shared/api-paths";
-import { capturedMailListSchema, claimDetailSchema, claimListSchema, claimPreviewSchema, type CreateClaim, type StatusChangeBody } from "@shared/schemas/claims";
+import { capturedMailListSchema, claimCandidateListSchema, claimDetailSchema, claimListSchema, claimPreviewSchema, type CreateClaim, type StatusChangeBody } from "@shared/schemas/claims";
 import { clusterListSchema } from "@shared/schemas/analytics-clusters";
 
 export const claimQueries = {
@@ -13,6 +13,8 @@ export const claimQueries = {
   /** the claim as it would be made: `search` holds repairLine=… or cluster=… */
   preview: (search: string) =>
     queryOptions({ queryKey: [...claimQueries.all(), "preview", search] as const, queryFn: ({ signal }) => apiGet(apiPaths.claimPreview(search), claimPreviewSchema, signal) }),
+  candidates: () =>
+    queryOptions({ queryKey: [...claimQueries.all(), "candidates"] as const, queryFn: ({ signal }) => apiGet(apiPaths.claimCandidates(), claimCandidateListSchema, signal) }),
   clusterChoices: () =>
     queryOptions({ queryKey: [...claimQueries.all(), "cluster-choices"] as const, queryFn: ({ signal }) => apiGet(apiPaths.claimClusterChoices(), clusterListSchema, signal), staleTime: 5 * 60_000 }),
   capturedMail: () => queryOptions({ queryKey: ["admin-mail"] as const, queryFn: ({ signal }) => apiGet(apiPaths.adminMail(), capturedMailListSchema, signal) }),
