@@ -130,19 +130,47 @@ export function peerLetters(codes: readonly string[], periodKey: string, viewerK
 
 const BAND_EDGES = [30, 100, 300, 1000, 3000, 10000, 30000, 100000];
 
+/** A coarse volume band (about ×3 steps), shown for a peer instead of its exact line count. */
+export interface Band {
+  label: string;
+  mid: number;
+  from: number;
+  to: number;
+}
+
+const bandIndex = (n: number): number => {
+  let i = -1;
+  while (i + 1 < BAND_EDGES.length && n >= BAND_EDGES[i + 1]!) i++;
+  return i;
+};
+const bandEdge = (i: number): number => (i < 0 ? 0 : BAND_EDGES[i]!);
+const bandTop = (i: number): number => (i + 1 < BAND_EDGES.length ? BAND_EDGES[i + 1]! - 1 : BAND_EDGES[BAND_EDGES.length - 1]!);
+
 /**
- * A coarse volume band (about ×3 steps) and its middle, shown for a peer instead of its exact line count: exact
- * counts, repeated period after period, would let a manager who knows the shops' sizes tell them apart.
+ * Volume bands for a set of peers such that no band holds a single peer (when there are two or more): a peer
+ * alone in its band would be recognisable as the group's busiest or quietest shop, so its band is merged with
+ * the nearest band that holds other peers.
  */
-export function volumeBand(n: number): { label: string; mid: number } {
-  if (n < BAND_EDGES[0]!) return { label: `under ${BAND_EDGES[0]} lines`, mid: BAND_EDGES[0]! / 2 };
-  for (let i = 0; i < BAND_EDGES.length - 1; i++) {
-    const lo = BAND_EDGES[i]!;
-    const hi = BAND_EDGES[i + 1]!;
-    if (n < hi) return { label: `${lo.toLocaleString("en-US")}–${(hi - 1).toLocaleString("en-US")} lines`, mid: (lo + hi) / 2 };
+export function peerBands(lines: readonly number[]): Band[] {
+  let groups = [...new Set(lines.map(bandIndex))].sort((a, b) => a - b).map((i) => ({ lo: i, hi: i }));
+  const members = (g: { lo: number; hi: number }) => lines.filter((n) => bandIndex(n) >= g.lo && bandIndex(n) <= g.hi).length;
+  for (let lonely = groups.findIndex((g) => members(g) === 1); lonely >= 0 && groups.length > 1; lonely = groups.findIndex((g) => members(g) === 1)) {
+    const g = groups[lonely]!;
+    const prev = groups[lonely - 1];
+    const next = groups[lonely + 1];
+    const intoPrev = next === undefined || (prev !== undefined && g.lo - prev.hi <= next.lo - g.hi);
+    const other = intoPrev ? prev! : next!;
+    const merged = { lo: Math.min(g.lo, other.lo), hi: Math.max(g.hi, other.hi) };
+    groups = groups.filter((x) => x !== g && x !== other).concat(merged).sort((a, b) => a.lo - b.lo);
   }
-  const top = BAND_EDGES[BAND_EDGES.length - 1]!;
-  return { label: `${top.toLocaleString("en-US")} lines or more`, mid: top };
+  return lines.map((n) => {
+    const i = bandIndex(n);
+    const g = groups.find((x) => i >= x.lo && i <= x.hi)!;
+    const from = bandEdge(g.lo);
+    const to = bandTop(g.hi);
+    const label = from === 0 ? `under ${(to + 1).toLocaleString("en-US")} lines` : g.hi === BAND_EDGES.length - 1 ? `${from.toLocaleString("en-US")} lines or more` : `${from.toLocaleString("en-US")}–${to.toLocaleString("en-US")} lines`;
+    return { label, mid: (from + to + 1) / 2, from, to };
+  });
 }
 
 const round3 = (x: number | null): number | null => (x === null ? null : Math.round(x * 1000) / 1000);
@@ -303,7 +331,8 @@ const STATUS_WORDS: Record<FunnelStatus, string> = {
   not_rated: `fewer than ${MINIMUM_LINES} lines: not rated`,
 };
 
-function comebackFigure(c: Cell, p0: number | null, peer: boolean): ComebackFigure {
+function comebackFigure(c: Cell, p0: number | null, peerBand: Band | null): ComebackFigure {
+  const peer = peerBand !== null;
   const s = share(c.withComeback, c.lines);
   const base = shareFigure(s, peer, "no qualifying repair lines", MINIMUM_LINES);
   const status = funnelStatus(c.withComeback, c.lines, p0);
@@ -313,7 +342,7 @@ function comebackFigure(c: Cell, p0: number | null, peer: boolean): ComebackFigu
     const limit = status === "above_998" || status === "below_998" ? l.exact998 : l.exact95;
     const edge = status.startsWith("above") ? limit.upper : limit.lower;
     words = peer
-      ? `${pct(c.withComeback / c.lines)} is ${STATUS_WORDS[status]} (${volumeBand(c.lines).label})`
+      ? `${pct(c.withComeback / c.lines)} is ${STATUS_WORDS[status]} (${peerBand.label})`
       : status === "within"
         ? `${pct(c.withComeback / c.lines)} of ${c.lines} lines is ${STATUS_WORDS[status]} (95 % limits ${pct(l.exact95.lower)}–${pct(l.exact95.upper)})`
         : `${pct(c.withComeback / c.lines)} of ${c.lines} lines is ${STATUS_WORDS[status]} (limit ${pct(edge)})`;
@@ -333,6 +362,8 @@ interface View {
   anyClaims: boolean;
   groupCell: Cell;
   p0: number | null;
+  /** volume band per shop code: exact-count bands for named shops, merged so no peer stands alone for peers */
+  bands: Map<string, Band>;
   /** label and key per shop code, for this caller and period */
   names: Map<string, { key: string; label: string; peer: boolean; shop: ShopEntry }>;
   groupWide: boolean;
@@ -366,7 +397,12 @@ export function benchmarkRoutes(db: Db, peerSecret?: string): Router {
       const l = letters.get(s.code);
       names.set(s.code, l === undefined ? { key: s.code, label: `${s.code} ${s.name}`, peer: false, shop: s } : { key: `peer-${l}`, label: `Peer ${l}`, peer: true, shop: s });
     }
-    return { world, resolved, claims, anyClaims: claimRows.length > 0, groupCell, p0, names, groupWide };
+    const linesOf = (code: string) => sumCells(world, [code], resolved.months, claims).lines;
+    const peerCodes = world.shops.filter((s) => !s.inScope).map((s) => s.code);
+    const merged = peerBands(peerCodes.map(linesOf));
+    const bands = new Map<string, Band>(world.shops.filter((s) => s.inScope).map((s) => [s.code, peerBands([linesOf(s.code)])[0]!]));
+    peerCodes.forEach((code, i) => bands.set(code, merged[i]!));
+    return { world, resolved, claims, anyClaims: claimRows.length > 0, groupCell, p0, bands, names, groupWide };
   }
 
   /** Shops in the order a caller sees them: named shops by code, then peers by letter. */
@@ -400,8 +436,8 @@ export function benchmarkRoutes(db: Db, peerSecret?: string): Router {
         shopCode: n.peer ? null : n.shop.code,
         name: n.peer ? null : n.shop.name,
         lines: n.peer ? null : c.lines,
-        volumeBand: volumeBand(c.lines).label,
-        comeback: comebackFigure(c, v.p0, n.peer),
+        volumeBand: v.bands.get(n.shop.code)!.label,
+        comeback: comebackFigure(c, v.p0, n.peer ? v.bands.get(n.shop.code)! : null),
         efficiency: efficiencyFigure(c, n.peer),
         partsWait: waitFigure(c, n.peer),
         backOrder: shareFigure(share(c.backOrdered, c.partLines), n.peer, "no part lines"),
@@ -443,8 +479,8 @@ export function benchmarkRoutes(db: Db, peerSecret?: string): Router {
         notRated.push(n.label);
         continue;
       }
-      const fig = comebackFigure(c, v.p0, n.peer);
-      const band = volumeBand(c.lines);
+      const band = v.bands.get(n.shop.code)!;
+      const fig = comebackFigure(c, v.p0, n.peer ? band : null);
       points.push({
         key: n.key,
         label: n.label,
@@ -452,12 +488,13 @@ export function benchmarkRoutes(db: Db, peerSecret?: string): Router {
         lines: n.peer ? null : c.lines,
         volumeBand: band.label,
         x: n.peer ? band.mid : c.lines,
+        band: n.peer ? { from: band.from, to: band.to } : null,
         rate: n.peer ? round3(c.withComeback / c.lines)! : c.withComeback / c.lines,
         status: fig.funnel,
         words: fig.words,
       });
     }
-    const maxX = Math.max(MINIMUM_LINES * 2, ...points.map((p) => p.x)) * 1.15;
+    const maxX = Math.max(MINIMUM_LINES * 2, ...points.map((p) => p.band?.to ?? p.x)) * 1.1;
     const limits: Funnel["limits"] = [];
     if (v.p0 !== null && v.p0 > 0 && v.p0 < 1) {
       const steps = 60;

@@ -181,6 +181,8 @@ export const funnelPointSchema = z.object({
   volumeBand: z.string(),
   /** where the point sits on the volume axis: exact lines, or the middle of a peer's band */
   x: z.number(),
+  /** a peer's volume band as a range on the axis (its line count is withheld); null for a named shop */
+  band: z.object({ from: z.number(), to: z.number() }).nullable(),
   rate: z.number(),
   status: funnelStatusSchema,
   words: z.string(),

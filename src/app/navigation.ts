@@ -13,6 +13,7 @@ export const navItems: readonly NavItem[] = [
   { to: "/rates", label: "Rates", roles: ["analyst", "director", "manager", "admin"] },
   { to: "/life", label: "Life", roles: ["analyst", "director", "admin"] },
   { to: "/repairs", label: "Repairs", roles: ["analyst", "director", "manager", "clerk", "admin"] },
+  { to: "/benchmarks", label: "Benchmarks", roles: ["director", "analyst", "manager", "admin"] },
   { to: "/admin/users", label: "Users", roles: ["admin"] },
   { to: "/claims", label: "Claims", roles: ["clerk", "manager"] },
   { to: "/admin/mail", label: "Captured mail", roles: ["admin"] },

@@ -24,6 +24,7 @@ export function routes(qc: QueryClient): RouteObject[] {
         { path: "life", lazy: () => import("@/routes/life") },
         { path: "repairs", lazy: () => import("@/routes/repairs") },
         { path: "repairs/:id", lazy: () => import("@/routes/repair-detail") },
+        { path: "benchmarks", lazy: () => import("@/routes/benchmarks") },
         { path: "admin/users", lazy: () => import("@/routes/admin-users") },
         { path: "claims", lazy: () => import("@/routes/claims") },
         { path: "claims/new", lazy: () => import("@/routes/claim-new") },

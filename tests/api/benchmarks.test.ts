@@ -3,7 +3,7 @@ import request from "supertest";
 import { testApp, type TestApp } from "../helpers/test-app.js";
 import { apiPaths } from "../../shared/api-paths.js";
 import { shops as demoShops } from "../../etl/demo/scenario.js";
-import { peerLetters } from "../../server/routes/benchmarks.js";
+import { peerBands, peerLetters } from "../../server/routes/benchmarks.js";
 import {
   comebackPairsSchema,
   funnelSchema,
@@ -166,13 +166,24 @@ describe("GET /api/benchmarks/funnel", () => {
     expect(body.groupRate!).toBeGreaterThan(0.03);
   });
 
-  it("places a manager's peers at the middle of their volume band, with rates rounded to 0.1 %", async () => {
-    const body = funnelSchema.parse(await get(apiPaths.benchmarks("funnel", { period: "all" }), manager));
-    for (const p of body.points.filter((x) => x.peer)) {
-      expect(p.lines).toBeNull();
-      expect(Math.round(p.rate * 1000)).toBeCloseTo(p.rate * 1000, 9);
-      expect([65, 200, 650, 2000]).toContain(p.x);
+  it("places a manager's peers across volume bands that each hold two peers or more, with rates rounded to 0.1 %", async () => {
+    for (const period of ["all", "rolling12", "quarter"]) {
+      const body = funnelSchema.parse(await get(apiPaths.benchmarks("funnel", { period }), manager));
+      const peers = body.points.filter((x) => x.peer);
+      for (const p of peers) {
+        expect(p.lines).toBeNull();
+        expect(Math.round(p.rate * 1000)).toBeCloseTo(p.rate * 1000, 9);
+        expect(p.x).toBe((p.band!.from + p.band!.to + 1) / 2);
+        expect(peers.filter((q) => q.volumeBand === p.volumeBand).length, `${period} ${p.volumeBand}`).toBeGreaterThanOrEqual(2);
+      }
     }
+  });
+
+  it("merges a peer that would be alone in its band into the nearest band with others", () => {
+    // 150, 200, 250 fall in 100–299; 314 alone in 300–999 → all four share 100–999
+    expect(peerBands([150, 200, 250, 314]).map((b) => b.label)).toEqual(Array(4).fill("100–999 lines"));
+    // 40 alone in 30–99, 120 and 130 in 100–299, 400 and 500 in 300–999: 40 joins the nearer band above
+    expect(peerBands([40, 120, 130, 400, 500]).map((b) => b.label)).toEqual(["30–299 lines", "30–299 lines", "30–299 lines", "300–999 lines", "300–999 lines"]);
   });
 });
 

@@ -1,0 +1,165 @@
+import type { ReactNode } from "react";
+import type { FunnelStatus, ShareFigure, ShopBenchmark, ShopBenchmarks } from "@shared/schemas/benchmarks";
+import { downloadText, toCsv } from "@/lib/csv";
+import { days, intervalText, pct, valueText } from "../format";
+
+const statusText: Record<FunnelStatus, string> = {
+  above_998: "above 99.8 %",
+  above_95: "above 95 %",
+  within: "within",
+  below_95: "below 95 %",
+  below_998: "below 99.8 %",
+  not_rated: "not rated",
+};
+const statusClass: Record<FunnelStatus, string> = {
+  above_998: "bg-alert text-white",
+  above_95: "bg-ochre text-ink",
+  within: "bg-accent-soft text-ink",
+  below_95: "bg-ok/15 text-ink",
+  below_998: "bg-ok/15 text-ink",
+  not_rated: "bg-paper text-muted",
+};
+
+function Head({ title, formula }: { title: string; formula: string }) {
+  return (
+    <th scope="col" className="border-b border-line px-2 py-2 align-bottom font-semibold">
+      <span className="block">{title}</span>
+      <span className="block text-xs font-normal text-muted">{formula}</span>
+    </th>
+  );
+}
+
+function Cell({ main, sub }: { main: ReactNode; sub?: ReactNode }) {
+  return (
+    <td className="border-b border-line/60 px-2 py-1.5 align-top tabular-nums">
+      <span className="block">{main}</span>
+      {sub && <span className="block text-xs text-muted">{sub}</span>}
+    </td>
+  );
+}
+
+/** Claims on time; "no data yet" in short, the reason in the cell's second line. */
+function ClaimsCell({ f }: { f: ShareFigure }) {
+  if (f.value !== null) return <Cell main={valueText(f)} sub={intervalText(f)} />;
+  const [head, ...rest] = (f.note ?? "–").split(": ");
+  return <Cell main={head} sub={rest.join(": ") || undefined} />;
+}
+
+/** One row per shop (the group first) with every KPI and its formula in the column header; the full formulas below. */
+export function KpiTable({ data, onOpen }: { data: ShopBenchmarks; onOpen: (shop: string) => void }) {
+  const { group, formulas } = data;
+  const csvColumns = [
+    { key: "label", label: "Shop" },
+    { key: "lines", label: "Qualifying lines" },
+    { key: "volumeBand", label: "Volume band" },
+    { key: "comeback", label: "Comeback rate" },
+    { key: "comebackLower", label: "95 % lower" },
+    { key: "comebackUpper", label: "95 % upper" },
+    { key: "funnel", label: "Funnel" },
+    { key: "efficiency", label: "Labour efficiency" },
+    { key: "waitMedian", label: "Parts wait median (days)" },
+    { key: "waitP90", label: "Parts wait p90 (days)" },
+    { key: "backOrder", label: "Back-order rate" },
+    { key: "coldStart", label: "Cold-start jobs measured" },
+    { key: "claims", label: "Claims on time" },
+  ];
+  const csvRow = (s: ShopBenchmark) => ({
+    label: s.label, lines: s.lines, volumeBand: s.volumeBand, comeback: s.comeback.value, comebackLower: s.comeback.lower, comebackUpper: s.comeback.upper,
+    funnel: statusText[s.comeback.funnel], efficiency: s.efficiency.value, waitMedian: s.partsWait.median, waitP90: s.partsWait.p90,
+    backOrder: s.backOrder.value, coldStart: s.coldStartMeasured.value, claims: s.warrantyOnTime.value ?? s.warrantyOnTime.note,
+  });
+  return (
+    <section aria-label="Shop KPIs" className="rounded-lg border border-line bg-card p-4 shadow-sm">
+      <div className="mb-2 flex flex-wrap items-start justify-between gap-2">
+        <div>
+          <h2 className="text-base font-semibold">Shop KPIs — {data.period.label}</h2>
+          <p className="text-sm text-muted">Each column shows its formula; proportions carry a 95 % Wilson interval and are not rated below 30 lines.</p>
+        </div>
+        <button
+          type="button"
+          onClick={() => downloadText(`benchmarks-${data.period.key}.csv`, toCsv(csvColumns, data.shops.map(csvRow)))}
+          className="rounded border border-line px-2 py-1 text-sm hover:bg-paper"
+        >
+          CSV
+        </button>
+      </div>
+      <div className="overflow-x-auto">
+        <table className="w-full min-w-[960px] text-left text-sm">
+          <thead>
+            <tr>
+              <Head title="Shop" formula="volume: qualifying repair lines" />
+              <Head title="Comeback rate" formula="lines with ≥ 1 comeback ÷ qualifying lines" />
+              <Head title="Funnel" formula="against the group rate at this volume" />
+              <Head title="Labour efficiency" formula="Σ standard h ÷ Σ actual h" />
+              <Head title="Parts wait" formula="order → receipt, median · p90" />
+              <Head title="Back-order rate" formula="back-ordered ÷ part lines" />
+              <Head title="Cold-start jobs measured" formula="with a reading ÷ cold-start jobs" />
+              <Head title="Claims on time" formula="filed by deadline ÷ claims" />
+            </tr>
+          </thead>
+          <tbody>
+            <tr className="bg-paper/60 font-medium">
+              <Cell main="Group" sub={`${group.lines.toLocaleString("en-US")} lines`} />
+              <Cell main={valueText(group.comeback)} sub={intervalText(group.comeback)} />
+              <Cell main="—" />
+              <Cell main={pct(group.efficiency.value)} sub={group.efficiency.lines === null ? undefined : `${group.efficiency.lines.toLocaleString("en-US")} lines`} />
+              <Cell main={`${days(group.partsWait.median)} · ${days(group.partsWait.p90)}`} />
+              <Cell main={valueText(group.backOrder)} sub={intervalText(group.backOrder)} />
+              <Cell main={valueText(group.coldStartMeasured)} sub={intervalText(group.coldStartMeasured)} />
+              <ClaimsCell f={group.warrantyOnTime} />
+            </tr>
+            {data.shops.map((s) => (
+              <tr key={s.key} className={s.peer ? "" : "bg-accent-soft/30"}>
+                <Cell main={<span className="font-semibold">{s.label}</span>} sub={s.lines === null ? s.volumeBand : `${s.lines.toLocaleString("en-US")} lines`} />
+                <Cell
+                  main={
+                    s.drillDown && s.shopCode ? (
+                      <button type="button" onClick={() => onOpen(s.shopCode!)} className="text-left underline decoration-dotted hover:text-accent" title="See the comeback pairs">
+                        {valueText(s.comeback)}
+                      </button>
+                    ) : (
+                      valueText(s.comeback)
+                    )
+                  }
+                  sub={intervalText(s.comeback)}
+                />
+                <Cell main={<span className={`rounded px-1.5 py-0.5 text-xs font-semibold ${statusClass[s.comeback.funnel]}`}>{statusText[s.comeback.funnel]}</span>} />
+                <Cell
+                  main={s.efficiency.value === null ? s.efficiency.note : pct(s.efficiency.value)}
+                  sub={s.efficiency.standardHours === null ? undefined : `${Math.round(s.efficiency.standardHours).toLocaleString("en-US")} ÷ ${Math.round(s.efficiency.actualHours!).toLocaleString("en-US")} h`}
+                />
+                <Cell main={s.partsWait.n === 0 ? s.partsWait.note : `${days(s.partsWait.median)} · ${days(s.partsWait.p90)}`} sub={s.partsWait.n ? `${s.partsWait.n} part lines` : undefined} />
+                <Cell main={valueText(s.backOrder)} sub={intervalText(s.backOrder)} />
+                <Cell main={valueText(s.coldStartMeasured)} sub={intervalText(s.coldStartMeasured)} />
+                <ClaimsCell f={s.warrantyOnTime} />
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      </div>
+      <details className="mt-3 text-sm">
+        <summary className="cursor-pointer font-semibold">How each figure is computed</summary>
+        <dl className="mt-2 grid gap-x-4 gap-y-1 text-muted md:grid-cols-[12rem_1fr]">
+          <dt className="font-semibold text-ink">Comeback rate</dt>
+          <dd>{formulas.comebackRate}</dd>
+          <dt className="font-semibold text-ink">Labour efficiency</dt>
+          <dd>{formulas.labourEfficiency}</dd>
+          <dt className="font-semibold text-ink">Parts wait</dt>
+          <dd>{formulas.partsWait}</dd>
+          <dt className="font-semibold text-ink">Back-order rate</dt>
+          <dd>{formulas.backOrderRate}</dd>
+          <dt className="font-semibold text-ink">Cold-start jobs measured</dt>
+          <dd>{formulas.coldStartMeasured}</dd>
+          <dt className="font-semibold text-ink">Claims on time</dt>
+          <dd>{formulas.warrantyOnTime}</dd>
+          {formulas.anonymity && (
+            <>
+              <dt className="font-semibold text-ink">Other shops</dt>
+              <dd>{formulas.anonymity}</dd>
+            </>
+          )}
+        </dl>
+      </details>
+    </section>
+  );
+}

@@ -1,0 +1,124 @@
+import type { ReactNode } from "react";
+import { useQuery, type UseQueryResult } from "@tanstack/react-query";
+import { ChartCard } from "@/components/chart-card";
+import { ErrorNotice, Skeleton } from "@/components/ui/states";
+import { palette } from "@/lib/palette";
+import { benchmarkQueries } from "@/features/benchmarks/api/benchmark-queries";
+import { funnelChart, trendChart } from "@/features/benchmarks/charts/benchmark-charts";
+import { ComebackPairsPanel } from "@/features/benchmarks/components/comeback-pairs";
+import { KpiTable } from "@/features/benchmarks/components/kpi-table";
+import { PeriodControls } from "@/features/benchmarks/components/period-controls";
+import { OwnShopSummary, VisitList } from "@/features/benchmarks/components/visit-list";
+import { useBenchmarkParams } from "@/features/benchmarks/hooks/use-benchmark-params";
+import { pct } from "@/features/benchmarks/format";
+import type { Funnel } from "@shared/schemas/benchmarks";
+
+function FunnelWords({ d }: { d: Funnel }) {
+  const above = d.points.filter((p) => p.status === "above_998" || p.status === "above_95");
+  return (
+    <>
+      {above.length === 0 ? (
+        <p>Every shop is inside the funnel: none differs from the group by more than chance at its volume.</p>
+      ) : (
+        <ul className="list-disc pl-5">
+          {above.map((p) => (
+            <li key={p.key} className="text-ink">
+              <b>{p.label}</b>: {p.words}.
+            </li>
+          ))}
+        </ul>
+      )}
+      {d.notRated.length > 0 && <p>Not rated (fewer than 30 lines): {d.notRated.join(", ")}.</p>}
+      <p className="mt-1">{d.method}</p>
+    </>
+  );
+}
+
+/** A query's loading and error states, then its data. */
+function Loaded<T>({ query, label, children }: { query: UseQueryResult<T>; label: string; children: (data: T) => ReactNode }) {
+  if (query.isPending) return <Skeleton lines={6} label={`Loading ${label}`} />;
+  if (query.isError) return <ErrorNotice error={query.error} onRetry={() => query.refetch()} />;
+  return <>{children(query.data)}</>;
+}
+
+export function Component() {
+  const { params, drill, technician, update } = useBenchmarkParams();
+  const shops = useQuery(benchmarkQueries.shops(params));
+  const funnel = useQuery(benchmarkQueries.funnel(params));
+  const trend = useQuery(benchmarkQueries.trend(params));
+  const open = (shop: string, tech?: string) => {
+    update({ shop, tech });
+    requestAnimationFrame(() => document.getElementById("comeback-pairs")?.scrollIntoView({ behavior: "smooth", block: "start" }));
+  };
+  const drillShop = shops.data?.shops.find((s) => s.shopCode === drill && s.drillDown);
+
+  return (
+    <div className="space-y-4">
+      <div>
+        <h1 className="text-2xl font-bold">Shop benchmarks</h1>
+        <p className="text-muted">Comebacks, labour against standard time, parts waits and claims, shop by shop, judged against the group at each shop's volume.</p>
+      </div>
+      <PeriodControls params={params} period={shops.data?.period} onChange={update} />
+
+      <Loaded query={shops} label="the benchmarks">
+        {(d) => (d.viewer.groupWide ? <VisitList data={d} onOpen={open} /> : <OwnShopSummary data={d} onOpen={open} />)}
+      </Loaded>
+
+      {drillShop && (
+        <div id="comeback-pairs">
+          <ComebackPairsPanel
+            params={params}
+            shop={drillShop}
+            technician={technician}
+            onTechnician={(tech) => update({ tech })}
+            onClose={() => update({ shop: undefined, tech: undefined })}
+          />
+        </div>
+      )}
+
+      <div className="grid gap-4 xl:grid-cols-2">
+        <Loaded query={funnel} label="the funnel">
+          {(f) => (
+            <ChartCard
+              title="Funnel: comeback rate against volume"
+              subtitle={`${f.period.label} · group rate ${pct(f.groupRate)} · shaded: 95 % and 99.8 % limits`}
+              options={funnelChart(f, palette)}
+              rows={f.points.map((p) => ({ label: p.label, volume: p.lines ?? p.volumeBand, rate: p.rate * 100, status: p.words }))}
+              columns={[
+                { key: "label", label: "Shop" },
+                { key: "volume", label: "Lines" },
+                { key: "rate", label: "Comeback rate %", format: (v) => (typeof v === "number" ? v.toFixed(1) : String(v)) },
+                { key: "status", label: "Against the funnel" },
+              ]}
+              filename={`funnel-${f.period.key}.csv`}
+              footer={<FunnelWords d={f} />}
+            />
+          )}
+        </Loaded>
+        <Loaded query={trend} label="the trend">
+          {(t) => (
+            <ChartCard
+              title="Trend by month"
+              subtitle="Comeback rate over the 12 months ending with each month; dashed: the group"
+              options={trendChart(t, palette)}
+              rows={t.series.flatMap((s) =>
+                s.points.map((p) => ({ label: s.label, month: p.month, rolling: p.rolling.value === null ? null : p.rolling.value * 100, monthLines: p.monthLines, monthRate: p.monthRate === null ? null : p.monthRate * 100 })),
+              )}
+              columns={[
+                { key: "label", label: "Shop" },
+                { key: "month", label: "Month" },
+                { key: "rolling", label: "12-month rate %", format: (v) => (typeof v === "number" ? v.toFixed(1) : "–") },
+                { key: "monthLines", label: "Lines in the month", format: (v) => (v === null || v === undefined ? "–" : String(v)) },
+                { key: "monthRate", label: "Month's own rate % (30+ lines)", format: (v) => (typeof v === "number" ? v.toFixed(1) : "–") },
+              ]}
+              filename={`trend-${t.period.key}.csv`}
+              footer={t.method}
+            />
+          )}
+        </Loaded>
+      </div>
+
+      {shops.data && <KpiTable data={shops.data} onOpen={(s) => open(s)} />}
+    </div>
+  );
+}
