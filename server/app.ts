@@ -1,4 +1,5 @@
 import express from "express";
+import { createHmac } from "node:crypto";
 import helmet from "helmet";
 import { pinoHttp } from "pino-http";
 import path from "node:path";
@@ -82,7 +83,9 @@ export function createApp(d: AppDeps): express.Express {
   app.use("/api/me", meRoutes());
   app.use("/api/admin/users", adminUserRoutes(d.db));
   app.use("/api/admin/mail", adminMailRoutes(d.mailDir ?? null));
-  app.use("/api", apiRoutes(d.db, { storage: d.storage, mailer: d.mailer, boss: d.boss }));
+  // peer letters for managers are keyed by a secret derived from the session secret, stable across restarts
+  const peerSecret = createHmac("sha256", d.sessionSecret).update("benchmark-peers").digest("hex");
+  app.use("/api", apiRoutes(d.db, { storage: d.storage, mailer: d.mailer, boss: d.boss }, peerSecret));
   app.use("/api", apiNotFound);
 
   if (d.staticDir && existsSync(path.join(d.staticDir, "index.html"))) {

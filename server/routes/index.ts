@@ -11,13 +11,13 @@ import { overviewRoutes } from "./overview.js";
 import { clusterDetailRoutes } from "./analytics-cluster-detail.js";
 
 /** Mounts the resource routers under /api. Each router declares its roles with allow(). */
-export function apiRoutes(db: Db, services: Omit<ClaimRouteDeps, "db"> = {}): Router {
+export function apiRoutes(db: Db, services: Omit<ClaimRouteDeps, "db"> = {}, peerSecret?: string): Router {
   const router = Router();
   router.use("/shops", shopRoutes(db));
   router.use("/analytics/rates", analyticsRateRoutes(db));
   router.use("/analytics/life", analyticsLifeRoutes(db));
   router.use("/analytics/clusters", analyticsClusterRoutes(db));
-  router.use("/benchmarks", benchmarkRoutes(db));
+  router.use("/benchmarks", benchmarkRoutes(db, peerSecret));
   router.use("/claims", claimRoutes({ db, ...services }));
   router.use("/analytics/clusters", clusterDetailRoutes(db));
   router.use("/repairs.csv", repairCsvRoutes(db));
