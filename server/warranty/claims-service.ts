@@ -9,7 +9,7 @@ import { findClusters, toCluster } from "../services/cluster-finder.js";
 import { clusterCaution, clusterMethod } from "../routes/analytics-clusters.js";
 import {
   claimAttachments, claimAudit, claimLineKeys, claimSends, claimsHoldingLines, getClaim, insertClaim, listClaims, policyFor,
-  repairLinesByKeys, unclaimedCandidateKeys, type Actor,
+  hourTrail, repairLinesByKeys, unclaimedCandidateKeys, type Actor,
 } from "../db/queries/claims.js";
 import { amountOf, eligibilityCounts, mainEngineFamily, toEvidence } from "./evidence.js";
 import { DEFAULT_TERMS } from "./eligibility.js";
@@ -22,11 +22,13 @@ const iso = (d: Date | string | null) => (d === null ? null : d instanceof Date 
 const num = (v: string | number | null) => (v === null ? null : Number(v));
 const imageTypes = new Set(["image/png", "image/jpeg", "image/webp", "image/gif"]);
 
+/** Repair lines as evidence; a single line (a repair claim) also carries its machine's hour-meter trail. */
 async function evidenceFor(db: Db, scope: ShopScope, keys: readonly string[], today: string): Promise<RepairLineEvidence[]> {
   const { lines, measurements, faults } = await repairLinesByKeys(db, scope, keys);
   const days = new Map<string, number>();
   for (const fam of new Set(lines.map((l) => l.engine_family))) days.set(fam, (await policyFor(db, fam)).claim_days);
-  return lines.map((l) => toEvidence(l, measurements, faults, days.get(l.engine_family) ?? 30, today));
+  const trail = lines.length === 1 ? await hourTrail(db, lines[0].machine_key, lines[0].opened_date) : null;
+  return lines.map((l) => toEvidence(l, measurements, faults, days.get(l.engine_family) ?? 30, today, trail));
 }
 
 /** The cluster with this id in the caller's scan (same scope and query parameters as the Clusters page), or 404. */

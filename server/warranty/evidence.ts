@@ -1,6 +1,6 @@
 import { classifyPlug, classifyRailVoltage, summariseCompression } from "../../shared/measurement-interpretation.js";
 import type { EligibilityView, Interpretation, RepairLineEvidence } from "../../shared/schemas/claims.js";
-import type { FaultCodeRow, MeasurementRow, RepairLineRow } from "../db/queries/claims.js";
+import type { FaultCodeRow, HourReadingRow, MeasurementRow, RepairLineRow } from "../db/queries/claims.js";
 import { coverageClassFor, eligibility, termsFor } from "./eligibility.js";
 import { filingDeadline } from "./deadline.js";
 
@@ -47,8 +47,16 @@ export function lineEligibility(l: RepairLineRow): EligibilityView {
 }
 
 /** A repair line as warranty evidence: facts, readings with their interpretation, eligibility, deadline. */
-export function toEvidence(l: RepairLineRow, ms: readonly MeasurementRow[], faults: readonly FaultCodeRow[], claimDays: number, today: string): RepairLineEvidence {
+export function toEvidence(
+  l: RepairLineRow,
+  ms: readonly MeasurementRow[],
+  faults: readonly FaultCodeRow[],
+  claimDays: number,
+  today: string,
+  trail: readonly HourReadingRow[] | null = null,
+): RepairLineEvidence {
   const own = ms.filter((m) => m.repair_line_key === l.repair_line_key);
+  const roReading = trail?.find((r) => r.repair_line_key === l.repair_line_key);
   const codes = faults.filter((f) => f.repair_line_key === l.repair_line_key);
   return {
     id: String(l.repair_line_key),
@@ -96,6 +104,21 @@ export function toEvidence(l: RepairLineRow, ms: readonly MeasurementRow[], faul
     interpretation: interpretMeasurements(own, codes),
     eligibility: lineEligibility(l),
     deadline: l.closed_date ? filingDeadline(l.closed_date, claimDays, today) : null,
+    hourTrail: trail
+      ? trail.map((r) => ({
+          date: r.reading_date,
+          hours: Number(r.hours),
+          source: r.source,
+          valid: r.valid,
+          invalidReason: r.invalid_reason,
+          meterGeneration: r.meter_generation,
+          thisRepair: r.repair_line_key === l.repair_line_key,
+        }))
+      : null,
+    hoursAtRisk:
+      roReading && !roReading.valid
+        ? `The hour-meter cleaning set this repair order's reading aside (${roReading.invalid_reason ?? "no reason recorded"}): the hours at failure may be challenged.`
+        : null,
   };
 }
 

@@ -129,6 +129,28 @@ function machineSection(doc: Doc, l: RepairLineEvidence) {
     ["Hour meter at failure", l.hourMeter === null ? "not recorded" : `${fmt(l.hourMeter)} h`],
     ["Heater-plug lot fitted at build", or(l.machine.heaterPlugLot)],
   ]);
+  if (l.hourTrail?.length) {
+    doc.font("bold").fontSize(9).fillColor(INK).text("Hour-meter readings around the failure", MARGIN, doc.y);
+    doc.font("regular");
+    table(
+      doc,
+      [
+        { label: "Date", width: 110 },
+        { label: "Hours", width: 60, align: "right" },
+        { label: "Source", width: 80 },
+        { label: "Meter", width: 45, align: "right" },
+        { label: "Kept by the hour-meter cleaning", width: 200 },
+      ],
+      l.hourTrail.map((r) => [
+        r.date + (r.thisRepair ? " (this RO)" : ""),
+        fmt(r.hours),
+        r.source,
+        String(r.meterGeneration),
+        r.valid ? "yes" : `no: ${or(r.invalidReason)}`,
+      ]),
+      { highlight: (i) => !l.hourTrail![i].valid },
+    );
+  }
 }
 
 function repairSection(doc: Doc, l: RepairLineEvidence) {
@@ -177,6 +199,7 @@ function eligibilitySection(doc: Doc, l: RepairLineEvidence) {
   doc.text(pdfText(`Months: ${e.monthsCheck.text}`), { width: pageWidth(doc) });
   doc.text(pdfText(`Hours: ${e.hoursCheck.text}`), { width: pageWidth(doc) });
   doc.fillColor(MUTED).fontSize(8).text(e.termsFromRegistry ? "Terms from the machine registry." : "Terms from the common-practice defaults (no terms in the machine registry).");
+  if (l.hoursAtRisk) doc.fillColor(ALERT).fontSize(9).text(pdfText(`At risk: ${l.hoursAtRisk}`), { width: pageWidth(doc) });
   if (l.deadline) doc.fillColor(INK).fontSize(9).text(pdfText(`Filing: ${l.deadline.text}`));
   doc.fillColor(INK);
 }

@@ -123,6 +123,12 @@ export const repairLineEvidenceSchema = z.object({
   interpretation: interpretationSchema,
   eligibility: eligibilitySchema,
   deadline: deadlineSchema.nullable(),
+  /** hour-meter readings around the failure (repair claims only; null on campaign lines) */
+  hourTrail: z
+    .array(z.object({ date: z.string(), hours: z.number(), source: z.string(), valid: z.boolean(), invalidReason: z.string().nullable(), meterGeneration: z.number(), thisRepair: z.boolean() }))
+    .nullable(),
+  /** why the hours at failure may not hold up (the RO's reading flagged by the hour-meter cleaning), or null */
+  hoursAtRisk: z.string().nullable(),
 });
 export type RepairLineEvidence = z.infer<typeof repairLineEvidenceSchema>;
 

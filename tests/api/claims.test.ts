@@ -18,6 +18,7 @@ let clerk: string;
 let managerS5: string;
 /** the first claim's line: a heater-plug line with compression readings */
 let first: LinePick;
+let firstClaimId: string;
 const work = mkdtempSync(path.join(tmpdir(), "ironledger-claims-"));
 
 interface LinePick {
@@ -72,6 +73,7 @@ describe("POST /api/claims from a repair line", () => {
   it("makes a draft claim with eligibility worked out and an audit row", async () => {
     const line = (first = await pickLine({ withCompression: true }));
     const c = await createRepairClaim(line.key);
+    firstClaimId = c.id;
     expect(c.status).toBe("draft");
     expect(c.kind).toBe("repair");
     expect(c.claimNumber).toMatch(/^IL-\d{2}R\d{5}$/);
@@ -117,6 +119,26 @@ describe("POST /api/claims from a repair line", () => {
     await request(t.app).get("/api/claims").expect(401);
     const analyst = await t.signInAs({ roles: ["analyst"] });
     await request(t.app).get("/api/claims").set("Cookie", analyst).expect(403);
+  });
+});
+
+describe("GET /api/claims/preview?repairLine=…", () => {
+  it("marks the hours at risk when the hour-meter cleaning set the RO's reading aside", async () => {
+    const line = await pickLine({ shop: "S2" });
+    const res = await t.db
+      .updateTable("fact_hour_reading")
+      .set({ valid: false, invalid_reason: "rise over 24 h a day" })
+      .where("repair_line_key", "=", line.key)
+      .executeTakeFirst();
+    expect(Number(res.numUpdatedRows)).toBeGreaterThan(0);
+    const p = (await request(t.app).get(`/api/claims/preview?repairLine=${line.key}`).set("Cookie", clerk).expect(200)).body as ClaimPreview;
+    expect(p.lines[0].hoursAtRisk).toMatch(/set this repair order's reading aside \(rise over 24 h a day\)/);
+    expect(p.lines[0].hourTrail!.find((r) => r.thisRepair)).toMatchObject({ valid: false });
+  });
+
+  it("answers 400 when neither or both of repairLine and cluster are given", async () => {
+    const r = await request(t.app).get("/api/claims/preview").set("Cookie", clerk).expect(400);
+    expect(r.body.error.message).toMatch(/Give either repairLine or cluster/);
   });
 });
 
@@ -205,8 +227,7 @@ describe("shop scope on claims", () => {
 describe("GET /api/claims/:id/packet.pdf", () => {
   it("holds the serial, the hour meter and the compression figures of the repair line", async () => {
     const line = first;
-    const claim = (await request(t.app).get("/api/claims").set("Cookie", clerk).expect(200)).body.claims.find((c: { title: string }) => c.title.includes(line.serial));
-    const res = await request(t.app).get(`/api/claims/${claim.id}/packet.pdf`).set("Cookie", clerk).responseType("blob").expect(200);
+    const res = await request(t.app).get(`/api/claims/${firstClaimId}/packet.pdf`).set("Cookie", clerk).responseType("blob").expect(200);
     expect(res.headers["content-type"]).toBe("application/pdf");
     const text = pdfText(res.body as Buffer);
     expect(text).toContain(line.serial);
@@ -223,6 +244,8 @@ describe("GET /api/claims/:id/packet.pdf", () => {
     expect(text).toContain(`${Math.round(average).toLocaleString("en-US")} psi`);
     expect(text).toContain("LOWEST CYLINDER");
     expect(text).toMatch(/Follow the maker's service manual/);
+    expect(text).toContain("Hour-meter readings around the failure");
+    expect(text).toContain("(this RO)");
     expect(text).toContain("Complaint");
   });
 });

@@ -10,6 +10,7 @@ type Tx = Db | Transaction<Database>;
 /** A repair line with its machine, component and shop, as the warranty evidence needs it. */
 export interface RepairLineRow {
   repair_line_key: string;
+  machine_key: string;
   shop_code: string;
   ro_number: string;
   line_no: number;
@@ -77,7 +78,7 @@ export async function repairLinesByKeys(db: Db, scope: ShopScope, keys: readonly
     .innerJoin("dim_machine as m", "m.machine_key", "fl.machine_key")
     .innerJoin("dim_component as c", "c.component_key", "fl.component_key")
     .select([
-      "fl.repair_line_key", "s.shop_code", "fl.ro_number", "fl.line_no", "fl.opened_date", "fl.closed_date", "fl.hour_meter",
+      "fl.repair_line_key", "fl.machine_key", "s.shop_code", "fl.ro_number", "fl.line_no", "fl.opened_date", "fl.closed_date", "fl.hour_meter",
       "fl.complaint", "fl.cause", "fl.correction", "fl.labor_op", "fl.standard_hours", "fl.labor_hours", "fl.parts_cost",
       "fl.labor_cost", "fl.pay_type", "fl.part_number", "fl.part_description", "fl.part_qty", "fl.supplier_lot",
       "c.component_code", "c.name as component_name", "c.system", "c.assembly",
@@ -136,6 +137,30 @@ export async function unclaimedCandidateKeys(
     ORDER BY fl.closed_date DESC, fl.repair_line_key
     LIMIT ${limit}`.execute(db);
   return res.rows.map((r) => r.key);
+}
+
+export interface HourReadingRow {
+  reading_date: string;
+  hours: string;
+  source: string;
+  valid: boolean;
+  invalid_reason: string | null;
+  meter_generation: number;
+  repair_line_key: string | null;
+}
+
+/** The machine's hour-meter readings around a failure: the last `before` up to 60 days after it opened. */
+export async function hourTrail(db: Db, machineKey: string, openedDate: string, before = 12): Promise<HourReadingRow[]> {
+  const rows = await db
+    .selectFrom("fact_hour_reading")
+    .select(["reading_date", "hours", "source", "valid", "invalid_reason", "meter_generation", "repair_line_key"])
+    .where("machine_key", "=", machineKey)
+    .where("reading_date", "<=", sql<string>`(${openedDate}::date + 60)`)
+    .orderBy("reading_date", "desc")
+    .orderBy("hour_reading_key", "desc")
+    .limit(before)
+    .execute();
+  return (rows as HourReadingRow[]).reverse();
 }
 
 export interface PolicyRow {

@@ -10,6 +10,7 @@ export function EligibilityPanel({ line }: { line: RepairLineEvidence }) {
       <p className={`font-semibold ${verdictTone(e.verdict)}`}>{e.summary}</p>
       <p><span className="text-muted">Months:</span> {e.monthsCheck.text}</p>
       <p><span className="text-muted">Hours:</span> {e.hoursCheck.text}</p>
+      {line.hoursAtRisk && <p role="note" className="font-semibold text-alert">At risk: {line.hoursAtRisk}</p>}
       <p className="text-xs text-muted">{e.termsFromRegistry ? "Terms from the machine registry." : "Terms from the common-practice defaults: the machine registry has none."}</p>
     </div>
   );
@@ -25,7 +26,8 @@ function Fact({ label, children }: { label: string; children: React.ReactNode })
 }
 
 /** Machine, repair order and parts/labour of one line. */
-export function LineFacts({ line: l }: { line: RepairLineEvidence }) {
+export function LineFacts({ line }: { line: RepairLineEvidence }) {
+  const l = line;
   return (
     <div className="space-y-3 text-sm">
       <dl className="grid grid-cols-2 gap-3 md:grid-cols-4">
@@ -42,6 +44,24 @@ export function LineFacts({ line: l }: { line: RepairLineEvidence }) {
         <Fact label="Component">{l.component.name}</Fact>
         <Fact label="Fault codes (SPN / FMI)">{l.faultCodes.length ? l.faultCodes.map((f) => `${f.spn} / ${f.fmi}`).join(", ") : "none"}</Fact>
       </dl>
+      {line.hourTrail && line.hourTrail.length > 0 && (
+        <details>
+          <summary className="cursor-pointer text-sm text-accent">Hour-meter readings around the failure ({line.hourTrail.length})</summary>
+          <table className="mt-1 text-sm" aria-label="Hour-meter readings">
+            <thead className="text-xs text-muted"><tr><th className="pr-4 text-left">Date</th><th className="pr-4 text-right">Hours</th><th className="pr-4 text-left">Source</th><th className="text-left">Kept</th></tr></thead>
+            <tbody>
+              {line.hourTrail.map((r, i) => (
+                <tr key={i} className={r.thisRepair ? "font-semibold" : ""}>
+                  <td className="pr-4">{r.date}{r.thisRepair && " (this RO)"}</td>
+                  <td className="pr-4 text-right tabular-nums">{num(r.hours)}</td>
+                  <td className="pr-4">{r.source}</td>
+                  <td className={r.valid ? "" : "text-alert"}>{r.valid ? "yes" : `no: ${r.invalidReason ?? ""}`}</td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        </details>
+      )}
       <dl className="grid gap-2 md:grid-cols-3">
         <Fact label="Complaint">{l.complaint ?? "–"}</Fact>
         <Fact label="Cause">{l.cause ?? "–"}</Fact>
