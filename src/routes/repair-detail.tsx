@@ -1,6 +1,7 @@
 import { useQuery } from "@tanstack/react-query";
 import { Link, useParams } from "react-router-dom";
 import { repairQueries } from "@/features/repairs/api/repair-queries";
+import { meQueries } from "@/features/session/api/me-queries";
 import { MeasurementPanels } from "@/features/repairs/components/measurement-panels";
 import { QueryView } from "@/features/filters/components/query-view";
 import { Card } from "@/components/ui/states";
@@ -19,13 +20,22 @@ function Facts({ items }: { items: [string, string][] }) {
 }
 
 function Detail({ d }: { d: RepairDetail }) {
+  const { data: me } = useQuery(meQueries.current());
+  const canClaim = Boolean(me?.roles.some((r) => r === "clerk" || r === "manager"));
   const l = d.line;
   const m = d.machine;
   return (
     <div className="space-y-4">
       <div>
         <p className="text-sm text-muted">{l.shopCode} · {l.shopName} · {l.system} › {l.assembly}</p>
-        <h1 className="text-2xl font-bold">Repair order {l.roNumber}, line {l.lineNo}: {l.componentName}</h1>
+        <div className="flex flex-wrap items-start justify-between gap-3">
+          <h1 className="text-2xl font-bold">Repair order {l.roNumber}, line {l.lineNo}: {l.componentName}</h1>
+          {canClaim && l.lineType === "failure" && (
+            <Link to={`/claims/new?repairLine=${encodeURIComponent(l.id)}`} className="rounded bg-accent px-3 py-2 text-sm font-semibold text-white">
+              Open a warranty claim
+            </Link>
+          )}
+        </div>
       </div>
       <div className="grid gap-4 lg:grid-cols-3">
         <Card title="Complaint, cause, correction">

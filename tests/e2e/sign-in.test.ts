@@ -43,7 +43,8 @@ describe("signing in through the local provider in Chromium", () => {
     await browser.page.getByRole("button", { name: "Sign in" }).click();
     await browser.page.getByRole("navigation", { name: "Main" }).waitFor();
     expect(await navLabels()).not.toContain("Users");
-    await browser.page.getByText("shops S5").waitFor();
+    await browser.page.getByRole("button", { name: /Ysolde Brack/ }).click();
+    await browser.page.getByRole("menu").getByText("Shops: S5").waitFor();
     await browser.screenshot("sign-in-manager-overview");
   });
 
