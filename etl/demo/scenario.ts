@@ -1,5 +1,5 @@
 /**
- * The invented demo world of /work/shared/SCENARIO.md as data: shops and climate, fleet mix, failure processes,
+ * The invented demo world of ../shared/SCENARIO.md as data: shops and climate, fleet mix, failure processes,
  * planted signals and injected faults. Temperatures here are °F (the scenario's thresholds); the writer converts.
  * Labour standards, prices, part numbers and texts are the generator's own invention where the scenario is silent.
  */
