@@ -8,40 +8,7 @@ import { Cautions, EligibilityPanel, LineFacts, MeasurementPanel } from "@/featu
 import { CaseLines, ClusterStats } from "@/features/claims/components/cluster-stats";
 import type { ClaimPreview } from "@shared/schemas/claims";
 import { meQueries } from "@/features/session/api/me-queries";
-
-function Candidates({ onPick }: { onPick: (id: string) => void }) {
-  const q = useQuery(claimQueries.candidates());
-  if (q.isPending) return <Skeleton lines={5} label="Loading unclaimed repair lines" />;
-  if (q.isError) return <ErrorNotice error={q.error} onRetry={() => q.refetch()} />;
-  if (q.data.candidates.length === 0) return <EmptyState title="Every covered repair line has a claim" />;
-  return (
-    <div className="max-h-96 overflow-auto">
-      <table className="w-full text-left text-sm" aria-label="Unclaimed repair lines in warranty">
-        <thead className="sticky top-0 border-b border-line bg-card text-xs text-muted">
-          <tr><th className="py-1">Deadline</th><th>RO / line</th><th>Shop</th><th>Machine</th><th>Component</th><th className="text-right">Hours</th><th className="pl-3">Billed as</th><th className="text-right">Parts + labour</th><th /></tr>
-        </thead>
-        <tbody>
-          {q.data.candidates.map((c) => (
-            <tr key={c.repairLineId} className="border-b border-line/50" title={c.eligibility}>
-              <td className="py-1"><DeadlineBadge deadline={c.deadline} /></td>
-              <td>{c.roNumber}/{c.lineNo}</td>
-              <td>{c.shopCode}</td>
-              <td>{c.serial} <span className="text-muted">{c.modelLine}</span></td>
-              <td>{c.component}</td>
-              <td className="text-right tabular-nums">{num(c.hourMeter, 0)}</td>
-              <td className={`pl-3 ${c.payType === "warranty" ? "" : "font-semibold text-alert"}`}>{c.payType}</td>
-              <td className="text-right tabular-nums">{money(c.amount)}</td>
-              <td className="pl-2 text-right">
-                <button type="button" onClick={() => onPick(c.repairLineId)} className="rounded bg-slate px-2 py-0.5 text-xs text-paper" aria-label={`Claim RO ${c.roNumber}/${c.lineNo}`}>Claim</button>
-              </td>
-            </tr>
-          ))}
-        </tbody>
-      </table>
-      <p className="mt-2 text-xs text-muted">Closed failure lines inside the machine's cover that no claim holds yet. A line billed to the customer or internally while in cover is money the group may be owed.</p>
-    </div>
-  );
-}
+import { UnclaimedLines } from "@/features/claims/components/unclaimed-lines";
 
 function Chooser() {
   const { data: me } = useSuspenseQuery(meQueries.current());
@@ -54,7 +21,7 @@ function Chooser() {
     <div className="grid gap-4 lg:grid-cols-[2fr_1fr]">
       <div className="lg:col-span-2">
         <Card title="Repair lines in warranty, not yet claimed">
-          <Candidates onPick={(id) => setParams({ repairLine: id })} />
+          <UnclaimedLines onPick={(id) => setParams({ repairLine: id })} />
         </Card>
       </div>
       <Card title="A campaign case from a cluster">

@@ -1,11 +1,13 @@
 import { useQuery } from "@tanstack/react-query";
-import { Link } from "react-router-dom";
+import { Link, useNavigate } from "react-router-dom";
+import { UnclaimedLines } from "@/features/claims/components/unclaimed-lines";
 import { Card, EmptyState, ErrorNotice, Skeleton } from "@/components/ui/states";
 import { claimQueries } from "@/features/claims/api/claim-queries";
 import { DeadlineBadge, StatusPill, money } from "@/features/claims/components/deadline-badge";
 
 export function Component() {
   const q = useQuery(claimQueries.list());
+  const navigate = useNavigate();
   return (
     <div className="space-y-4">
       <div className="flex flex-wrap items-end justify-between gap-3">
@@ -43,6 +45,9 @@ export function Component() {
             </tbody>
           </table>
         )}
+      </Card>
+      <Card title="Repair lines in warranty, not yet claimed">
+        <UnclaimedLines onPick={(id) => navigate(`/claims/new?repairLine=${encodeURIComponent(id)}`)} />
       </Card>
     </div>
   );

@@ -102,6 +102,17 @@ describe("a campaign case from the planted cluster in Chromium", () => {
     await browser.screenshot("warranty-campaign-sent");
   });
 
+  it("shows the clerk's queue of covered, unclaimed repair lines on the claims page and opens a claim from it", async () => {
+    const { page } = browser;
+    await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Claims" }).click();
+    const queue = page.getByRole("table", { name: "Unclaimed repair lines in warranty" });
+    await queue.waitFor({ timeout: 60_000 });
+    expect(await queue.locator("tbody tr").count()).toBeGreaterThan(0);
+    await browser.screenshot("warranty-claims-queue");
+    await queue.getByRole("button", { name: /^Claim RO / }).first().click();
+    await page.waitForURL(/\/claims\/new\?repairLine=/);
+  });
+
   it("lets the admin read the captured mail with the packet attached", async () => {
     const { page } = browser;
     await page.context().clearCookies();
