@@ -27,7 +27,7 @@ export function Component() {
         ) : (
           <table className="w-full text-left text-sm" aria-label="Claims queue">
             <thead className="border-b border-line text-xs text-muted">
-              <tr><th className="py-2">Claim</th><th>What</th><th>Shop</th><th>Status</th><th>Deadline</th><th className="text-right">Lines</th><th className="text-right">Claimed</th><th>Sent</th></tr>
+              <tr><th className="py-2">Claim</th><th>What</th><th>Shop</th><th>Status</th><th>Deadline</th><th className="text-right">Lines</th><th className="text-right">Claimed</th><th className="pl-3">Sent</th></tr>
             </thead>
             <tbody>
               {q.data.claims.map((c) => (
@@ -39,7 +39,7 @@ export function Component() {
                   <td>{c.status === "draft" ? <DeadlineBadge deadline={c.deadline} /> : <span className="text-muted">{c.deadline.deadline}</span>}</td>
                   <td className="text-right tabular-nums">{c.lineCount}</td>
                   <td className="text-right tabular-nums">{money(c.amountClaimed)}</td>
-                  <td className="text-xs">{c.lastSend ? c.lastSend.status : "–"}</td>
+                  <td className="pl-3 text-xs">{c.lastSend ? c.lastSend.status : "–"}</td>
                 </tr>
               ))}
             </tbody>
