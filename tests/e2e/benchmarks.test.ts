@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { openBrowser, signInThroughProvider, type Browser } from "../helpers/browser.js";
+import { forgetSessions, openBrowser, signInThroughProvider, type Browser } from "../helpers/browser.js";
 import { startTestStack, type TestStack } from "../helpers/test-stack.js";
 import { DEMO_PASSWORD } from "../../server/auth/demo-accounts.js";
 import { shops as demoShops } from "../../etl/demo/scenario.js";
@@ -46,7 +46,7 @@ describe("the benchmarks page in Chromium", () => {
 
   it("shows manager.s5 their shop by name and every other shop as a letter only", async () => {
     const page = browser.page;
-    await page.context().clearCookies();
+    await forgetSessions(page);
     await signInThroughProvider(page, stack.url, "manager.s5", DEMO_PASSWORD, "/benchmarks");
     const summary = page.getByRole("region", { name: "Where your shop stands" });
     await summary.getByText(/S5 Maplewick/).first().waitFor();

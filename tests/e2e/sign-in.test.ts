@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { openBrowser, signInThroughProvider, type Browser } from "../helpers/browser.js";
+import { forgetSessions, openBrowser, signInThroughProvider, type Browser } from "../helpers/browser.js";
 import { startTestStack, type TestStack } from "../helpers/test-stack.js";
 import { DEMO_PASSWORD } from "../../server/auth/demo-accounts.js";
 
@@ -49,7 +49,7 @@ describe("signing in through the local provider in Chromium", () => {
   });
 
   it("refuses a wrong password with a message in words", async () => {
-    await browser.page.context().clearCookies();
+    await forgetSessions(browser.page);
     await browser.page.goto(stack.url + "/", { waitUntil: "networkidle" });
     await browser.page.getByRole("link", { name: "Sign in" }).click();
     await browser.page.getByLabel("Username").fill("analyst");

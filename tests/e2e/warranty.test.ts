@@ -3,7 +3,7 @@ import { execFileSync } from "node:child_process";
 import { mkdtempSync, readFileSync, rmSync } from "node:fs";
 import { tmpdir } from "node:os";
 import path from "node:path";
-import { artifactsDir, openBrowser, signInThroughProvider, type Browser } from "../helpers/browser.js";
+import { artifactsDir, forgetSessions, openBrowser, signInThroughProvider, type Browser } from "../helpers/browser.js";
 import { startTestStack, type TestStack } from "../helpers/test-stack.js";
 import { DEMO_PASSWORD } from "../../server/auth/demo-accounts.js";
 
@@ -111,11 +111,12 @@ describe("a campaign case from the planted cluster in Chromium", () => {
     await browser.screenshot("warranty-claims-queue");
     await queue.getByRole("button", { name: /^Claim RO / }).first().click();
     await page.waitForURL(/\/claims\/new\?repairLine=/);
+    await page.waitForLoadState("networkidle");
   });
 
   it("lets the admin read the captured mail with the packet attached", async () => {
     const { page } = browser;
-    await page.context().clearCookies();
+    await forgetSessions(page);
     await signInThroughProvider(page, stack.url, "admin", DEMO_PASSWORD);
     await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Captured mail" }).click();
     await page.getByRole("list", { name: "Captured mail" }).getByText(`${claimNumber}.pdf`, { exact: false }).waitFor();

@@ -64,3 +64,12 @@ export async function signInThroughProvider(page: Page, baseUrl: string, usernam
   await page.waitForURL((u) => u.href.startsWith(baseUrl), { timeout: 15_000 });
   await page.getByRole("navigation", { name: "Main" }).waitFor();
 }
+
+/**
+ * Forgets every session in the browser. Leaves the page first: with rolling sessions a response still in
+ * flight from the old page would set the session cookie again after it was cleared.
+ */
+export async function forgetSessions(page: Page): Promise<void> {
+  await page.goto("about:blank");
+  await page.context().clearCookies();
+}
