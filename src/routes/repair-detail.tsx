@@ -2,6 +2,8 @@ import { useQuery } from "@tanstack/react-query";
 import { Link, useParams } from "react-router-dom";
 import { repairQueries } from "@/features/repairs/api/repair-queries";
 import { meQueries } from "@/features/session/api/me-queries";
+import { useTemperatureUnit } from "@/features/filters/hooks/use-temperature-unit";
+import { celsiusToFahrenheit } from "@shared/bands";
 import { MeasurementPanels } from "@/features/repairs/components/measurement-panels";
 import { QueryView } from "@/features/filters/components/query-view";
 import { Card } from "@/components/ui/states";
@@ -22,6 +24,7 @@ function Facts({ items }: { items: [string, string][] }) {
 function Detail({ d }: { d: RepairDetail }) {
   const { data: me } = useQuery(meQueries.current());
   const canClaim = Boolean(me?.roles.some((r) => r === "clerk" || r === "manager"));
+  const [unit] = useTemperatureUnit();
   const l = d.line;
   const m = d.machine;
   return (
@@ -49,7 +52,7 @@ function Detail({ d }: { d: RepairDetail }) {
           <Facts items={[
             ["Opened", l.openedDate], ["Closed", v(l.closedDate)], ["Line type", l.lineType], ["Pay type", l.payType],
             ["Hour meter", v(l.hourMeter, " h")], ["Labour op", v(l.laborOp)], ["Labour", v(l.laborHours, " h")], ["Standard", v(l.standardHours, " h")],
-            ["Technician", v(l.technician)], ["Ambient", l.ambientTempC === null ? "—" : `${l.ambientTempC} °C`],
+            ["Technician", v(l.technician)], ["Ambient", l.ambientTempC === null ? "—" : unit === "F" ? `${celsiusToFahrenheit(l.ambientTempC).toFixed(0)} °F` : `${l.ambientTempC} °C`],
           ]} />
         </Card>
         <Card title="Part">
