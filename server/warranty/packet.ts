@@ -204,14 +204,19 @@ function eligibilitySection(doc: Doc, l: RepairLineEvidence) {
   doc.fillColor(INK);
 }
 
+/** A bold line that titles the table below it. */
+function subheading(doc: Doc, text: string) {
+  doc.font("bold").fontSize(9).text(text, MARGIN, doc.y);
+  doc.font("regular");
+}
+
 function measurementSection(doc: Doc, l: RepairLineEvidence) {
   const m = l.interpretation;
   if (!m.compression && m.plugs.length === 0 && m.rail.length === 0 && m.battery.length === 0) return;
   heading(doc, "Measurements and their interpretation");
   const c = m.compression;
   if (c) {
-    doc.font("bold").fontSize(9).text("Compression per cylinder (psi, mean of the attempts)");
-    doc.font("regular");
+    subheading(doc, "Compression per cylinder (psi, mean of the attempts)");
     table(
       doc,
       [
@@ -231,8 +236,7 @@ function measurementSection(doc: Doc, l: RepairLineEvidence) {
     ]);
   }
   if (m.plugs.length) {
-    doc.font("bold").fontSize(9).text("Heater-plug resistance (cold, disconnected)", MARGIN, doc.y);
-    doc.font("regular");
+    subheading(doc, "Heater-plug resistance (cold, disconnected)");
     table(
       doc,
       [
@@ -246,13 +250,11 @@ function measurementSection(doc: Doc, l: RepairLineEvidence) {
     );
   }
   if (m.rail.length) {
-    doc.font("bold").fontSize(9).text("Preheat rail voltage (key on, while energised)", MARGIN, doc.y);
-    doc.font("regular");
+    subheading(doc, "Preheat rail voltage (key on, while energised)");
     table(doc, [{ label: "As recorded", width: 100 }, { label: "Volts", width: 70, align: "right" }, { label: "Verdict", width: 270 }], m.rail.map((r) => [r.raw, fmt(r.volts, 2), r.label]));
   }
   if (m.battery.length) {
-    doc.font("bold").fontSize(9).text("Battery voltage", MARGIN, doc.y);
-    doc.font("regular");
+    subheading(doc, "Battery voltage");
     table(doc, [{ label: "As recorded", width: 100 }, { label: "Volts", width: 70, align: "right" }], m.battery.map((r) => [r.raw, fmt(r.volts, 2)]));
   }
 }

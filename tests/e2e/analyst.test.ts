@@ -1,36 +1,27 @@
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { describe, expect, it } from "vitest";
 import { sql } from "kysely";
-import { openBrowser, signInThroughProvider, type Browser } from "../helpers/browser.js";
-import { startTestStack, type TestStack } from "../helpers/test-stack.js";
+import { signInThroughProvider } from "../helpers/browser.js";
+import { browserJourney } from "../helpers/browser-journey.js";
 import { DEMO_PASSWORD } from "../../server/auth/demo-accounts.js";
 
 // The analyst's week on the demo world (../shared/SCENARIO.md): the planted heater-plug lot must top the
 // cluster list, and its repair lines must lead down to single repair orders with their readings.
 
-let stack: TestStack;
-let browser: Browser;
+const env = browserJourney({ demo: true });
 const SLOW = { timeout: 120_000 }; // the first cluster scan of a fresh server takes a while
 
-beforeAll(async () => {
-  stack = await startTestStack({}, { demo: true });
-  browser = await openBrowser();
-}, 600_000);
-afterAll(async () => {
-  await browser?.close();
-  await stack?.stop();
-});
 
-const page = () => browser.page;
+const page = () => env.browser.page;
 const nav = (name: string) => page().getByRole("navigation", { name: "Main" }).getByRole("link", { name, exact: true });
 const chartCount = () => page().locator("[data-testid=chart]:has(svg)").count();
 
 describe("the analyst's week in Chromium", () => {
   it("signs in through the provider and sees the overview with loads, rates, new clusters and machines", async () => {
-    await signInThroughProvider(page(), stack.url, "analyst", DEMO_PASSWORD);
+    await signInThroughProvider(page(), env.stack.url, "analyst", DEMO_PASSWORD);
     await page().getByRole("heading", { name: "Machines most in need of attention" }).waitFor(SLOW);
     await page().getByText("Your first visit").waitFor();
     await page().getByRole("cell", { name: /S5 · / }).waitFor();
-    await browser.screenshot("analyst-01-overview");
+    await env.browser.screenshot("analyst-01-overview");
   }, 180_000);
 
   it("finds the planted heater-plug cluster (lot BT-2109, K26-4R) at the top of Clusters", async () => {
@@ -40,7 +31,7 @@ describe("the analyst's week in Chromium", () => {
     const text = await first.innerText();
     expect(text).toMatch(/lot BT-2109/);
     expect(text).toMatch(/K26-4R/);
-    await browser.screenshot("analyst-02-clusters");
+    await env.browser.screenshot("analyst-02-clusters");
   }, 180_000);
 
   let lineIds: string[] = [];
@@ -52,13 +43,13 @@ describe("the analyst's week in Chromium", () => {
     expect(lineIds.length).toBeGreaterThan(10);
     expect(await chartCount()).toBeGreaterThanOrEqual(3);
     await page().getByRole("button", { name: "Open a warranty case" }).or(page().getByRole("link", { name: "Open a warranty case" })).waitFor();
-    await browser.screenshot("analyst-03-cluster-detail");
+    await env.browser.screenshot("analyst-03-cluster-detail");
   }, 180_000);
 
   it("opens a repair with compression readings and sees the table with average and spread", async () => {
     const withCompression = await sql<{ id: string }>`
       SELECT DISTINCT repair_line_key::text AS id FROM fact_measurement
-      WHERE kind = 'compression' AND repair_line_key IN (${sql.join(lineIds.map((id) => sql`${id}::bigint`))})`.execute(stack.tdb.db);
+      WHERE kind = 'compression' AND repair_line_key IN (${sql.join(lineIds.map((id) => sql`${id}::bigint`))})`.execute(env.stack.tdb.db);
     expect(withCompression.rows.length).toBeGreaterThan(0);
     const id = withCompression.rows[0].id;
     await page().locator(`a[href="/repairs/${id}"]`).first().click();
@@ -69,12 +60,12 @@ describe("the analyst's week in Chromium", () => {
     await page().getByText("Spread between cylinders").waitFor();
     await page().getByRole("heading", { name: "Before you act on these readings" }).waitFor();
     await page().getByText(/Follow the maker's service manual/).waitFor();
-    await browser.screenshot("analyst-04-repair-with-compression");
+    await env.browser.screenshot("analyst-04-repair-with-compression");
 
     const without = lineIds.find((x) => !withCompression.rows.some((r) => r.id === x))!;
-    await page().goto(`${stack.url}/repairs/${without}`, { waitUntil: "networkidle" });
+    await page().goto(`${env.stack.url}/repairs/${without}`, { waitUntil: "networkidle" });
     await page().getByText("No compression recorded on this line.").waitFor(SLOW);
-    await browser.screenshot("analyst-05-repair-without-compression");
+    await env.browser.screenshot("analyst-05-repair-without-compression");
   }, 180_000);
 
   it("renders the four rate charts with data", async () => {
@@ -87,7 +78,7 @@ describe("the analyst's week in Chromium", () => {
     expect(await page().locator("[data-testid=chart] svg rect").count()).toBeGreaterThan(10);
     await page().getByRole("button", { name: "°F" }).click();
     await page().getByText("Daily minimum temperature at the home shop (°F)").waitFor();
-    await browser.screenshot("analyst-06-rates");
+    await env.browser.screenshot("analyst-06-rates");
   }, 180_000);
 
   it("renders the Weibull plot with its fit table, Kaplan–Meier and the mean cumulative function", async () => {
@@ -102,7 +93,7 @@ describe("the analyst's week in Chromium", () => {
     await page().getByRole("textbox", { name: "Lot", exact: true }).fill("BT-2109");
     await page().getByRole("textbox", { name: "Lot", exact: true }).press("Enter");
     await page().getByText(/Scale ratio \d/).waitFor(SLOW);
-    await browser.screenshot("analyst-07-life");
+    await env.browser.screenshot("analyst-07-life");
   }, 180_000);
 
   it("lists repairs with server-side paging and sorting", async () => {
@@ -112,16 +103,16 @@ describe("the analyst's week in Chromium", () => {
     await page().waitForURL(/sort=hours/);
     await page().getByRole("button", { name: "Next" }).click();
     await page().getByText(/^Page 2 of/).waitFor();
-    await browser.screenshot("analyst-08-repairs");
+    await env.browser.screenshot("analyst-08-repairs");
     await page().setViewportSize({ width: 800, height: 900 });
-    await browser.screenshot("analyst-09-repairs-tablet");
+    await env.browser.screenshot("analyst-09-repairs-tablet");
     await page().setViewportSize({ width: 1280, height: 860 });
   }, 180_000);
 
   it("shows the manager of S5 only S5's repairs", async () => {
     await page().getByRole("button", { name: /Teodor Quill/ }).click();
     await page().getByRole("menuitem", { name: "Sign out" }).click();
-    await page().waitForURL(`${stack.url}/signed-out`);
+    await page().waitForURL(`${env.stack.url}/signed-out`);
     await page().getByRole("link", { name: "Sign in" }).click();
     await page().getByLabel("Username").fill("manager.s5");
     await page().getByLabel("Password").fill(DEMO_PASSWORD);
@@ -132,13 +123,13 @@ describe("the analyst's week in Chromium", () => {
     const shops = await page().locator("table tbody tr td:nth-child(2)").allInnerTexts();
     expect(shops.length).toBe(25);
     expect(new Set(shops)).toEqual(new Set(["S5"]));
-    await browser.screenshot("analyst-10-manager-s5-repairs");
+    await env.browser.screenshot("analyst-10-manager-s5-repairs");
     await nav("Overview").click();
     await page().getByRole("heading", { name: "Machines most in need of attention" }).waitFor(SLOW);
-    await browser.screenshot("analyst-11-manager-s5-overview");
+    await env.browser.screenshot("analyst-11-manager-s5-overview");
   }, 240_000);
 
   it("logs no console errors or failed requests on any page", () => {
-    expect(browser.consoleErrors).toEqual([]);
+    expect(env.browser.consoleErrors).toEqual([]);
   });
 });

@@ -1,27 +1,18 @@
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { forgetSessions, openBrowser, signInThroughProvider, type Browser } from "../helpers/browser.js";
-import { startTestStack, type TestStack } from "../helpers/test-stack.js";
+import { describe, expect, it } from "vitest";
+import { forgetSessions, signInThroughProvider } from "../helpers/browser.js";
+import { browserJourney } from "../helpers/browser-journey.js";
 import { DEMO_PASSWORD } from "../../server/auth/demo-accounts.js";
 import { shops as demoShops } from "../../etl/demo/scenario.js";
 
 // The planted comeback shop (S5, SCENARIO.md signal (b)) must be the one the page sends the director to.
 
-let stack: TestStack;
-let browser: Browser;
+const env = browserJourney({ demo: true });
 
-beforeAll(async () => {
-  stack = await startTestStack({}, { demo: true });
-  browser = await openBrowser();
-}, 600_000);
-afterAll(async () => {
-  await browser?.close();
-  await stack?.stop();
-});
 
 describe("the benchmarks page in Chromium", () => {
   it("shows a director the shop to visit first, the funnel with S5 flagged in words, and the comeback pairs", async () => {
-    const page = browser.page;
-    await signInThroughProvider(page, stack.url, "director", DEMO_PASSWORD);
+    const page = env.browser.page;
+    await signInThroughProvider(page, env.stack.url, "director", DEMO_PASSWORD);
     await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Benchmarks" }).click();
     const visits = page.getByRole("region", { name: "Which shop needs a visit" });
     await visits.getByRole("heading", { name: /Which shop needs a visit — 12 months to May 2025/ }).waitFor();
@@ -32,7 +23,7 @@ describe("the benchmarks page in Chromium", () => {
     const funnel = page.getByRole("region", { name: "Funnel: comeback rate against volume" });
     await funnel.getByRole("img").waitFor();
     await funnel.getByText(/S5 Maplewick.*above the 99\.8 % limit/).waitFor();
-    await browser.screenshot("benchmarks-director");
+    await env.browser.screenshot("benchmarks-director");
 
     await first.getByRole("button", { name: "See the comeback pairs" }).click();
     const pairs = page.getByRole("region", { name: "Comeback pairs" });
@@ -41,13 +32,13 @@ describe("the benchmarks page in Chromium", () => {
     await pairs.getByRole("heading", { name: /technician S5-T2/ }).waitFor();
     await pairs.getByText(/qualifying lines came back/).waitFor();
     expect(await pairs.getByRole("row").count()).toBeGreaterThan(5);
-    await browser.screenshot("benchmarks-director-pairs");
+    await env.browser.screenshot("benchmarks-director-pairs");
   });
 
   it("shows manager.s5 their shop by name and every other shop as a letter only", async () => {
-    const page = browser.page;
+    const page = env.browser.page;
     await forgetSessions(page);
-    await signInThroughProvider(page, stack.url, "manager.s5", DEMO_PASSWORD, "/benchmarks");
+    await signInThroughProvider(page, env.stack.url, "manager.s5", DEMO_PASSWORD, "/benchmarks");
     const summary = page.getByRole("region", { name: "Where your shop stands" });
     await summary.getByText(/S5 Maplewick/).first().waitFor();
     const table = page.getByRole("region", { name: "Shop KPIs" });
@@ -58,10 +49,10 @@ describe("the benchmarks page in Chromium", () => {
       expect(text, s.town).not.toContain(s.town);
     }
     expect(new Set(text.match(/Peer [A-G]/g)).size).toBe(7);
-    await browser.screenshot("benchmarks-manager");
+    await env.browser.screenshot("benchmarks-manager");
   });
 
   it("logs no console errors", () => {
-    expect(browser.consoleErrors).toEqual([]);
+    expect(env.browser.consoleErrors).toEqual([]);
   });
 });

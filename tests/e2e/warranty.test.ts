@@ -1,26 +1,19 @@
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { afterAll, describe, expect, it } from "vitest";
 import { execFileSync } from "node:child_process";
 import { mkdtempSync, readFileSync, rmSync } from "node:fs";
 import { tmpdir } from "node:os";
 import path from "node:path";
-import { artifactsDir, forgetSessions, openBrowser, signInThroughProvider, type Browser } from "../helpers/browser.js";
-import { startTestStack, type TestStack } from "../helpers/test-stack.js";
+import { artifactsDir, forgetSessions, signInThroughProvider } from "../helpers/browser.js";
+import { browserJourney } from "../helpers/browser-journey.js";
 import { DEMO_PASSWORD } from "../../server/auth/demo-accounts.js";
 
 // The warranty clerk's journey on the demo world: the planted heater-plug lot BT-2109 (../shared/SCENARIO.md)
 // becomes a campaign case with a photo, its packet is downloaded and e-mailed to the SMTP fake.
 
-let stack: TestStack;
-let browser: Browser;
+const env = browserJourney({ demo: true });
 const work = mkdtempSync(path.join(tmpdir(), "ironledger-warranty-e2e-"));
 
-beforeAll(async () => {
-  stack = await startTestStack({}, { demo: true });
-  browser = await openBrowser();
-}, 600_000);
 afterAll(async () => {
-  await browser?.close();
-  await stack?.stop();
   rmSync(work, { recursive: true, force: true });
 });
 
@@ -28,22 +21,22 @@ describe("a campaign case from the planted cluster in Chromium", () => {
   let claimNumber = "";
 
   it("lets the clerk pick the BT-2109 cluster on the new-claim page and see its statistics", async () => {
-    const { page } = browser;
-    await signInThroughProvider(page, stack.url, "clerk", DEMO_PASSWORD);
+    const { page } = env.browser;
+    await signInThroughProvider(page, env.stack.url, "clerk", DEMO_PASSWORD);
     await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Claims" }).click();
     await page.getByRole("link", { name: "New claim" }).click();
     await page.getByRole("table", { name: "Unclaimed repair lines in warranty" }).waitFor();
-    await browser.screenshot("warranty-new-claim-chooser");
+    await env.browser.screenshot("warranty-new-claim-chooser");
     const choice = page.getByRole("list", { name: "Clusters to choose from" }).getByRole("listitem").filter({ hasText: "BT-2109" }).first();
     await choice.getByRole("button", { name: /^Use cluster/ }).click();
     await page.waitForURL(/\/claims\/new\?cluster=[0-9a-f]{16}$/);
     await page.getByTestId("cluster-stats").getByText("BT-2109").first().waitFor();
     await page.getByRole("table", { name: "Repair lines in the case" }).waitFor();
-    await browser.screenshot("warranty-campaign-preview");
+    await env.browser.screenshot("warranty-campaign-preview");
   });
 
   it("makes the campaign case and shows its deadline, lines and audit trail", async () => {
-    const { page } = browser;
+    const { page } = env.browser;
     await page.getByRole("button", { name: "Make the campaign case" }).click();
     await page.waitForURL(/\/claims\/\d+$/);
     // the detail page loads lazily after the URL changes: wait for its own heading
@@ -56,7 +49,7 @@ describe("a campaign case from the planted cluster in Chromium", () => {
   });
 
   it("attaches a photo and shows it as a thumbnail", async () => {
-    const { page } = browser;
+    const { page } = env.browser;
     // a small PNG drawn on a canvas in the page itself
     const dataUrl = await page.evaluate(() => {
       const c = document.createElement("canvas");
@@ -77,11 +70,11 @@ describe("a campaign case from the planted cluster in Chromium", () => {
     await thumb.waitFor();
     await expect.poll(() => thumb.evaluate((img: HTMLImageElement) => img.complete && img.naturalWidth)).toBe(160);
     await page.getByRole("list", { name: "Audit trail" }).getByText("attachment added").waitFor();
-    await browser.screenshot("warranty-campaign-detail");
+    await env.browser.screenshot("warranty-campaign-detail");
   });
 
   it("downloads the packet PDF with the cluster statistics and the photo's name in it", async () => {
-    const { page } = browser;
+    const { page } = env.browser;
     const [download] = await Promise.all([page.waitForEvent("download"), page.getByRole("link", { name: "Download packet (PDF)" }).click()]);
     const file = path.join(work, "packet.pdf");
     await download.saveAs(file);
@@ -95,35 +88,35 @@ describe("a campaign case from the planted cluster in Chromium", () => {
   });
 
   it("sends the packet and shows it as sent", async () => {
-    const { page } = browser;
+    const { page } = env.browser;
     await page.getByRole("button", { name: "Send packet" }).click();
     await page.getByTestId("send-state").getByText(/^Sent to claims-k26@warranty\.ironledger\.invalid/).waitFor();
     await page.getByRole("list", { name: "Audit trail" }).getByText("packet sent").waitFor();
-    await browser.screenshot("warranty-campaign-sent");
+    await env.browser.screenshot("warranty-campaign-sent");
   });
 
   it("shows the clerk's queue of covered, unclaimed repair lines on the claims page and opens a claim from it", async () => {
-    const { page } = browser;
+    const { page } = env.browser;
     await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Claims" }).click();
     const queue = page.getByRole("table", { name: "Unclaimed repair lines in warranty" });
     await queue.waitFor({ timeout: 60_000 });
     expect(await queue.locator("tbody tr").count()).toBeGreaterThan(0);
-    await browser.screenshot("warranty-claims-queue");
+    await env.browser.screenshot("warranty-claims-queue");
     await queue.getByRole("button", { name: /^Claim RO / }).first().click();
     await page.waitForURL(/\/claims\/new\?repairLine=/);
     await page.waitForLoadState("networkidle");
   });
 
   it("lets the admin read the captured mail with the packet attached", async () => {
-    const { page } = browser;
+    const { page } = env.browser;
     await forgetSessions(page);
-    await signInThroughProvider(page, stack.url, "admin", DEMO_PASSWORD);
+    await signInThroughProvider(page, env.stack.url, "admin", DEMO_PASSWORD);
     await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Captured mail" }).click();
     await page.getByRole("list", { name: "Captured mail" }).getByText(`${claimNumber}.pdf`, { exact: false }).waitFor();
-    await browser.screenshot("warranty-captured-mail");
+    await env.browser.screenshot("warranty-captured-mail");
   });
 
   it("logs no console errors on the way", () => {
-    expect(browser.consoleErrors).toEqual([]);
+    expect(env.browser.consoleErrors).toEqual([]);
   });
 });
