@@ -17,15 +17,23 @@ export interface ReadingSpec {
   hoursCol: string;
   /** SQL over stg s: the text whose wh_key is the reading's fact_hour_reading key */
   keyText: string;
+  /** staging columns holding the machine key and the reading key, when the loader computed them */
+  precomputed?: { machineKey: string; readingKey: string };
 }
 
 export async function checkHourReadings(client: pg.PoolClient, spec: ReadingSpec): Promise<void> {
   await client.query(`
     CREATE TEMP TABLE hr ON COMMIT DROP AS
     WITH file_r AS (
-      SELECT s.row_no, m.machine_key, s.${spec.dateCol} AS d, s.${spec.hoursCol} AS h, s.meter_change AS mc,
-             wh_key(${spec.keyText}) AS rk
-      FROM stg s JOIN dim_machine m ON m.serial = s.serial
+      ${
+        spec.precomputed
+          ? `SELECT s.row_no, s.${spec.precomputed.machineKey} AS machine_key, s.${spec.dateCol} AS d, s.${spec.hoursCol} AS h,
+               s.meter_change AS mc, s.${spec.precomputed.readingKey} AS rk
+             FROM stg s`
+          : `SELECT s.row_no, m.machine_key, s.${spec.dateCol} AS d, s.${spec.hoursCol} AS h, s.meter_change AS mc,
+               wh_key(${spec.keyText}) AS rk
+             FROM stg s JOIN dim_machine m ON m.serial = s.serial`
+      }
       WHERE s.reject_code IS NULL AND s.${spec.hoursCol} IS NOT NULL
     ),
     wh_r AS (

@@ -21,25 +21,18 @@
  *   anything is written.
  */
 import { createHash } from "node:crypto";
+import { createReadStream } from "node:fs";
 import path from "node:path";
 import pg from "pg";
 import { EtlFatalError } from "../errors.js";
-import { layouts } from "../layouts.js";
 import type { ExportKind, Profile } from "../profiles/profile-schema.js";
-import { detectProfile, getProfile, mapHeader, missingRequiredColumns } from "../profiles/registry.js";
+import { detectProfile, getProfile, missingRequiredColumns } from "../profiles/registry.js";
 import { checkReadable, headerCells, readCsv, readHead } from "../sources/read-csv.js";
-import { columnLabel, missingFields } from "../sources/row-schemas.js";
-import { FieldReader } from "../transform/fields.js";
-import { transformHours } from "../transform/hours.js";
-import { transformJob } from "../transform/jobs.js";
-import { transformMachine } from "../transform/machines.js";
-import { transformMeasurement } from "../transform/measurements.js";
-import { RowRejected } from "../transform/reject.js";
-import { transformWeather } from "../transform/weather.js";
 import { ensureDates, seedReference, storeRejects, type MergeCounts } from "./merge-common.js";
-import { mergeJobs } from "./merge-jobs.js";
+import { finishJobs, jobsBlock, prepareJobs, type BlockTally } from "./merge-jobs.js";
 import { mergeHours, mergeMachines, mergeMeasurements, mergeWeather } from "./merge-others.js";
-import { createStage, StageWriter } from "./staging.js";
+import { RowStager } from "./stage-row.js";
+import { createStage, StagePipeline } from "./staging.js";
 
 export interface LoadProgress {
   phase: "reading" | "merging" | "done";
@@ -60,9 +53,11 @@ export interface LoadFileOptions {
   onProgress?: (p: LoadProgress) => void;
   /** 'YYYY-MM-DD'; dates after it are rejected as future. Defaults to the current UTC date. */
   today?: string;
+  /** rows per staging block (default 25,000); a test seam, so small files can be merged in several blocks */
+  blockRows?: number;
   /** test seams */
   hooks?: {
-    /** after every row is in the staging table, before any merge */
+    /** after every row is in the staging table and before the whole-file checks (jobs blocks are merged by then) */
     afterStaging?: (client: pg.PoolClient) => Promise<void>;
     /** after the merges, just before COMMIT */
     beforeCommit?: (client: pg.PoolClient) => Promise<void>;
@@ -85,34 +80,32 @@ export interface BatchSummary {
   durationMs: number;
 }
 
-type Transform = (f: FieldReader, shop: string | undefined) => Record<string, unknown>;
+/**
+ * Per kind: an optional merge per staged block (runs while the file is still being read) and the merge
+ * that runs once every row is staged. Jobs merge block by block; the smaller kinds merge at the end.
+ */
+interface KindMerge {
+  prepare?: (c: pg.PoolClient) => Promise<void>;
+  block?: (c: pg.PoolClient, batchId: number, first: number, last: number) => Promise<BlockTally>;
+  finish: (c: pg.PoolClient, batchId: number, blocks: BlockTally) => Promise<MergeCounts>;
+}
 
-const transforms = {
-  machines: transformMachine,
-  jobs: transformJob,
-  measurements: transformMeasurement,
-  weather: transformWeather,
-  hours: transformHours,
-} as unknown as Record<ExportKind, Transform>;
-
-const merges: Record<ExportKind, (c: pg.PoolClient, batchId: number) => Promise<MergeCounts>> = {
-  machines: mergeMachines,
-  jobs: mergeJobs,
-  measurements: mergeMeasurements,
-  weather: mergeWeather,
-  hours: mergeHours,
+const merges: Record<ExportKind, KindMerge> = {
+  machines: { finish: mergeMachines },
+  jobs: { prepare: prepareJobs, block: jobsBlock, finish: finishJobs },
+  measurements: { finish: mergeMeasurements },
+  weather: { finish: mergeWeather },
+  hours: { finish: mergeHours },
 };
 
-/** The canonical column that names the shop in each kind, filled from --shop or the profile when blank. */
-const SHOP_COLUMN: Partial<Record<ExportKind, string>> = { machines: "home_shop", jobs: "shop_code", measurements: "shop_code", weather: "shop_code" };
+const DEFAULT_BLOCK_ROWS = 25_000;
 
-const DATE_COLUMNS: Record<ExportKind, string[]> = {
-  machines: ["build_date", "delivery_date", "block_heater_date"],
-  jobs: ["opened_date", "closed_date", "part_ordered_date", "part_received_date"],
-  measurements: [],
-  weather: ["date"],
-  hours: ["reading_date"],
-};
+/** sha256 of a file's bytes, read once before the load so an already-loaded file is known up front. */
+async function fileSha256(filePath: string): Promise<string> {
+  const hash = createHash("sha256");
+  for await (const chunk of createReadStream(filePath, { highWaterMark: 1 << 20 })) hash.update(chunk as Buffer);
+  return hash.digest("hex");
+}
 
 /** Profile and header for a file, or a fatal error that names the problem. */
 export function resolveProfile(filePath: string, opts: Pick<LoadFileOptions, "kind" | "profile" | "shop">): { profile: Profile; header: string[] } {
@@ -156,7 +149,10 @@ function utcToday(): string {
 }
 
 /** ETL_TIMINGS=1 prints each statement's duration to stderr (for tuning; off by default). */
+const traced = new WeakSet<pg.PoolClient>();
 function traceQueries(client: pg.PoolClient): void {
+  if (traced.has(client)) return; // a pooled client is wrapped once
+  traced.add(client);
   const original = client.query.bind(client) as (...a: unknown[]) => unknown;
   (client as unknown as { query: (...a: unknown[]) => unknown }).query = (...args: unknown[]) => {
     const t0 = Date.now();
@@ -168,6 +164,52 @@ function traceQueries(client: pg.PoolClient): void {
   };
 }
 
+/**
+ * Rows rejected by a whole-file check (a duplicate, an unknown machine, an hour meter going backwards) were
+ * staged without their raw fields, as every accepted row is. Reads the file once more and fills them in,
+ * a window of row numbers at a time so memory stays flat. Costs nothing when no such row exists.
+ */
+async function recoverRawRows(client: pg.PoolClient, filePath: string, profile: Profile, sha: string): Promise<void> {
+  const WINDOW = 5000;
+  const next = async (after: number) =>
+    (await client.query<{ row_no: number }>(`SELECT row_no FROM stg WHERE raw IS NULL AND reject_code IS NOT NULL AND row_no > $1 ORDER BY row_no LIMIT ${WINDOW}`, [after]))
+      .rows.map((r) => r.row_no);
+  let wanted = await next(0);
+  if (wanted.length === 0) return;
+  const hash = createHash("sha256");
+  let i = 0;
+  let found: { rowNo: number; raw: string }[] = [];
+  const flush = async () => {
+    if (!found.length) return;
+    await client.query(`UPDATE stg SET raw = x.raw FROM unnest($1::int[], $2::text[]) AS x(row_no, raw) WHERE stg.row_no = x.row_no`, [
+      found.map((f) => f.rowNo),
+      found.map((f) => f.raw),
+    ]);
+    found = [];
+  };
+  let first = true;
+  for await (const batch of readCsv(filePath, profile, hash)) {
+    for (const rec of batch) {
+      if (first) {
+        first = false; // the header
+        continue;
+      }
+      if (wanted.length === 0) continue;
+      while (i < wanted.length - 1 && wanted[i] < rec.line) i++;
+      if (rec.line === wanted[i]) {
+        found.push({ rowNo: rec.line, raw: JSON.stringify(rec.fields) });
+        if (++i === wanted.length) {
+          await flush();
+          wanted = await next(wanted[wanted.length - 1]);
+          i = 0;
+        }
+      }
+    }
+  }
+  await flush();
+  if (hash.digest("hex") !== sha) throw new Error(`${path.basename(filePath)} changed while it was being loaded; load it again`);
+}
+
 /** Loads one file; see the top of this module for the contract. */
 export async function loadFile(target: pg.Pool | string, opts: LoadFileOptions): Promise<BatchSummary> {
   const started = Date.now();
@@ -176,113 +218,100 @@ export async function loadFile(target: pg.Pool | string, opts: LoadFileOptions):
   const shop = opts.shop ?? profile.defaultShop;
   const totalBytes = checkReadable(opts.path);
   const today = opts.today ?? utcToday();
+  const fileName = path.basename(opts.path);
+  let sha: string;
+  try {
+    sha = await fileSha256(opts.path);
+  } catch (e) {
+    throw new EtlFatalError("FILE_UNREADABLE", `cannot read ${opts.path}: ${(e as Error).message}`);
+  }
   const pool = typeof target === "string" ? new pg.Pool({ connectionString: target, max: 1 }) : target;
   if (typeof target === "string") pool.on("error", () => {}); // an idle client closed by the server is simply dropped
   const client = await pool.connect();
   if (process.env.ETL_TIMINGS) traceQueries(client);
   const startedAt = new Date();
-  const fileName = path.basename(opts.path);
-  let sha = "";
   try {
     await client.query("BEGIN");
     // bulk merges sort and hash the whole file; give them room (transaction-local)
     await client.query("SET LOCAL work_mem = '256MB'");
+    const before = await client.query<{ rows_read: number }>(
+      `SELECT rows_read FROM etl_batch WHERE sha256 = $1 AND status = 'loaded' ORDER BY batch_id LIMIT 1`,
+      [sha],
+    );
+    if (before.rows.length > 0) {
+      // the same bytes were loaded before: nothing can change, every row is unchanged
+      const read = Number(before.rows[0].rows_read);
+      const ins = await client.query<{ batch_id: number }>(
+        `INSERT INTO etl_batch (file_name, sha256, profile, kind, shop_code, loaded_by, started_at, finished_at, status,
+           rows_read, rows_inserted, rows_updated, rows_unchanged, rows_rejected)
+         VALUES ($1, $2, $3, $4, $5, $6, $7, now(), 'already_loaded', $8, 0, 0, $8, 0) RETURNING batch_id`,
+        [fileName, sha, profile.id, kind, shop ?? null, opts.loadedBy, startedAt, read],
+      );
+      await client.query("COMMIT");
+      opts.onProgress?.({ phase: "done", rowsRead: read, bytesRead: totalBytes, totalBytes });
+      return {
+        batchId: Number(ins.rows[0].batch_id), file: fileName, sha256: sha, kind, profile: profile.id, shop: shop ?? null,
+        status: "already_loaded", read, inserted: 0, updated: 0, unchanged: read, rejected: 0, durationMs: Date.now() - started,
+      };
+    }
+    const ins = await client.query<{ batch_id: number }>(
+      `INSERT INTO etl_batch (file_name, sha256, profile, kind, shop_code, loaded_by, started_at, status)
+       VALUES ($1, $2, $3, $4, $5, $6, $7, 'running') RETURNING batch_id`,
+      [fileName, sha, profile.id, kind, shop ?? null, opts.loadedBy, startedAt],
+    );
+    const batchId = Number(ins.rows[0].batch_id);
+    await seedReference(client);
     await createStage(client, kind);
-    const writer = new StageWriter(client, kind);
-    const hash = createHash("sha256");
+    const merge = merges[kind];
+    await merge.prepare?.(client);
+    const blocks: BlockTally = { inserted: 0, updated: 0 };
+    const pipe = new StagePipeline(client, kind, opts.blockRows ?? DEFAULT_BLOCK_ROWS, async (first, last) => {
+      if (!merge.block) return;
+      const t = await merge.block(client, batchId, first, last);
+      blocks.inserted += t.inserted;
+      blocks.updated += t.updated;
+    });
+    const streamHash = createHash("sha256");
     let bytesRead = 0;
     let rowsRead = 0;
     let header: string[] | null = null;
-    let colIndex = new Map<string, number>();
-    let minDate: string | null = null;
-    let maxDate: string | null = null;
-    const shopCol = SHOP_COLUMN[kind];
-    const transform = transforms[kind];
-    const canonical = layouts[kind] as readonly string[];
-    const dateCols = DATE_COLUMNS[kind];
+    let stager: RowStager | null = null;
     try {
-      for await (const rec of readCsv(opts.path, profile, hash, (b) => (bytesRead = b))) {
-        if (header === null) {
-          header = rec.fields;
-          colIndex = mapHeader(profile, header);
-          continue;
-        }
-        rowsRead++;
-        const raw = JSON.stringify(rec.fields);
-        if (rec.error) {
-          await writer.write({ rowNo: rec.line, raw, reject: { code: "unreadable_row", reason: `the row cannot be read as CSV (${rec.error})` } });
-          continue;
-        }
-        if (rec.fields.length !== header.length) {
-          await writer.write({
-            rowNo: rec.line,
-            raw,
-            reject: { code: "wrong_column_count", reason: `the row has ${rec.fields.length} fields but the header has ${header.length}` },
-          });
-          continue;
-        }
-        const row: Record<string, string | undefined> = {};
-        for (const c of canonical) {
-          const i = colIndex.get(c);
-          if (i !== undefined) row[c] = rec.fields[i];
-        }
-        if (shopCol && shop && !row[shopCol]?.trim()) row[shopCol] = shop;
-        const missing = missingFields(kind, row);
-        if (missing.length) {
-          await writer.write({ rowNo: rec.line, raw, reject: { code: "missing_field", reason: `required ${missing.length > 1 ? "fields are" : "field is"} blank: ${missing.map(columnLabel).join(", ")}` } });
-          continue;
-        }
-        try {
-          const record = transform(new FieldReader(profile, today, row), shop);
-          for (const c of dateCols) {
-            const d = record[c] as string | null;
-            if (d) {
-              if (minDate === null || d < minDate) minDate = d;
-              if (maxDate === null || d > maxDate) maxDate = d;
-            }
+      for await (const batch of readCsv(opts.path, profile, streamHash, (b) => (bytesRead = b))) {
+        for (const rec of batch) {
+          if (stager === null) {
+            header = rec.fields;
+            stager = new RowStager(kind, profile, header, shop, today);
+            continue;
           }
-          await writer.write({ rowNo: rec.line, raw, record });
-        } catch (e) {
-          if (!(e instanceof RowRejected)) throw e;
-          await writer.write({ rowNo: rec.line, raw, reject: { code: e.code, reason: e.reason } });
+          rowsRead++;
+          const wait = pipe.write(rec.line, stager.line(rec));
+          if (wait) await wait;
+          if (rowsRead % 5000 === 0) opts.onProgress?.({ phase: "reading", rowsRead, bytesRead, totalBytes });
         }
-        if (rowsRead % 5000 === 0) opts.onProgress?.({ phase: "reading", rowsRead, bytesRead, totalBytes });
       }
     } catch (e) {
-      // the COPY must be ended before the client can report the reading error
-      await writer.end().catch(() => undefined);
+      // blocks already handed to the database must finish before the client can report the reading error
+      await pipe.settle();
       throw e;
     }
-    await writer.end();
-    // temp tables are never auto-analysed; without statistics the merges get nested-loop plans
-    await client.query("ANALYZE stg");
+    await pipe.end();
     if (header === null) throw new EtlFatalError("HEADER_NOT_RECOGNISED", `${fileName} has no header line`);
-    sha = hash.digest("hex");
+    if (streamHash.digest("hex") !== sha) throw new Error(`${fileName} changed while it was being loaded; load it again`);
+    // temp tables are never auto-analysed; without statistics the whole-file checks get nested-loop plans
+    await client.query("ANALYZE stg");
     opts.onProgress?.({ phase: "merging", rowsRead, bytesRead, totalBytes });
     await opts.hooks?.afterStaging?.(client);
 
-    const before = await client.query<{ batch_id: number }>(`SELECT batch_id FROM etl_batch WHERE sha256 = $1 AND status = 'loaded'`, [sha]);
-    const already = before.rows.length > 0;
-    const ins = await client.query<{ batch_id: number }>(
-      `INSERT INTO etl_batch (file_name, sha256, profile, kind, shop_code, loaded_by, started_at, status)
-       VALUES ($1, $2, $3, $4, $5, $6, $7, $8) RETURNING batch_id`,
-      [fileName, sha, profile.id, kind, shop ?? null, opts.loadedBy, startedAt, already ? "already_loaded" : "running"],
-    );
-    const batchId = Number(ins.rows[0].batch_id);
-    let counts: MergeCounts & { rejected: number };
-    if (already) {
-      counts = { inserted: 0, updated: 0, unchanged: rowsRead, rejected: 0 };
-    } else {
-      await seedReference(client);
-      await ensureDates(client, minDate, maxDate);
-      const merged = await merges[kind](client, batchId);
-      await storeRejects(client, batchId, header);
-      const rej = await client.query<{ n: number }>(`SELECT count(*)::int AS n FROM stg WHERE reject_code IS NOT NULL`);
-      counts = { ...merged, rejected: rej.rows[0].n };
-    }
+    await ensureDates(client, stager!.minDate, stager!.maxDate);
+    const merged = await merge.finish(client, batchId, blocks);
+    await recoverRawRows(client, opts.path, profile, sha);
+    await storeRejects(client, batchId, header);
+    const rej = await client.query<{ n: number }>(`SELECT count(*)::int AS n FROM stg WHERE reject_code IS NOT NULL`);
+    const counts = { ...merged, rejected: rej.rows[0].n };
     await client.query(
       `UPDATE etl_batch SET finished_at = now(), rows_read = $2, rows_inserted = $3, rows_updated = $4, rows_unchanged = $5,
-         rows_rejected = $6, status = CASE WHEN status = 'running' THEN 'loaded' ELSE status END
+         rows_rejected = $6, status = 'loaded'
        WHERE batch_id = $1`,
       [batchId, rowsRead, counts.inserted, counts.updated, counts.unchanged, counts.rejected],
     );
@@ -296,7 +325,7 @@ export async function loadFile(target: pg.Pool | string, opts: LoadFileOptions):
       kind,
       profile: profile.id,
       shop: shop ?? null,
-      status: already ? "already_loaded" : "loaded",
+      status: "loaded",
       read: rowsRead,
       ...counts,
       durationMs: Date.now() - started,
@@ -308,7 +337,7 @@ export async function loadFile(target: pg.Pool | string, opts: LoadFileOptions):
         .query(
           `INSERT INTO etl_batch (file_name, sha256, profile, kind, shop_code, loaded_by, started_at, finished_at, status, error_message)
            VALUES ($1, $2, $3, $4, $5, $6, $7, now(), 'failed', $8)`,
-          [fileName, sha || "0".repeat(64), profile.id, kind, shop ?? null, opts.loadedBy, startedAt, (e as Error).message],
+          [fileName, sha, profile.id, kind, shop ?? null, opts.loadedBy, startedAt, (e as Error).message],
         )
         .catch(() => undefined);
     }

@@ -58,16 +58,17 @@ export async function registerShops(client: pg.PoolClient, shopCol: string): Pro
 /**
  * Duplicates within the file. Copies with the same natural key and the same content: the first is kept,
  * later ones are rejected as duplicates. Copies that disagree: all are rejected, since the file cannot
- * say which one is right.
+ * say which one is right. `groupKey`, when given, is a staging column equivalent to the natural key
+ * (its surrogate key), which groups faster than the text columns.
  */
-export async function rejectDuplicates(client: pg.PoolClient, keyCols: string[], label: string): Promise<void> {
-  const key = keyCols.join(", ");
-  const on = keyCols.map((c) => `s.${c} = k.${c}`).join(" AND ");
+export async function rejectDuplicates(client: pg.PoolClient, keyCols: string[], label: string, groupKey?: string): Promise<void> {
+  const key = groupKey ? [groupKey] : keyCols;
+  const on = key.map((c) => `s.${c} = k.${c}`).join(" AND ");
   await client.query(
     `WITH k AS (
-       SELECT ${key}, min(row_no) AS first_row, min(row_hash) <> max(row_hash) AS conflicting, count(*) AS copies,
+       SELECT ${key.join(", ")}, min(row_no) AS first_row, min(row_hash) <> max(row_hash) AS conflicting, count(*) AS copies,
               string_agg(row_no::text, ', ' ORDER BY row_no) AS lines
-       FROM stg WHERE reject_code IS NULL GROUP BY ${key} HAVING count(*) > 1
+       FROM stg WHERE reject_code IS NULL GROUP BY ${key.join(", ")} HAVING count(*) > 1
      )
      UPDATE stg AS t SET
        reject_code = CASE WHEN k.conflicting THEN 'conflicting_duplicate' ELSE 'duplicate_in_file' END,
@@ -80,11 +81,12 @@ export async function rejectDuplicates(client: pg.PoolClient, keyCols: string[],
 }
 
 /** Rows whose machine serial is not in dim_machine: the machines export must come first. */
-export async function rejectUnknownMachines(client: pg.PoolClient): Promise<void> {
+export async function rejectUnknownMachines(client: pg.PoolClient, byKey = false): Promise<void> {
+  const known = byKey ? "m.machine_key = s.machine_key" : "m.serial = s.serial";
   await client.query(
     `UPDATE stg s SET reject_code = 'unknown_machine',
        reject_reason = format('machine serial %s is not in the machine master; load the machines export that lists it first', s.serial)
-     WHERE s.reject_code IS NULL AND NOT EXISTS (SELECT 1 FROM dim_machine m WHERE m.serial = s.serial)`,
+     WHERE s.reject_code IS NULL AND NOT EXISTS (SELECT 1 FROM dim_machine m WHERE ${known})`,
   );
 }
 

@@ -1,10 +1,24 @@
 import type pg from "pg";
 import { checkHourReadings } from "./hour-checks.js";
-import {
-  acceptedCount, countChanges, createChanged, registerShops, rejectDuplicates, rejectUnknownMachines, type MergeCounts,
-} from "./merge-common.js";
+import { rejectDuplicates, rejectUnknownMachines, type MergeCounts } from "./merge-common.js";
 
-const RL_KEY = `wh_key('repair_line|' || s.shop_code || '|' || s.ro_number || '|' || s.line_no)`;
+/**
+ * Repair-order lines, merged in two steps so that reading the file and writing the warehouse overlap:
+ *
+ * 1. jobsBlock — while the loader reads on, each block of staged rows is merged straight into
+ *    fact_repair_line (new lines inserted, changed lines updated with their prior version kept in
+ *    fact_repair_line_history, fault codes replaced). Only rows that passed the row checks and name a
+ *    known machine take part; the first copy of a key within the block stands for the others.
+ * 2. finishJobs — once every row is staged, the checks that need the whole file run exactly as they would
+ *    before any merge (duplicates within the file, hour meters against the warehouse's other readings;
+ *    this file's own lines are excluded from "the warehouse" by key). Lines that these checks reject and
+ *    that step 1 had already written are put back as they were (deleted if new, restored from history if
+ *    updated). Then dimensions, hour readings and the counts.
+ *
+ * The result is the same as checking the whole file first and merging afterwards; most files have no
+ * line to put back, so the merge costs little more than the inserts themselves.
+ */
+
 const HOUR_KEY_TEXT = `'hour|ro|' || s.shop_code || '|' || s.ro_number || '|' || s.line_no`;
 
 const FACT_COLS = [
@@ -15,100 +29,172 @@ const FACT_COLS = [
   "row_hash", "first_batch_id", "batch_id",
 ];
 const UPDATABLE = FACT_COLS.filter((c) => !["repair_line_key", "shop_key", "ro_number", "line_no", "first_batch_id"].includes(c));
+const FROM_STAGE: Record<string, string> = { fault_codes_raw: "c.fault_codes", first_batch_id: "$B", batch_id: "$B" };
 
-/** Repair-order lines: checks against the warehouse, dimension upserts, the fact merge with history, fault codes, hour readings. */
-export async function mergeJobs(client: pg.PoolClient, batchId: number): Promise<MergeCounts> {
-  await rejectDuplicates(client, ["shop_code", "ro_number", "line_no"], "shop %s repair order %s line %s");
-  await rejectUnknownMachines(client);
-  await checkHourReadings(client, { dateCol: "opened_date", hoursCol: "hour_meter", keyText: HOUR_KEY_TEXT });
-  await registerShops(client, "shop_code");
+/** Fault-code rows ("spn:fmi:count;…") of the lines in `source` (an SQL relation with repair_line_key and fault_codes). */
+const faultCodeInsert = (source: string) =>
+  `INSERT INTO fact_fault_code (repair_line_key, spn, fmi, occurrences)
+   SELECT f.repair_line_key, split_part(item, ':', 1)::integer, split_part(item, ':', 2)::smallint, sum(split_part(item, ':', 3)::integer)
+   FROM (${source}) f, unnest(string_to_array(f.fault_codes, ';')) AS item
+   WHERE f.fault_codes IS NOT NULL
+   GROUP BY 1, 2, 3`;
+
+const int = (n: number) => {
+  if (!Number.isSafeInteger(n)) throw new Error(`not an integer: ${n}`);
+  return String(n);
+};
+
+export interface BlockTally {
+  inserted: number;
+  updated: number;
+}
+
+/** Staging columns a block carries into the fact (all but the raw row and reject columns). */
+const BLOCK_COLS = [
+  "row_no", ...FACT_COLS.filter((c) => !["fault_codes_raw", "first_batch_id", "batch_id"].includes(c)), "fault_codes",
+];
+
+/** Step 1 for staged rows first..last (row numbers); returns how many lines it inserted and updated. */
+export async function jobsBlock(client: pg.PoolClient, batchId: number, first: number, last: number): Promise<BlockTally> {
+  const B = int(batchId);
+  const values = FACT_COLS.map((c) => (FROM_STAGE[c] ?? `c.${c}`).replace("$B", B)).join(", ");
+  // One round trip; the statements run in order inside the load's transaction. The block's candidate
+  // lines (row checks passed, machine known, first copy of each key) are copied once into blk. Joins to
+  // the fact are kept to index lookups: a block is small next to the warehouse, and neither temp table
+  // has statistics while the file is still being read.
+  const results = (await client.query(`
+    SET LOCAL enable_hashjoin = off;
+    SET LOCAL enable_mergejoin = off;
+    TRUNCATE blk, touched;
+    INSERT INTO blk
+      SELECT DISTINCT ON (s.repair_line_key) ${BLOCK_COLS.map((c) => `s.${c}`).join(", ")} FROM stg s
+      WHERE s.row_no BETWEEN ${int(first)} AND ${int(last)} AND s.reject_code IS NULL
+        AND EXISTS (SELECT 1 FROM dim_machine m WHERE m.machine_key = s.machine_key)
+      ORDER BY s.repair_line_key, s.row_no;
+    INSERT INTO fact_repair_line_history (repair_line_key, prior_row, prior_batch_id, replaced_by_batch)
+      SELECT f.repair_line_key, to_jsonb(f), f.batch_id, ${B}
+      FROM blk c JOIN fact_repair_line f ON f.repair_line_key = c.repair_line_key
+      WHERE f.row_hash <> c.row_hash;
+    WITH up AS (
+      INSERT INTO fact_repair_line AS f (${FACT_COLS.join(", ")})
+      SELECT ${values} FROM blk c
+      ON CONFLICT (repair_line_key) DO UPDATE SET ${UPDATABLE.map((c) => `${c} = excluded.${c}`).join(", ")}
+      WHERE f.row_hash <> excluded.row_hash
+      RETURNING f.repair_line_key, (xmax = 0) AS inserted
+    )
+    INSERT INTO touched SELECT repair_line_key, inserted FROM up;
+    DELETE FROM fact_fault_code d USING touched t WHERE d.repair_line_key = t.key AND NOT t.inserted;
+    ${faultCodeInsert(`SELECT c.repair_line_key, c.fault_codes FROM blk c JOIN touched t ON t.key = c.repair_line_key WHERE c.fault_codes IS NOT NULL`)};
+    SET LOCAL enable_hashjoin = on;
+    SET LOCAL enable_mergejoin = on;
+    SELECT count(*) FILTER (WHERE inserted)::int AS inserted, count(*) FILTER (WHERE NOT inserted)::int AS updated FROM touched;
+  `)) as unknown as pg.QueryResult<BlockTally>[];
+  const tally = results[results.length - 1].rows[0];
+  return { inserted: tally.inserted, updated: tally.updated };
+}
+
+/** Created once per load, before the first block. */
+export async function prepareJobs(client: pg.PoolClient): Promise<void> {
+  await client.query(`CREATE TEMP TABLE touched (key bigint PRIMARY KEY, inserted boolean NOT NULL) ON COMMIT DROP`);
+  await client.query(`CREATE TEMP TABLE blk ON COMMIT DROP AS SELECT ${BLOCK_COLS.join(", ")} FROM stg WITH NO DATA`);
+}
+
+/**
+ * Puts back the lines that step 1 wrote but the whole-file checks rejected: keys of rejected rows with no
+ * accepted copy left. New lines are deleted (their fault codes and history go with them); updated lines get
+ * their version from before this batch back, with its fault codes. Returns how many lines it put back.
+ */
+async function putBack(client: pg.PoolClient, batchId: number): Promise<number> {
+  await client.query(
+    `CREATE TEMP TABLE put_back ON COMMIT DROP AS
+     SELECT DISTINCT f.repair_line_key AS key, f.first_batch_id = $1 AS was_new
+     FROM stg s JOIN fact_repair_line f ON f.repair_line_key = s.repair_line_key
+     WHERE s.reject_code IS NOT NULL AND s.repair_line_key IS NOT NULL AND f.batch_id = $1
+       AND NOT EXISTS (SELECT 1 FROM stg a WHERE a.repair_line_key = s.repair_line_key AND a.reject_code IS NULL)`,
+    [batchId],
+  );
+  const n = (await client.query<{ n: number }>(`SELECT count(*)::int AS n FROM put_back`)).rows[0].n;
+  if (n === 0) return 0;
+  await client.query(`DELETE FROM fact_repair_line f USING put_back p WHERE f.repair_line_key = p.key AND p.was_new`);
+  await client.query(
+    `UPDATE fact_repair_line f SET ${UPDATABLE.map((c) => `${c} = r.${c}`).join(", ")}
+     FROM put_back p,
+       LATERAL (SELECT h.prior_row FROM fact_repair_line_history h
+                WHERE h.repair_line_key = p.key AND h.replaced_by_batch = $1 ORDER BY h.history_id LIMIT 1) h,
+       LATERAL jsonb_populate_record(NULL::fact_repair_line, h.prior_row) r
+     WHERE f.repair_line_key = p.key AND NOT p.was_new`,
+    [batchId],
+  );
+  await client.query(
+    `DELETE FROM fact_repair_line_history h USING put_back p WHERE h.repair_line_key = p.key AND h.replaced_by_batch = $1`,
+    [batchId],
+  );
+  await client.query(`DELETE FROM fact_fault_code d USING put_back p WHERE d.repair_line_key = p.key AND NOT p.was_new`);
+  await client.query(
+    faultCodeInsert(
+      `SELECT f.repair_line_key, f.fault_codes_raw AS fault_codes FROM fact_repair_line f JOIN put_back p ON p.key = f.repair_line_key WHERE NOT p.was_new`,
+    ),
+  );
+  return n;
+}
+
+/** Step 2: whole-file checks, putting back what they reject, dimensions, hour readings, counts. */
+export async function finishJobs(client: pg.PoolClient, batchId: number, blocks: BlockTally): Promise<MergeCounts> {
+  await rejectDuplicates(client, ["shop_code", "ro_number", "line_no"], "shop %s repair order %s line %s", "repair_line_key");
+  await rejectUnknownMachines(client, true);
+  await checkHourReadings(client, {
+    dateCol: "opened_date",
+    hoursCol: "hour_meter",
+    keyText: HOUR_KEY_TEXT,
+    precomputed: { machineKey: "machine_key", readingKey: "hour_reading_key" },
+  });
+  const putBackCount = await putBack(client, batchId);
 
   await client.query(
+    `INSERT INTO dim_shop (shop_key, shop_code, name)
+     SELECT DISTINCT ON (shop_key) shop_key, shop_code, shop_code FROM stg WHERE reject_code IS NULL AND shop_code <> ''
+     ON CONFLICT DO NOTHING`,
+  );
+  await client.query(
     `INSERT INTO dim_technician (technician_key, shop_key, tech_id, display_name)
-     SELECT DISTINCT wh_key('technician|' || s.shop_code || '|' || s.tech_id), sh.shop_key, s.tech_id, s.tech_id
-     FROM stg s JOIN dim_shop sh ON sh.shop_code = s.shop_code
-     WHERE s.reject_code IS NULL AND s.tech_id IS NOT NULL
+     SELECT DISTINCT ON (technician_key) technician_key, shop_key, tech_id, tech_id
+     FROM stg WHERE reject_code IS NULL AND technician_key IS NOT NULL
      ON CONFLICT (technician_key) DO NOTHING`,
   );
   await client.query(
     `INSERT INTO dim_part (part_key, part_number, supplier_lot, description)
-     SELECT wh_key('part|' || part_number || '|' || lot), part_number, lot, min(part_description)
-     FROM (SELECT part_number, COALESCE(supplier_lot, '') AS lot, part_description FROM stg
-           WHERE reject_code IS NULL AND part_number IS NOT NULL) p
-     GROUP BY part_number, lot
+     SELECT part_key, min(part_number), COALESCE(min(supplier_lot), ''), min(part_description)
+     FROM stg WHERE reject_code IS NULL AND part_key IS NOT NULL
+     GROUP BY part_key
      ON CONFLICT (part_key) DO NOTHING`,
   );
 
-  const accepted = await acceptedCount(client);
-  await createChanged(client);
-  const src = `SELECT ${RL_KEY} AS repair_line_key, sh.shop_key, s.ro_number, s.line_no, m.machine_key, c.component_key,
-         CASE WHEN s.failure_mode IS NULL THEN NULL ELSE wh_key('failure_mode|' || s.failure_mode) END AS failure_mode_key,
-         CASE WHEN s.tech_id IS NULL THEN NULL ELSE wh_key('technician|' || s.shop_code || '|' || s.tech_id) END AS technician_key,
-         CASE WHEN s.part_number IS NULL THEN NULL ELSE wh_key('part|' || s.part_number || '|' || COALESCE(s.supplier_lot, '')) END AS part_key,
-         s.opened_date, s.closed_date, s.hour_meter, s.meter_note, s.complaint, s.cause, s.correction, s.labor_op,
-         s.standard_hours, s.labor_hours, s.parts_cost, s.labor_cost, s.pay_type, s.line_type, s.part_number, s.part_description,
-         s.part_qty, s.supplier_lot, s.part_ordered_date, s.part_received_date, s.back_ordered, s.fault_codes AS fault_codes_raw,
-         s.ambient_temp_c, s.row_hash, $1::bigint AS first_batch_id, $1::bigint AS batch_id
-       FROM stg s
-       JOIN dim_shop sh ON sh.shop_code = s.shop_code
-       JOIN dim_machine m ON m.serial = s.serial
-       JOIN dim_component c ON c.component_code = s.component_code
-       WHERE s.reject_code IS NULL`;
-  // prior versions first (same snapshot as the update that follows), then update changed rows, then insert new ones
-  await client.query(
-    `INSERT INTO fact_repair_line_history (repair_line_key, prior_row, prior_batch_id, replaced_by_batch)
-     SELECT f.repair_line_key, to_jsonb(f), f.batch_id, $1
-     FROM fact_repair_line f JOIN stg s ON f.repair_line_key = ${RL_KEY}
-     WHERE s.reject_code IS NULL AND f.row_hash <> s.row_hash`,
-    [batchId],
-  );
-  await client.query(
-    `WITH up AS (
-       UPDATE fact_repair_line f SET ${UPDATABLE.map((c) => `${c} = x.${c}`).join(", ")}
-       FROM (${src}) x
-       WHERE f.repair_line_key = x.repair_line_key AND f.row_hash <> x.row_hash
-       RETURNING f.repair_line_key
-     )
-     INSERT INTO changed SELECT repair_line_key, false FROM up`,
-    [batchId],
-  );
-  await client.query(
-    `WITH ins AS (
-       INSERT INTO fact_repair_line (${FACT_COLS.join(", ")})
-       SELECT ${FACT_COLS.join(", ")} FROM (${src}) x
-       WHERE NOT EXISTS (SELECT 1 FROM fact_repair_line f WHERE f.repair_line_key = x.repair_line_key)
-       RETURNING repair_line_key
-     )
-     INSERT INTO changed SELECT repair_line_key, true FROM ins`,
-    [batchId],
-  );
-
-  await client.query(`DELETE FROM fact_fault_code WHERE repair_line_key IN (SELECT key FROM changed WHERE NOT inserted)`);
-  await client.query(
-    `INSERT INTO fact_fault_code (repair_line_key, spn, fmi, occurrences)
-     SELECT k, split_part(item, ':', 1)::integer, split_part(item, ':', 2)::smallint, sum(split_part(item, ':', 3)::integer)
-     FROM (SELECT ${RL_KEY} AS k, s.fault_codes FROM stg s WHERE s.reject_code IS NULL AND s.fault_codes IS NOT NULL) f
-     JOIN changed ch ON ch.key = f.k, unnest(string_to_array(f.fault_codes, ';')) AS item
-     GROUP BY 1, 2, 3`,
-  );
-
-  const readings = `SELECT wh_key(${HOUR_KEY_TEXT}) AS hour_reading_key, h.machine_key, s.opened_date AS reading_date, s.hour_meter AS hours,
-       'ro' AS source, ${RL_KEY} AS repair_line_key, s.meter_change, s.meter_note, h.generation AS meter_generation, h.valid, h.invalid_reason,
+  const readings = `SELECT s.hour_reading_key, s.machine_key, s.opened_date AS reading_date, s.hour_meter AS hours,
+       'ro' AS source, s.repair_line_key, s.meter_change, s.meter_note, h.generation AS meter_generation, h.valid, h.invalid_reason,
        md5(concat_ws('|', s.serial, s.opened_date, s.hour_meter, s.meter_note, h.generation, h.valid)) AS row_hash, $1::bigint AS batch_id
      FROM stg s JOIN hr_out h ON h.row_no = s.row_no
      WHERE s.reject_code IS NULL`;
   const HR_COLS = ["hour_reading_key", "machine_key", "reading_date", "hours", "source", "repair_line_key", "meter_change", "meter_note",
     "meter_generation", "valid", "invalid_reason", "row_hash", "batch_id"];
   await client.query(
-    `UPDATE fact_hour_reading r SET ${HR_COLS.slice(1).map((c) => `${c} = x.${c}`).join(", ")}
-     FROM (${readings}) x WHERE r.hour_reading_key = x.hour_reading_key AND r.row_hash <> x.row_hash`,
-    [batchId],
-  );
-  await client.query(
-    `INSERT INTO fact_hour_reading (${HR_COLS.join(", ")})
+    `INSERT INTO fact_hour_reading AS r (${HR_COLS.join(", ")})
      SELECT ${HR_COLS.join(", ")} FROM (${readings}) x
-     WHERE NOT EXISTS (SELECT 1 FROM fact_hour_reading r WHERE r.hour_reading_key = x.hour_reading_key)`,
+     ON CONFLICT (hour_reading_key) DO UPDATE SET ${HR_COLS.slice(1).map((c) => `${c} = excluded.${c}`).join(", ")}
+     WHERE r.row_hash <> excluded.row_hash`,
     [batchId],
   );
-  return countChanges(client, accepted);
+
+  const accepted = (await client.query<{ n: number }>(`SELECT count(*)::int AS n FROM stg WHERE reject_code IS NULL`)).rows[0].n;
+  let { inserted, updated } = blocks;
+  if (putBackCount > 0) {
+    // lines were put back: count from the warehouse itself
+    const r = await client.query<BlockTally>(
+      `SELECT count(*) FILTER (WHERE f.first_batch_id = $1)::int AS inserted,
+              count(*) FILTER (WHERE f.first_batch_id <> $1 AND f.batch_id = $1)::int AS updated
+       FROM stg s JOIN fact_repair_line f ON f.repair_line_key = s.repair_line_key WHERE s.reject_code IS NULL`,
+      [batchId],
+    );
+    ({ inserted, updated } = r.rows[0]);
+  }
+  return { inserted, updated, unchanged: accepted - inserted - updated };
 }

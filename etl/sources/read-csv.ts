@@ -55,17 +55,19 @@ export function headerCells(head: Buffer, profile: Profile): string[] {
 }
 
 /**
- * Streams a CSV file through the profile's decoding: fs stream → sha256 + byte count → iconv-lite → csv-parse.
- * Yields the header first (line 1), then every record; rows the parser cannot read come back with `error`
- * so the caller can reject them instead of losing them. Memory stays flat in the file size.
- * `line` is the record's last line in the file; blank lines are skipped and not counted.
+ * Streams a CSV file through the profile's decoding: fs stream → sha256 + byte count → (iconv-lite for
+ * Windows-1252) → csv-parse. Yields records in batches, one per block of the file, so the caller pays for
+ * one await per block rather than per row: the header comes first (line 1), then every record; rows the
+ * parser cannot read come back with `error` so the caller can reject them instead of losing them. Memory
+ * stays flat in the file size. `line` is the record's last line in the file; blank lines are skipped and
+ * not counted.
  */
 export async function* readCsv(
   path: string,
   profile: Profile,
   hash: Hash = createHash("sha256"),
   onBytes?: (n: number) => void,
-): AsyncGenerator<CsvRecord> {
+): AsyncGenerator<CsvRecord[]> {
   let bytes = 0;
   const tap = new Transform({
     transform(chunk: Buffer, _enc, cb) {
@@ -75,29 +77,75 @@ export async function* readCsv(
       cb(null, chunk);
     },
   });
-  const skipped: CsvRecord[] = [];
+  // Line numbers are counted here (csv-parse's per-record info costs more than the parse): one per record
+  // plus the line breaks inside quoted fields. A row the parser skips remembers how many records came
+  // before it, so it is put back in file order and its lines are counted in the right place.
   let line = 0;
+  let recordsRead = 0;
+  const skipped: { after: number; lines: number; fields: string[]; error: string }[] = [];
   const parser = parse({
     delimiter: profile.delimiter,
+    // UTF-8 goes to csv-parse as bytes (it decodes fields itself and drops a byte-order mark)
+    bom: true,
     relax_column_count: true,
     skip_empty_lines: true,
     skip_records_with_error: true,
     on_skip: (err, raw) => {
-      line += 1 + (raw?.match(/\n/g)?.length ?? 0);
-      skipped.push({ line, fields: raw ? [raw.replace(/\r?\n$/, "")] : [], error: err?.message ?? "unreadable row" });
+      skipped.push({
+        after: (parser as unknown as { info: { records: number } }).info.records,
+        lines: 1 + (raw?.match(/\n/g)?.length ?? 0),
+        fields: raw ? [raw.replace(/\r?\n$/, "")] : [],
+        error: err?.message ?? "unreadable row",
+      });
       return undefined;
     },
   });
-  const source = createReadStream(path, { highWaterMark: 1 << 20 });
+  // 256 KB blocks: large enough to be cheap, small enough that database replies are not kept waiting long
+  const source = createReadStream(path, { highWaterMark: 1 << 18 });
   source.on("error", (e) => parser.destroy(new EtlFatalError("FILE_UNREADABLE", `cannot read ${path}: ${e.message}`)));
-  source.pipe(tap).pipe(iconv.decodeStream(ICONV[profile.encoding])).pipe(parser);
-  // line numbers are counted here (csv-parse's per-record info costs more than the parse): one per record,
-  // plus the line breaks inside quoted fields
-  for await (const record of parser as AsyncIterable<string[]>) {
-    while (skipped.length) yield skipped.shift()!;
-    line += 1;
-    for (const f of record) if (f.includes("\n")) line += f.split("\n").length - 1;
-    yield { line, fields: record };
+  const decoded = profile.encoding === "windows-1252" ? source.pipe(tap).pipe(iconv.decodeStream(ICONV[profile.encoding])) : source.pipe(tap);
+  decoded.pipe(parser);
+  let ended = false;
+  let failure: Error | null = null;
+  let wake: (() => void) | null = null;
+  const notify = () => {
+    const w = wake;
+    wake = null;
+    w?.();
+  };
+  parser.on("readable", notify);
+  parser.on("end", () => {
+    ended = true;
+    notify();
+  });
+  parser.on("error", (e) => {
+    failure = e;
+    notify();
+  });
+  const takeSkipped = (batch: CsvRecord[], upTo: number) => {
+    while (skipped.length && skipped[0].after <= upTo) {
+      const k = skipped.shift()!;
+      line += k.lines;
+      batch.push({ line, fields: k.fields, error: k.error });
+    }
+  };
+  for (;;) {
+    const batch: CsvRecord[] = [];
+    let fields: string[] | null;
+    while ((fields = parser.read() as string[] | null) !== null) {
+      takeSkipped(batch, recordsRead);
+      recordsRead++;
+      line += 1;
+      for (const f of fields) if (f.includes("\n")) line += f.split("\n").length - 1;
+      batch.push({ line, fields });
+    }
+    if (ended) takeSkipped(batch, Infinity);
+    if (batch.length) {
+      yield batch;
+      continue;
+    }
+    if (failure) throw failure;
+    if (ended) return;
+    await new Promise<void>((resolve) => (wake = resolve));
   }
-  while (skipped.length) yield skipped.shift()!;
 }

@@ -1,5 +1,4 @@
 import { checkRange, FieldReader } from "./fields.js";
-import { rowHash } from "./hash.js";
 import { reject } from "./reject.js";
 import { normaliseIdentifier } from "./values.js";
 
@@ -12,7 +11,6 @@ export interface HourStage {
   source: string;
   meter_change: boolean;
   meter_note: string | null;
-  row_hash: string;
 }
 
 /** One hour-meter reading from a registry or telematics export (repair-order readings come from the jobs export). */
@@ -24,7 +22,7 @@ export function transformHours(f: FieldReader): HourStage {
     reject("unknown_code", `reading source "${f.text("source")}" is not one of ${hourFileSources.join(", ")} (repair-order readings come from the jobs export)`);
   }
   const note = f.text("meter_note");
-  const stage: Omit<HourStage, "row_hash"> = {
+  const stage: HourStage = {
     serial: normaliseIdentifier(f.text("serial")!),
     reading_date: f.date("reading_date", "reading date")!,
     hours: Math.round(hours * 10) / 10,
@@ -32,5 +30,5 @@ export function transformHours(f: FieldReader): HourStage {
     meter_change: note !== null,
     meter_note: note,
   };
-  return { ...stage, row_hash: rowHash(Object.values(stage)) };
+  return stage;
 }

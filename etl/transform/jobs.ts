@@ -1,6 +1,5 @@
 import { components, failureModes, lineTypes, payTypes } from "../../shared/catalog.js";
 import { checkRange, FieldReader, mapCode } from "./fields.js";
-import { rowHash } from "./hash.js";
 import { reject } from "./reject.js";
 import { fahrenheitToCelsius } from "./units.js";
 import { normaliseCode, normaliseIdentifier } from "./values.js";
@@ -43,7 +42,6 @@ export interface JobStage {
   /** normalised "spn:fmi:count" items joined by ';' */
   fault_codes: string | null;
   ambient_temp_c: number | null;
-  row_hash: string;
 }
 
 /** "520210-5", "SPN 520210 FMI 5", "520210/5 x2" → [spn, fmi, count]; items separated by ';', ',', '|' or spaces between pairs. */
@@ -115,7 +113,7 @@ export function transformJob(f: FieldReader, shop: string | undefined): JobStage
   const partNumber = f.text("part_number");
   const techId = f.text("tech_id");
   const lot = f.text("supplier_lot");
-  const stage: Omit<JobStage, "row_hash"> = {
+  const stage: JobStage = {
     shop_code: shopCode,
     ro_number: normaliseCode(f.text("ro_number")!),
     line_no: f.integer("line_no", "line number", 1)!,
@@ -148,5 +146,5 @@ export function transformJob(f: FieldReader, shop: string | undefined): JobStage
     fault_codes: faults === null || faults.length === 0 ? null : faults.map((x) => x.join(":")).join(";"),
     ambient_temp_c: ambientC === null ? null : Math.round(ambientC * 10) / 10,
   };
-  return { ...stage, row_hash: rowHash(Object.values(stage)) };
+  return stage;
 }

@@ -1,6 +1,5 @@
 import { engineFamilies, modelLines } from "../../shared/catalog.js";
 import { checkRange, FieldReader, mapCode } from "./fields.js";
-import { rowHash } from "./hash.js";
 import { reject } from "./reject.js";
 import { normaliseCode, normaliseIdentifier } from "./values.js";
 
@@ -24,7 +23,6 @@ export interface MachineStage {
   warranty_base_hours: number | null;
   warranty_engine_months: number | null;
   warranty_engine_hours: number | null;
-  row_hash: string;
 }
 
 /** A model code as written ("l70 ", "L-70", a shop's own code) → Ironledger's model line, or null. */
@@ -56,7 +54,7 @@ export function transformMachine(f: FieldReader, shop: string | undefined): Mach
   };
   const engineSerial = f.text("engine_serial");
   const lot = f.text("heater_plug_lot");
-  const stage: Omit<MachineStage, "row_hash"> = {
+  const stage: MachineStage = {
     serial: normaliseIdentifier(f.text("serial")!),
     model_code: normaliseCode(rawModel),
     model_line: model.code,
@@ -75,5 +73,5 @@ export function transformMachine(f: FieldReader, shop: string | undefined): Mach
     warranty_engine_months: months("warranty_engine_months", "engine warranty months"),
     warranty_engine_hours: hours("warranty_engine_hours", "engine warranty hours"),
   };
-  return { ...stage, row_hash: rowHash(Object.values(stage)) };
+  return stage;
 }

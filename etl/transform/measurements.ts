@@ -1,6 +1,5 @@
 import { measurementKinds } from "../../shared/catalog.js";
 import { checkRange, FieldReader, mapCode } from "./fields.js";
-import { rowHash } from "./hash.js";
 import { reject } from "./reject.js";
 import { parseResistance, pressureToPsi, sniffCompressionUnit, type PressureUnit } from "./units.js";
 import { formatNumber, normaliseCode, parseDecimal } from "./values.js";
@@ -21,7 +20,6 @@ export interface MeasurementStage {
   raw_value: string;
   raw_unit: string | null;
   conversion_rule: string;
-  row_hash: string;
 }
 
 const PRESSURE_UNITS: Record<string, PressureUnit> = { PSI: "psi", KPA: "kPa", BAR: "bar" };
@@ -77,7 +75,7 @@ export function transformMeasurement(f: FieldReader, shop: string | undefined): 
   const rawValue = f.text("value")!;
   const rawUnit = f.text("unit");
   const c = convertReading(kind, rawValue, rawUnit, p);
-  const stage: Omit<MeasurementStage, "row_hash"> = {
+  const stage: MeasurementStage = {
     shop_code: normaliseCode(f.text("shop_code") ?? shop ?? ""),
     ro_number: normaliseCode(f.text("ro_number")!),
     line_no: f.integer("line_no", "line number", 1)!,
@@ -91,5 +89,5 @@ export function transformMeasurement(f: FieldReader, shop: string | undefined): 
     raw_unit: rawUnit,
     conversion_rule: c.rule,
   };
-  return { ...stage, row_hash: rowHash(Object.values(stage)) };
+  return stage;
 }

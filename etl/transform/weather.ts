@@ -1,5 +1,4 @@
 import { FieldReader } from "./fields.js";
-import { rowHash } from "./hash.js";
 import { reject } from "./reject.js";
 import { fahrenheitToCelsius } from "./units.js";
 import { normaliseCode } from "./values.js";
@@ -10,7 +9,6 @@ export interface WeatherStage {
   tmin_c: number;
   tmax_c: number | null;
   source_unit: string;
-  row_hash: string;
 }
 
 /** One shop-day of weather, temperatures converted to °C from the profile's unit. */
@@ -24,12 +22,12 @@ export function transformWeather(f: FieldReader, shop: string | undefined): Weat
     if (c !== null && (c < -70 || c > 60)) reject("absurd_value", `${label} ${v} °${unit} is beyond any recorded weather`);
   }
   if (tmax !== null && tmax < tmin) reject("tmin_above_tmax", `minimum temperature ${tmin} °${unit} is above the maximum ${tmax} °${unit}`);
-  const stage: Omit<WeatherStage, "row_hash"> = {
+  const stage: WeatherStage = {
     shop_code: normaliseCode(f.text("shop_code") ?? shop ?? ""),
     date: f.date("date", "date")!,
     tmin_c: toC(tmin)!,
     tmax_c: toC(tmax),
     source_unit: unit,
   };
-  return { ...stage, row_hash: rowHash(Object.values(stage)) };
+  return stage;
 }

@@ -49,6 +49,14 @@ describe("loadFile with bad rows", () => {
     expect(byLine.get(4)?.raw_row).toMatchObject({ ro_number: "R-3", hour_meter: "12x4", serial: "KT35-20001" });
   });
 
+  it("keeps the raw row of rows that only the whole-file checks reject, read back from the file", () => {
+    // lines 7 (hour meter backwards), 10 (unknown machine), 14–16 (duplicates) are staged without raw fields
+    expect(byLine.get(7)?.raw_row).toMatchObject({ hour_meter: "3812" });
+    expect(byLine.get(10)?.raw_row).toMatchObject({ serial: "ZZ00-00000" });
+    for (const line of [14, 15, 16]) expect(Object.keys(byLine.get(line)?.raw_row ?? {})).toHaveLength(30);
+    expect(byLine.get(15)?.raw_row.ro_number).toBe("R-9");
+  });
+
   it("accepts a reading below the earlier ones when its meter note says the meter was replaced, starting a new generation", async () => {
     const r = await t.pool.query(
       `SELECT hours, meter_change, meter_generation, valid FROM fact_hour_reading r JOIN fact_repair_line f USING (repair_line_key) WHERE f.ro_number = 'R-7'`,

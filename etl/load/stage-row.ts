@@ -1,0 +1,144 @@
+import { hash } from "node:crypto";
+import { layouts } from "../layouts.js";
+import type { ExportKind, Profile } from "../profiles/profile-schema.js";
+import { mapHeader } from "../profiles/registry.js";
+import type { CsvRecord } from "../sources/read-csv.js";
+import { columnLabel, missingFields } from "../sources/row-schemas.js";
+import { FieldReader } from "../transform/fields.js";
+import { transformHours } from "../transform/hours.js";
+import { transformJob } from "../transform/jobs.js";
+import { transformMachine } from "../transform/machines.js";
+import { transformMeasurement } from "../transform/measurements.js";
+import { RowRejected } from "../transform/reject.js";
+import { transformWeather } from "../transform/weather.js";
+import { KeyCache, whKey } from "./keys.js";
+import { copyValue, keyColumns, stageColumns } from "./staging.js";
+
+type Transform = (f: FieldReader, shop: string | undefined) => Record<string, unknown>;
+
+const transforms = {
+  machines: transformMachine,
+  jobs: transformJob,
+  measurements: transformMeasurement,
+  weather: transformWeather,
+  hours: transformHours,
+} as unknown as Record<ExportKind, Transform>;
+
+/** The canonical column that names the shop in each kind, filled from --shop or the profile when blank. */
+const SHOP_COLUMN: Partial<Record<ExportKind, string>> = { machines: "home_shop", jobs: "shop_code", measurements: "shop_code", weather: "shop_code" };
+
+const DATE_COLUMNS: Record<ExportKind, string[]> = {
+  machines: ["build_date", "delivery_date", "block_heater_date"],
+  jobs: ["opened_date", "closed_date", "part_ordered_date", "part_received_date"],
+  measurements: [],
+  weather: ["date"],
+  hours: ["reading_date"],
+};
+
+/**
+ * Surrogate keys the loader stages with a row, in the order of keyColumns[kind] (etl/load/staging.ts):
+ * the same natural-key text as the SQL merges would hash. Written into `out`, reused row after row.
+ */
+const rowKeys: Partial<Record<ExportKind, (r: Record<string, unknown>, keys: KeyCache, out: (string | null)[]) => void>> = {
+  jobs: (r, keys, out) => {
+    const shop = r.shop_code as string;
+    const natural = `${shop}|${r.ro_number}|${r.line_no}`;
+    out[0] = whKey(`repair_line|${natural}`);
+    out[1] = keys.of("shop", shop);
+    out[2] = keys.of("machine", r.serial as string);
+    out[3] = keys.of("component", r.component_code as string);
+    out[4] = r.failure_mode === null ? null : keys.of("failure_mode", r.failure_mode as string);
+    out[5] = r.tech_id === null ? null : keys.of("technician", shop, r.tech_id as string);
+    out[6] = r.part_number === null ? null : keys.of("part", r.part_number as string, (r.supplier_lot as string | null) ?? "");
+    out[7] = r.hour_meter === null ? null : whKey(`hour|ro|${natural}`);
+  },
+};
+
+type Reject = { code: string; reason: string };
+
+/**
+ * Turns each CSV record of a file into its staging line (COPY text): row checks, transform, content hash,
+ * surrogate keys. A rejected row carries its raw fields (as a JSON array) and the reason; an accepted row
+ * does not, since it is rarely needed: when a whole-file check rejects it later, the loader reads it back
+ * from the file (see recoverRawRows in load-file.ts). Also tracks the range of dates the file names.
+ */
+export class RowStager {
+  minDate: string | null = null;
+  maxDate: string | null = null;
+  private readonly names: string[];
+  private readonly colIndex: Map<string, number>;
+  private readonly canonical: readonly string[];
+  private readonly transform: Transform;
+  private readonly dateCols: string[];
+  private readonly shopCol: string | undefined;
+  private readonly keyer: ((r: Record<string, unknown>, keys: KeyCache, out: (string | null)[]) => void) | undefined;
+  private readonly keys = new KeyCache();
+  private readonly keyValues: (string | null)[];
+  /** the staged text of a row without record: reject columns filled in, every other column \N */
+  private readonly emptyTail: string;
+
+  constructor(
+    private readonly kind: ExportKind,
+    private readonly profile: Profile,
+    private readonly header: string[],
+    private readonly shop: string | undefined,
+    private readonly today: string,
+  ) {
+    this.names = stageColumns[kind].map(([n]) => n);
+    this.colIndex = mapHeader(profile, header);
+    this.canonical = layouts[kind] as readonly string[];
+    this.transform = transforms[kind];
+    this.dateCols = DATE_COLUMNS[kind];
+    this.shopCol = SHOP_COLUMN[kind];
+    this.keyer = rowKeys[kind];
+    this.keyValues = new Array<string | null>(keyColumns[kind]?.length ?? 0).fill(null);
+    this.emptyTail = new Array(this.names.length + 1 + this.keyValues.length).fill("\\N").join("\t");
+  }
+
+  line(rec: CsvRecord): string {
+    if (rec.error) return this.rejected(rec, { code: "unreadable_row", reason: `the row cannot be read as CSV (${rec.error})` });
+    if (rec.fields.length !== this.header.length) {
+      return this.rejected(rec, { code: "wrong_column_count", reason: `the row has ${rec.fields.length} fields but the header has ${this.header.length}` });
+    }
+    const row: Record<string, string | undefined> = {};
+    for (const c of this.canonical) {
+      const i = this.colIndex.get(c);
+      if (i !== undefined) row[c] = rec.fields[i];
+    }
+    if (this.shopCol && this.shop && !row[this.shopCol]?.trim()) row[this.shopCol] = this.shop;
+    const missing = missingFields(this.kind, row);
+    if (missing.length) {
+      return this.rejected(rec, { code: "missing_field", reason: `required ${missing.length > 1 ? "fields are" : "field is"} blank: ${missing.map(columnLabel).join(", ")}` });
+    }
+    let record: Record<string, unknown>;
+    try {
+      record = this.transform(new FieldReader(this.profile, this.today, row), this.shop);
+    } catch (e) {
+      if (!(e instanceof RowRejected)) throw e;
+      return this.rejected(rec, { code: e.code, reason: e.reason });
+    }
+    for (const c of this.dateCols) {
+      const d = record[c] as string | null;
+      if (d) {
+        if (this.minDate === null || d < this.minDate) this.minDate = d;
+        if (this.maxDate === null || d > this.maxDate) this.maxDate = d;
+      }
+    }
+    const values: string[] = [];
+    for (const n of this.names) values.push(copyValue(record[n]));
+    const text = values.join("\t");
+    // the content hash: same natural key + same hash means nothing changed
+    values.push(hash("md5", text));
+    if (this.keyer) {
+      this.keyer(record, this.keys, this.keyValues);
+      for (const k of this.keyValues) values.push(k ?? "\\N");
+    }
+    values[values.length - 1] += "\n";
+    return `${rec.line}\t\\N\t\\N\t\\N\t${text}\t${values.slice(this.names.length).join("\t")}`;
+  }
+
+  /** The staging line of a rejected row: its raw fields and the reason, nothing else. */
+  private rejected(rec: CsvRecord, r: Reject): string {
+    return `${rec.line}\t${copyValue(JSON.stringify(rec.fields))}\t${copyValue(r.code)}\t${copyValue(r.reason)}\t${this.emptyTail}\n`;
+  }
+}
