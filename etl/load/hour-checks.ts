@@ -7,7 +7,9 @@ import { fmtSql } from "./merge-common.js";
  * with a meter note (a replaced or reset meter) starts a new meter generation and is compared only within it.
  * - A reading more than 2 h [C] below the highest earlier-dated reading of its generation is rejected.
  * - A rise of more than 24 h per calendar day over the previous reading is kept but marked invalid.
- * Results land in the temp table hr_out (row_no, machine_key, generation, valid, invalid_reason).
+ * Results land in the temp table hr_out (row_no, rk, machine_key, generation, valid, invalid_reason): every
+ * accepted reading, or with `onlyNotable` only those whose verdict is not the usual one (generation 0, valid),
+ * which is all a caller that stores the usual verdict by default needs.
  */
 export const BACKWARDS_TOLERANCE_H = 2;
 export const MAX_HOURS_PER_DAY = 24;
@@ -15,10 +17,13 @@ export const MAX_HOURS_PER_DAY = 24;
 export interface ReadingSpec {
   dateCol: string;
   hoursCol: string;
-  /** SQL over stg s: the text whose wh_key is the reading's fact_hour_reading key */
-  keyText: string;
+  /** SQL over stg s: the text whose wh_key is the reading's fact_hour_reading key (unless precomputed) */
+  keyText?: string;
   /** staging columns holding the machine key and the reading key, when the loader computed them */
   precomputed?: { machineKey: string; readingKey: string };
+  /** readings of this batch already in the warehouse (merged block by block) that are the file's own rows */
+  batchId?: number;
+  onlyNotable?: boolean;
 }
 
 export async function checkHourReadings(client: pg.PoolClient, spec: ReadingSpec): Promise<void> {
@@ -37,12 +42,12 @@ export async function checkHourReadings(client: pg.PoolClient, spec: ReadingSpec
       WHERE s.reject_code IS NULL AND s.${spec.hoursCol} IS NOT NULL
     ),
     wh_r AS (
-      SELECT r.machine_key, r.reading_date AS d, r.hours AS h, r.meter_change AS mc, NULL::integer AS row_no
+      SELECT r.machine_key, r.reading_date AS d, r.hours AS h, r.meter_change AS mc, NULL::integer AS row_no, NULL::bigint AS rk
       FROM fact_hour_reading r
-      WHERE r.valid AND r.machine_key IN (SELECT machine_key FROM file_r)
+      WHERE r.valid AND r.machine_key IN (SELECT machine_key FROM file_r)${spec.batchId === undefined ? "" : ` AND r.batch_id <> ${Number(spec.batchId)}`}
         AND NOT EXISTS (SELECT 1 FROM file_r f WHERE f.rk = r.hour_reading_key)
     ),
-    all_r AS (SELECT machine_key, d, h, mc, row_no FROM file_r UNION ALL SELECT machine_key, d, h, mc, row_no FROM wh_r),
+    all_r AS (SELECT machine_key, d, h, mc, row_no, rk FROM file_r UNION ALL SELECT machine_key, d, h, mc, row_no, rk FROM wh_r),
     g AS (
       SELECT *, sum(mc::int) OVER (PARTITION BY machine_key ORDER BY d, row_no NULLS FIRST ROWS UNBOUNDED PRECEDING) AS gen
       FROM all_r
@@ -72,10 +77,12 @@ export async function checkHourReadings(client: pg.PoolClient, spec: ReadingSpec
       SELECT ok.*, lag(h) OVER w AS prev_h, lag(d) OVER w AS prev_d
       FROM ok WINDOW w AS (PARTITION BY machine_key, gen ORDER BY d, row_no NULLS FIRST)
     )
-    SELECT row_no, machine_key, gen::integer AS generation,
+    SELECT * FROM (SELECT row_no, rk, machine_key, gen::integer AS generation,
       NOT COALESCE(h - prev_h > ${MAX_HOURS_PER_DAY} * greatest(d - prev_d, 1), false) AS valid,
       CASE WHEN h - prev_h > ${MAX_HOURS_PER_DAY} * greatest(d - prev_d, 1)
         THEN format('rose %s h in %s day(s) since %s h on %s', ${fmtSql("h - prev_h")}, greatest(d - prev_d, 1), ${fmtSql("prev_h")}, prev_d) END AS invalid_reason
-    FROM l WHERE row_no IS NOT NULL`);
+    FROM l WHERE row_no IS NOT NULL) v
+    ${spec.onlyNotable ? "WHERE v.generation <> 0 OR NOT v.valid" : ""}`);
   await client.query(`ALTER TABLE hr_out ADD PRIMARY KEY (row_no)`);
+  await client.query(`ANALYZE hr_out`);
 }

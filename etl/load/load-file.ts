@@ -5,13 +5,18 @@
  *   loadFile(pool: pg.Pool | string, options: LoadFileOptions): Promise<BatchSummary>
  *
  * - `pool` is a pg.Pool (e.g. the one createDb returns) or a connection string; one client is used per file.
- * - options: { path, kind?, profile?, shop?, loadedBy, onProgress?, today?, hooks? }. Without `profile` the
+ * - options: { path, kind?, profile?, shop?, loadedBy, onProgress?, today?, blockRows?, hooks? }. Without `profile` the
  *   profile is detected from the header (among profiles of `kind`, when given). `shop` fills the shop column
  *   of single-shop exports that have none.
- * - Stages: stream the file (fs → sha256 → iconv-lite → csv-parse), map the header, validate and convert
- *   each row (etl/transform), COPY every row — rejected ones too — into a temp staging table, then merge
- *   set-wise into dimensions and facts. All of it runs in ONE transaction, so a failure leaves no row of
- *   the file behind; the attempt is then recorded as a 'failed' batch with its error message.
+ * - Stages: hash the file (sha256) first, so a file loaded before is known before anything is read; then
+ *   stream it (fs → iconv-lite for Windows-1252 → csv-parse, in blocks), map the header, validate and convert
+ *   each row (etl/transform), add its content hash and surrogate keys (etl/load/stage-row.ts), and COPY
+ *   every row — rejected ones too, with their raw fields and reason — into a temp staging table in blocks of
+ *   25,000 rows (etl/load/staging.ts). Job lines are merged into the facts block by block while the next
+ *   block is read (etl/load/merge-jobs.ts); the smaller kinds merge once every row is staged. The checks
+ *   that need the whole file (duplicates, hour meters) run at the end and put back whatever they reject.
+ *   All of it runs in ONE transaction, so a failure leaves no row of the file behind; the attempt is then
+ *   recorded as a 'failed' batch with its error message.
  * - Idempotent: a file whose sha256 was loaded before is recorded as an 'already_loaded' batch with every
  *   row unchanged; otherwise rows whose natural key and content hash match the warehouse are unchanged,
  *   rows with a new hash update the fact (repair lines keep the prior version in fact_repair_line_history).
@@ -86,7 +91,7 @@ export interface BatchSummary {
  */
 interface KindMerge {
   prepare?: (c: pg.PoolClient) => Promise<void>;
-  block?: (c: pg.PoolClient, batchId: number, first: number, last: number) => Promise<BlockTally>;
+  block?: (c: pg.PoolClient, batchId: number, first: number, last: number, repeats: boolean) => Promise<BlockTally>;
   finish: (c: pg.PoolClient, batchId: number, blocks: BlockTally) => Promise<MergeCounts>;
 }
 
@@ -265,17 +270,23 @@ export async function loadFile(target: pg.Pool | string, opts: LoadFileOptions):
     const merge = merges[kind];
     await merge.prepare?.(client);
     const blocks: BlockTally = { inserted: 0, updated: 0 };
-    const pipe = new StagePipeline(client, kind, opts.blockRows ?? DEFAULT_BLOCK_ROWS, async (first, last) => {
-      if (!merge.block) return;
-      const t = await merge.block(client, batchId, first, last);
-      blocks.inserted += t.inserted;
-      blocks.updated += t.updated;
-    });
+    let stager: RowStager | null = null;
+    const pipe = new StagePipeline(
+      client,
+      kind,
+      opts.blockRows ?? DEFAULT_BLOCK_ROWS,
+      async (first, last, repeats) => {
+        if (!merge.block) return;
+        const t = await merge.block(client, batchId, first, last, repeats as boolean);
+        blocks.inserted += t.inserted;
+        blocks.updated += t.updated;
+      },
+      () => stager?.blockHadRepeats() ?? false,
+    );
     const streamHash = createHash("sha256");
     let bytesRead = 0;
     let rowsRead = 0;
     let header: string[] | null = null;
-    let stager: RowStager | null = null;
     try {
       for await (const batch of readCsv(opts.path, profile, streamHash, (b) => (bytesRead = b))) {
         for (const rec of batch) {
@@ -296,9 +307,12 @@ export async function loadFile(target: pg.Pool | string, opts: LoadFileOptions):
       throw e;
     }
     await pipe.end();
+    if (process.env.ETL_TIMINGS) process.stderr.write(`${Date.now() - started} ms  since the start: every row staged, every block merged\n`);
     if (header === null) throw new EtlFatalError("HEADER_NOT_RECOGNISED", `${fileName} has no header line`);
     if (streamHash.digest("hex") !== sha) throw new Error(`${fileName} changed while it was being loaded; load it again`);
-    // temp tables are never auto-analysed; without statistics the whole-file checks get nested-loop plans
+    // temp tables are never auto-analysed; without statistics the whole-file checks get nested-loop plans.
+    // A small sample is plenty for their joins and costs a fraction of the default one.
+    await client.query("SET LOCAL default_statistics_target = 10");
     await client.query("ANALYZE stg");
     opts.onProgress?.({ phase: "merging", rowsRead, bytesRead, totalBytes });
     await opts.hooks?.afterStaging?.(client);

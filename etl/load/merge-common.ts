@@ -65,10 +65,14 @@ export async function rejectDuplicates(client: pg.PoolClient, keyCols: string[],
   const key = groupKey ? [groupKey] : keyCols;
   const on = key.map((c) => `s.${c} = k.${c}`).join(" AND ");
   await client.query(
-    `WITH k AS (
-       SELECT ${key.join(", ")}, min(row_no) AS first_row, min(row_hash) <> max(row_hash) AS conflicting, count(*) AS copies,
-              string_agg(row_no::text, ', ' ORDER BY row_no) AS lines
-       FROM stg WHERE reject_code IS NULL GROUP BY ${key.join(", ")} HAVING count(*) > 1
+    `WITH d AS (
+       SELECT ${key.join(", ")} FROM stg WHERE reject_code IS NULL GROUP BY ${key.join(", ")} HAVING count(*) > 1
+     ), k AS (
+       -- the details only for keys that repeat: most files have none
+       SELECT ${key.map((c) => `s.${c}`).join(", ")}, min(s.row_no) AS first_row, min(s.row_hash) <> max(s.row_hash) AS conflicting,
+              count(*) AS copies, string_agg(s.row_no::text, ', ' ORDER BY s.row_no) AS lines
+       FROM stg s JOIN d ON ${key.map((c) => `s.${c} = d.${c}`).join(" AND ")}
+       WHERE s.reject_code IS NULL GROUP BY ${key.map((c) => `s.${c}`).join(", ")}
      )
      UPDATE stg AS t SET
        reject_code = CASE WHEN k.conflicting THEN 'conflicting_duplicate' ELSE 'duplicate_in_file' END,

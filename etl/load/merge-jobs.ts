@@ -19,8 +19,6 @@ import { rejectDuplicates, rejectUnknownMachines, type MergeCounts } from "./mer
  * line to put back, so the merge costs little more than the inserts themselves.
  */
 
-const HOUR_KEY_TEXT = `'hour|ro|' || s.shop_code || '|' || s.ro_number || '|' || s.line_no`;
-
 const FACT_COLS = [
   "repair_line_key", "shop_key", "ro_number", "line_no", "machine_key", "component_key", "failure_mode_key", "technician_key",
   "part_key", "opened_date", "closed_date", "hour_meter", "meter_note", "complaint", "cause", "correction", "labor_op",
@@ -55,40 +53,44 @@ const BLOCK_COLS = [
 ];
 
 /** Step 1 for staged rows first..last (row numbers); returns how many lines it inserted and updated. */
-export async function jobsBlock(client: pg.PoolClient, batchId: number, first: number, last: number): Promise<BlockTally> {
+export async function jobsBlock(client: pg.PoolClient, batchId: number, first: number, last: number, repeats = true): Promise<BlockTally> {
   const B = int(batchId);
+  const candidates = `FROM stg s
+      WHERE s.row_no BETWEEN ${int(first)} AND ${int(last)} AND s.reject_code IS NULL
+        AND EXISTS (SELECT 1 FROM dim_machine m WHERE m.machine_key = s.machine_key)`;
+  const cols = BLOCK_COLS.map((c) => `s.${c}`).join(", ");
+  // with a key repeated in the block, the first copy of each is copied once into blk; otherwise the
+  // block's rows are read straight from stg
+  const src = repeats ? "blk c" : `(SELECT ${cols} ${candidates}) c`;
   const values = FACT_COLS.map((c) => (FROM_STAGE[c] ?? `c.${c}`).replace("$B", B)).join(", ");
   // One round trip; the statements run in order inside the load's transaction. The block's candidate
   // lines (row checks passed, machine known, first copy of each key) are copied once into blk. Joins to
   // the fact are kept to index lookups: a block is small next to the warehouse, and neither temp table
   // has statistics while the file is still being read.
-  const results = (await client.query(`
+  const script = `
     SET LOCAL enable_hashjoin = off;
     SET LOCAL enable_mergejoin = off;
-    TRUNCATE blk, touched;
-    INSERT INTO blk
-      SELECT DISTINCT ON (s.repair_line_key) ${BLOCK_COLS.map((c) => `s.${c}`).join(", ")} FROM stg s
-      WHERE s.row_no BETWEEN ${int(first)} AND ${int(last)} AND s.reject_code IS NULL
-        AND EXISTS (SELECT 1 FROM dim_machine m WHERE m.machine_key = s.machine_key)
-      ORDER BY s.repair_line_key, s.row_no;
+    TRUNCATE touched;
+    ${repeats ? `TRUNCATE blk; INSERT INTO blk SELECT DISTINCT ON (s.repair_line_key) ${cols} ${candidates} ORDER BY s.repair_line_key, s.row_no;` : ""}
     INSERT INTO fact_repair_line_history (repair_line_key, prior_row, prior_batch_id, replaced_by_batch)
       SELECT f.repair_line_key, to_jsonb(f), f.batch_id, ${B}
-      FROM blk c JOIN fact_repair_line f ON f.repair_line_key = c.repair_line_key
+      FROM ${src} JOIN fact_repair_line f ON f.repair_line_key = c.repair_line_key
       WHERE f.row_hash <> c.row_hash;
     WITH up AS (
       INSERT INTO fact_repair_line AS f (${FACT_COLS.join(", ")})
-      SELECT ${values} FROM blk c
+      SELECT ${values} FROM ${src}
       ON CONFLICT (repair_line_key) DO UPDATE SET ${UPDATABLE.map((c) => `${c} = excluded.${c}`).join(", ")}
       WHERE f.row_hash <> excluded.row_hash
       RETURNING f.repair_line_key, (xmax = 0) AS inserted
     )
     INSERT INTO touched SELECT repair_line_key, inserted FROM up;
     DELETE FROM fact_fault_code d USING touched t WHERE d.repair_line_key = t.key AND NOT t.inserted;
-    ${faultCodeInsert(`SELECT c.repair_line_key, c.fault_codes FROM blk c JOIN touched t ON t.key = c.repair_line_key WHERE c.fault_codes IS NOT NULL`)};
+    ${faultCodeInsert(`SELECT c.repair_line_key, c.fault_codes FROM ${src} JOIN touched t ON t.key = c.repair_line_key WHERE c.fault_codes IS NOT NULL`)};
     SET LOCAL enable_hashjoin = on;
     SET LOCAL enable_mergejoin = on;
     SELECT count(*) FILTER (WHERE inserted)::int AS inserted, count(*) FILTER (WHERE NOT inserted)::int AS updated FROM touched;
-  `)) as unknown as pg.QueryResult<BlockTally>[];
+  `;
+  const results = (await client.query(script)) as unknown as pg.QueryResult<BlockTally>[];
   const tally = results[results.length - 1].rows[0];
   return { inserted: tally.inserted, updated: tally.updated };
 }
@@ -105,8 +107,10 @@ export async function prepareJobs(client: pg.PoolClient): Promise<void> {
  * their version from before this batch back, with its fault codes. Returns how many lines it put back.
  */
 async function putBack(client: pg.PoolClient, batchId: number): Promise<number> {
+  await client.query(`CREATE TEMP TABLE IF NOT EXISTS put_back (key bigint PRIMARY KEY, was_new boolean NOT NULL) ON COMMIT DROP`);
+  await client.query(`TRUNCATE put_back`);
   await client.query(
-    `CREATE TEMP TABLE put_back ON COMMIT DROP AS
+    `INSERT INTO put_back
      SELECT DISTINCT f.repair_line_key AS key, f.first_batch_id = $1 AS was_new
      FROM stg s JOIN fact_repair_line f ON f.repair_line_key = s.repair_line_key
      WHERE s.reject_code IS NOT NULL AND s.repair_line_key IS NOT NULL AND f.batch_id = $1
@@ -138,50 +142,59 @@ async function putBack(client: pg.PoolClient, batchId: number): Promise<number> 
   return n;
 }
 
-/** Step 2: whole-file checks, putting back what they reject, dimensions, hour readings, counts. */
+/** Step 2: whole-file checks, putting back what they reject, dimensions, hour-meter verdicts, counts. */
 export async function finishJobs(client: pg.PoolClient, batchId: number, blocks: BlockTally): Promise<MergeCounts> {
   await rejectDuplicates(client, ["shop_code", "ro_number", "line_no"], "shop %s repair order %s line %s", "repair_line_key");
   await rejectUnknownMachines(client, true);
+  // before the hour checks, so that they see the warehouse's own version of a line the file contradicts
+  let putBackCount = await putBack(client, batchId);
+  // an RO reading's key is its line's key, so the file's own lines (already merged) are not counted twice
   await checkHourReadings(client, {
     dateCol: "opened_date",
     hoursCol: "hour_meter",
-    keyText: HOUR_KEY_TEXT,
-    precomputed: { machineKey: "machine_key", readingKey: "hour_reading_key" },
+    precomputed: { machineKey: "machine_key", readingKey: "repair_line_key" },
+    batchId,
+    onlyNotable: true,
   });
-  const putBackCount = await putBack(client, batchId);
+  putBackCount += await putBack(client, batchId);
 
+  // shops, technicians and parts of the accepted lines, in one pass over the staged rows
   await client.query(
-    `INSERT INTO dim_shop (shop_key, shop_code, name)
-     SELECT DISTINCT ON (shop_key) shop_key, shop_code, shop_code FROM stg WHERE reject_code IS NULL AND shop_code <> ''
-     ON CONFLICT DO NOTHING`,
-  );
-  await client.query(
-    `INSERT INTO dim_technician (technician_key, shop_key, tech_id, display_name)
-     SELECT DISTINCT ON (technician_key) technician_key, shop_key, tech_id, tech_id
-     FROM stg WHERE reject_code IS NULL AND technician_key IS NOT NULL
-     ON CONFLICT (technician_key) DO NOTHING`,
-  );
-  await client.query(
-    `INSERT INTO dim_part (part_key, part_number, supplier_lot, description)
-     SELECT part_key, min(part_number), COALESCE(min(supplier_lot), ''), min(part_description)
-     FROM stg WHERE reject_code IS NULL AND part_key IS NOT NULL
-     GROUP BY part_key
+    `WITH d AS MATERIALIZED (
+       SELECT GROUPING(shop_key) AS by_shop, GROUPING(technician_key) AS by_tech, GROUPING(part_key) AS by_part,
+              shop_key, technician_key, part_key, min(shop_code) AS shop_code, min(shop_key) AS tech_shop_key, min(tech_id) AS tech_id,
+              min(part_number) AS part_number, COALESCE(min(supplier_lot), '') AS supplier_lot, min(part_description) AS part_description
+       FROM stg WHERE reject_code IS NULL
+       GROUP BY GROUPING SETS ((shop_key), (technician_key), (part_key))
+     ), shops AS (
+       INSERT INTO dim_shop (shop_key, shop_code, name)
+       SELECT shop_key, shop_code, shop_code FROM d WHERE by_shop = 0 AND shop_key IS NOT NULL AND shop_code <> ''
+       ON CONFLICT DO NOTHING
+     ), techs AS (
+       INSERT INTO dim_technician (technician_key, shop_key, tech_id, display_name)
+       SELECT technician_key, tech_shop_key, tech_id, tech_id FROM d WHERE by_tech = 0 AND technician_key IS NOT NULL
+       ON CONFLICT (technician_key) DO NOTHING
+     )
+     INSERT INTO dim_part (part_key, part_number, supplier_lot, description)
+     SELECT part_key, part_number, supplier_lot, part_description FROM d WHERE by_part = 0 AND part_key IS NOT NULL
      ON CONFLICT (part_key) DO NOTHING`,
   );
 
-  const readings = `SELECT s.hour_reading_key, s.machine_key, s.opened_date AS reading_date, s.hour_meter AS hours,
-       'ro' AS source, s.repair_line_key, s.meter_change, s.meter_note, h.generation AS meter_generation, h.valid, h.invalid_reason,
-       md5(concat_ws('|', s.serial, s.opened_date, s.hour_meter, s.meter_note, h.generation, h.valid)) AS row_hash, $1::bigint AS batch_id
-     FROM stg s JOIN hr_out h ON h.row_no = s.row_no
-     WHERE s.reject_code IS NULL`;
-  const HR_COLS = ["hour_reading_key", "machine_key", "reading_date", "hours", "source", "repair_line_key", "meter_change", "meter_note",
-    "meter_generation", "valid", "invalid_reason", "row_hash", "batch_id"];
+  // The checks' verdict on each line's reading. A line is written with the usual verdict (generation 0,
+  // valid); hr_out holds only the readings judged otherwise. So: lines with an unusual verdict get it, and
+  // lines of this file stored with an unusual verdict that no longer holds get the usual one back (the
+  // partial index fact_repair_line_notable_reading_idx finds those without reading every line).
   await client.query(
-    `INSERT INTO fact_hour_reading AS r (${HR_COLS.join(", ")})
-     SELECT ${HR_COLS.join(", ")} FROM (${readings}) x
-     ON CONFLICT (hour_reading_key) DO UPDATE SET ${HR_COLS.slice(1).map((c) => `${c} = excluded.${c}`).join(", ")}
-     WHERE r.row_hash <> excluded.row_hash`,
-    [batchId],
+    `UPDATE fact_repair_line f SET meter_generation = h.generation, hour_valid = h.valid, hour_invalid_reason = h.invalid_reason
+     FROM hr_out h
+     WHERE f.repair_line_key = h.rk
+       AND (f.meter_generation, f.hour_valid, f.hour_invalid_reason) IS DISTINCT FROM (h.generation, h.valid, h.invalid_reason)`,
+  );
+  await client.query(
+    `UPDATE fact_repair_line f SET meter_generation = 0, hour_valid = true, hour_invalid_reason = NULL
+     FROM stg s
+     WHERE (f.meter_generation <> 0 OR NOT f.hour_valid) AND f.repair_line_key = s.repair_line_key AND s.reject_code IS NULL
+       AND NOT EXISTS (SELECT 1 FROM hr_out h WHERE h.rk = f.repair_line_key)`,
   );
 
   const accepted = (await client.query<{ n: number }>(`SELECT count(*)::int AS n FROM stg WHERE reject_code IS NULL`)).rows[0].n;

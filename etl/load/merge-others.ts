@@ -42,7 +42,7 @@ export async function mergeMachines(client: pg.PoolClient, batchId: number): Pro
     [batchId],
   );
   await client.query(
-    `INSERT INTO fact_hour_reading AS r (hour_reading_key, machine_key, reading_date, hours, source, row_hash, batch_id)
+    `INSERT INTO fact_meter_reading AS r (hour_reading_key, machine_key, reading_date, hours, source, row_hash, batch_id)
      SELECT wh_key('hour|delivery|' || s.serial), wh_key('machine|' || s.serial), s.delivery_date, s.delivery_hours, 'delivery',
        md5(concat_ws('|', s.delivery_date, s.delivery_hours)), $1
      FROM stg s WHERE s.reject_code IS NULL AND s.delivery_date IS NOT NULL AND s.delivery_hours IS NOT NULL
@@ -121,7 +121,7 @@ export async function mergeHours(client: pg.PoolClient, batchId: number): Promis
   await createChanged(client);
   await client.query(
     upsert(
-      "fact_hour_reading",
+      "fact_meter_reading",
       "hour_reading_key",
       ["hour_reading_key", "machine_key", "reading_date", "hours", "source", "meter_change", "meter_note", "meter_generation", "valid",
         "invalid_reason", "row_hash", "batch_id"],

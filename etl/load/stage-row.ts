@@ -42,15 +42,13 @@ const DATE_COLUMNS: Record<ExportKind, string[]> = {
 const rowKeys: Partial<Record<ExportKind, (r: Record<string, unknown>, keys: KeyCache, out: (string | null)[]) => void>> = {
   jobs: (r, keys, out) => {
     const shop = r.shop_code as string;
-    const natural = `${shop}|${r.ro_number}|${r.line_no}`;
-    out[0] = whKey(`repair_line|${natural}`);
+    out[0] = whKey(`repair_line|${shop}|${r.ro_number}|${r.line_no}`);
     out[1] = keys.of("shop", shop);
     out[2] = keys.of("machine", r.serial as string);
     out[3] = keys.of("component", r.component_code as string);
     out[4] = r.failure_mode === null ? null : keys.of("failure_mode", r.failure_mode as string);
     out[5] = r.tech_id === null ? null : keys.of("technician", shop, r.tech_id as string);
     out[6] = r.part_number === null ? null : keys.of("part", r.part_number as string, (r.supplier_lot as string | null) ?? "");
-    out[7] = r.hour_meter === null ? null : whKey(`hour|ro|${natural}`);
   },
 };
 
@@ -66,14 +64,17 @@ export class RowStager {
   minDate: string | null = null;
   maxDate: string | null = null;
   private readonly names: string[];
-  private readonly colIndex: Map<string, number>;
-  private readonly canonical: readonly string[];
+  /** [canonical column, index in the file's fields] for the columns this file has */
+  private readonly mapped: [string, number][];
   private readonly transform: Transform;
   private readonly dateCols: string[];
   private readonly shopCol: string | undefined;
   private readonly keyer: ((r: Record<string, unknown>, keys: KeyCache, out: (string | null)[]) => void) | undefined;
   private readonly keys = new KeyCache();
   private readonly keyValues: (string | null)[];
+  /** the first key of the rows staged since the last blockHadRepeats() call, and whether one came twice */
+  private blockKeys = new Set<string>();
+  private blockRepeats = false;
   /** the staged text of a row without record: reject columns filled in, every other column \N */
   private readonly emptyTail: string;
 
@@ -85,8 +86,8 @@ export class RowStager {
     private readonly today: string,
   ) {
     this.names = stageColumns[kind].map(([n]) => n);
-    this.colIndex = mapHeader(profile, header);
-    this.canonical = layouts[kind] as readonly string[];
+    const colIndex = mapHeader(profile, header);
+    this.mapped = (layouts[kind] as readonly string[]).flatMap((c): [string, number][] => (colIndex.has(c) ? [[c, colIndex.get(c)!]] : []));
     this.transform = transforms[kind];
     this.dateCols = DATE_COLUMNS[kind];
     this.shopCol = SHOP_COLUMN[kind];
@@ -101,10 +102,7 @@ export class RowStager {
       return this.rejected(rec, { code: "wrong_column_count", reason: `the row has ${rec.fields.length} fields but the header has ${this.header.length}` });
     }
     const row: Record<string, string | undefined> = {};
-    for (const c of this.canonical) {
-      const i = this.colIndex.get(c);
-      if (i !== undefined) row[c] = rec.fields[i];
-    }
+    for (const [c, i] of this.mapped) row[c] = rec.fields[i];
     if (this.shopCol && this.shop && !row[this.shopCol]?.trim()) row[this.shopCol] = this.shop;
     const missing = missingFields(this.kind, row);
     if (missing.length) {
@@ -132,9 +130,25 @@ export class RowStager {
     if (this.keyer) {
       this.keyer(record, this.keys, this.keyValues);
       for (const k of this.keyValues) values.push(k ?? "\\N");
+      const key = this.keyValues[0];
+      if (key !== null) {
+        if (this.blockKeys.has(key)) this.blockRepeats = true;
+        else this.blockKeys.add(key);
+      }
     }
     values[values.length - 1] += "\n";
     return `${rec.line}\t\\N\t\\N\t\\N\t${text}\t${values.slice(this.names.length).join("\t")}`;
+  }
+
+  /**
+   * Whether a natural key came twice among the rows staged since the last call (the block being sealed);
+   * a block without repeats can be merged without first picking one copy per key.
+   */
+  blockHadRepeats(): boolean {
+    const r = this.blockRepeats;
+    this.blockKeys = new Set();
+    this.blockRepeats = false;
+    return r;
   }
 
   /** The staging line of a rejected row: its raw fields and the reason, nothing else. */

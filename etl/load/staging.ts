@@ -41,7 +41,7 @@ export const stageColumns: Record<ExportKind, [string, string][]> = {
  * the merges need neither joins nor hashing. Kinds without an entry stage none.
  */
 export const keyColumns: Partial<Record<ExportKind, readonly string[]>> = {
-  jobs: ["repair_line_key", "shop_key", "machine_key", "component_key", "failure_mode_key", "technician_key", "part_key", "hour_reading_key"],
+  jobs: ["repair_line_key", "shop_key", "machine_key", "component_key", "failure_mode_key", "technician_key", "part_key"],
 };
 
 /** Every staged column of a kind after row_no/raw/reject: the record's, its content hash, then the keys. */
@@ -88,7 +88,9 @@ export class StagePipeline {
     private readonly client: pg.PoolClient,
     kind: ExportKind,
     private readonly blockRows: number,
-    private readonly afterBlock: (first: number, last: number) => Promise<void>,
+    private readonly afterBlock: (first: number, last: number, sealed: unknown) => Promise<void>,
+    /** called as a block is sealed (synchronously, before the next row is staged); its result goes to afterBlock */
+    private readonly onSeal: () => unknown = () => undefined,
   ) {
     const cols = ["row_no", "raw", "reject_code", "reject_reason", ...stagedColumns(kind).map(([n]) => n)].join(", ");
     this.copySql = `COPY stg (${cols}) FROM STDIN`;
@@ -113,6 +115,7 @@ export class StagePipeline {
     if (this.lines.length) this.pieces.push(this.lines.join(""));
     const pieces = this.pieces;
     const [first, last] = [this.first, this.last];
+    const sealed = this.onSeal();
     this.pieces = [];
     this.lines = [];
     this.rows = 0;
@@ -122,7 +125,7 @@ export class StagePipeline {
     this.queue = this.queue
       .then(async () => {
         await this.copy(pieces);
-        await this.afterBlock(first, last);
+        await this.afterBlock(first, last, sealed);
       })
       .catch((e: unknown) => {
         this.failure ??= e;

@@ -5,8 +5,12 @@
 export type DateFormat = "iso" | "mdy" | "dmy";
 export type HoursFormat = "decimal" | "h:mm";
 
+const PLAIN_DECIMAL = /^-?\d+(\.\d+)?$/;
+
 /** A decimal number; with `decimalComma` the comma is the decimal mark ("1234,5"). Null when not a number. */
 export function parseDecimal(text: string, decimalComma: boolean): number | null {
+  // the common case, a plain decimal such as "1234.5", needs no clean-up
+  if (!decimalComma && PLAIN_DECIMAL.test(text)) return Number(text);
   let t = text.trim().replace(/\s+/g, "");
   if (t === "") return null;
   if (decimalComma) {

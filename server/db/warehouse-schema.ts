@@ -170,6 +170,10 @@ export interface FactRepairLineTable {
   row_hash: string;
   first_batch_id: Bigint;
   batch_id: Bigint;
+  /** the hour-meter checks' verdict on this line's reading (see fact_hour_reading) */
+  meter_generation: Generated<number>;
+  hour_valid: Generated<boolean>;
+  hour_invalid_reason: string | null;
 }
 
 export interface FactRepairLineHistoryTable {
@@ -211,6 +215,11 @@ export interface FactMeasurementTable {
   batch_id: Bigint;
 }
 
+/**
+ * fact_hour_reading is a view (migration 0040): the readings of fact_meter_reading (delivery, hours exports)
+ * and one per repair-order line with an hour meter, keyed by the line's key. Write to fact_meter_reading,
+ * or to the line's meter_generation / hour_valid / hour_invalid_reason.
+ */
 export interface FactHourReadingTable {
   hour_reading_key: Bigint;
   machine_key: Bigint;
@@ -254,6 +263,7 @@ export interface WarehouseTables {
   fact_fault_code: FactFaultCodeTable;
   fact_measurement: FactMeasurementTable;
   fact_hour_reading: FactHourReadingTable;
+  fact_meter_reading: FactHourReadingTable;
   fact_weather_day: FactWeatherDayTable;
   warranty_policy: WarrantyPolicyTable;
   warranty_claim: WarrantyClaimTable;

@@ -126,8 +126,8 @@ describe("GET /api/claims/preview?repairLine=…", () => {
   it("marks the hours at risk when the hour-meter cleaning set the RO's reading aside", async () => {
     const line = await pickLine({ shop: "S2" });
     const res = await t.db
-      .updateTable("fact_hour_reading")
-      .set({ valid: false, invalid_reason: "rise over 24 h a day" })
+      .updateTable("fact_repair_line")
+      .set({ hour_valid: false, hour_invalid_reason: "rise over 24 h a day" })
       .where("repair_line_key", "=", line.key)
       .executeTakeFirst();
     expect(Number(res.numUpdatedRows)).toBeGreaterThan(0);

@@ -60,7 +60,7 @@ describe("block-by-block merging of job lines", () => {
     whole = { summaries, tables: await contents(t) };
   });
 
-  for (const blockRows of [1, 2]) {
+  for (const blockRows of [1, 2, 3]) {
     it(`gives the same warehouse and counts with blocks of ${blockRows} row(s) as with one block per file`, async () => {
       const t = await fresh();
       const summaries = await loadAll(t, blockRows, files);

@@ -59,7 +59,7 @@ describe("loadFile with bad rows", () => {
 
   it("accepts a reading below the earlier ones when its meter note says the meter was replaced, starting a new generation", async () => {
     const r = await t.pool.query(
-      `SELECT hours, meter_change, meter_generation, valid FROM fact_hour_reading r JOIN fact_repair_line f USING (repair_line_key) WHERE f.ro_number = 'R-7'`,
+      `SELECT r.hours, r.meter_change, r.meter_generation, r.valid FROM fact_hour_reading r JOIN fact_repair_line f USING (repair_line_key) WHERE f.ro_number = 'R-7'`,
     );
     expect(r.rows).toEqual([{ hours: "15.0", meter_change: true, meter_generation: 1, valid: true }]);
   });
