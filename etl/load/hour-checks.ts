@@ -26,7 +26,8 @@ export interface ReadingSpec {
   onlyNotable?: boolean;
 }
 
-export async function checkHourReadings(client: pg.PoolClient, spec: ReadingSpec): Promise<void> {
+/** Runs the checks; returns how many of the file's rows were rejected as going backwards. */
+export async function checkHourReadings(client: pg.PoolClient, spec: ReadingSpec): Promise<number> {
   await client.query(`
     CREATE TEMP TABLE hr ON COMMIT DROP AS
     WITH file_r AS (
@@ -56,7 +57,9 @@ export async function checkHourReadings(client: pg.PoolClient, spec: ReadingSpec
     FROM g`);
   await client.query(`ANALYZE hr`);
 
-  await client.query(`
+  // the rejected readings leave hr too, so that the verdicts below are taken over the accepted ones
+  const rejected = await client.query(`
+    WITH rej AS (
     UPDATE stg s SET reject_code = 'hour_meter_backwards',
       reject_reason = format('hour meter %s h is lower than the %s h recorded for this machine on %s; if the meter was replaced, say so in the meter note',
         ${fmtSql("x.h")}, ${fmtSql("x.prior_max")}, x.prior_date)
@@ -66,16 +69,16 @@ export async function checkHourReadings(client: pg.PoolClient, spec: ReadingSpec
       WHERE b.row_no IS NOT NULL AND b.prior_max > b.h + ${BACKWARDS_TOLERANCE_H}
       GROUP BY b.row_no, b.h, b.prior_max
     ) x
-    WHERE s.row_no = x.row_no`);
+    WHERE s.row_no = x.row_no
+    RETURNING s.row_no
+    )
+    DELETE FROM hr USING rej WHERE hr.row_no = rej.row_no`);
 
   await client.query(`
     CREATE TEMP TABLE hr_out ON COMMIT DROP AS
-    WITH ok AS (
-      SELECT hr.* FROM hr LEFT JOIN stg s ON s.row_no = hr.row_no WHERE hr.row_no IS NULL OR s.reject_code IS NULL
-    ),
-    l AS (
-      SELECT ok.*, lag(h) OVER w AS prev_h, lag(d) OVER w AS prev_d
-      FROM ok WINDOW w AS (PARTITION BY machine_key, gen ORDER BY d, row_no NULLS FIRST)
+    WITH l AS (
+      SELECT hr.*, lag(h) OVER w AS prev_h, lag(d) OVER w AS prev_d
+      FROM hr WINDOW w AS (PARTITION BY machine_key, gen ORDER BY d, row_no NULLS FIRST)
     )
     SELECT * FROM (SELECT row_no, rk, machine_key, gen::integer AS generation,
       NOT COALESCE(h - prev_h > ${MAX_HOURS_PER_DAY} * greatest(d - prev_d, 1), false) AS valid,
@@ -85,4 +88,5 @@ export async function checkHourReadings(client: pg.PoolClient, spec: ReadingSpec
     ${spec.onlyNotable ? "WHERE v.generation <> 0 OR NOT v.valid" : ""}`);
   await client.query(`ALTER TABLE hr_out ADD PRIMARY KEY (row_no)`);
   await client.query(`ANALYZE hr_out`);
+  return rejected.rowCount ?? 0;
 }

@@ -34,10 +34,10 @@ import type { ExportKind, Profile } from "../profiles/profile-schema.js";
 import { detectProfile, getProfile, missingRequiredColumns } from "../profiles/registry.js";
 import { checkReadable, headerCells, readCsv, readHead } from "../sources/read-csv.js";
 import { ensureDates, seedReference, storeRejects, type MergeCounts } from "./merge-common.js";
-import { finishJobs, jobsBlock, prepareJobs, type BlockTally } from "./merge-jobs.js";
+import { finishJobs, jobsBlock, prepareJobs, type BlockTally, type FileFacts } from "./merge-jobs.js";
 import { mergeHours, mergeMachines, mergeMeasurements, mergeWeather } from "./merge-others.js";
 import { RowStager } from "./stage-row.js";
-import { createStage, StagePipeline } from "./staging.js";
+import { StagePipeline, StageTable } from "./staging.js";
 
 export interface LoadProgress {
   phase: "reading" | "merging" | "done";
@@ -92,7 +92,7 @@ export interface BatchSummary {
 interface KindMerge {
   prepare?: (c: pg.PoolClient) => Promise<void>;
   block?: (c: pg.PoolClient, batchId: number, first: number, last: number, repeats: boolean) => Promise<BlockTally>;
-  finish: (c: pg.PoolClient, batchId: number, blocks: BlockTally) => Promise<MergeCounts>;
+  finish: (c: pg.PoolClient, batchId: number, blocks: BlockTally, file: FileFacts) => Promise<MergeCounts>;
 }
 
 const merges: Record<ExportKind, KindMerge> = {
@@ -233,12 +233,18 @@ export async function loadFile(target: pg.Pool | string, opts: LoadFileOptions):
   const pool = typeof target === "string" ? new pg.Pool({ connectionString: target, max: 1 }) : target;
   if (typeof target === "string") pool.on("error", () => {}); // an idle client closed by the server is simply dropped
   const client = await pool.connect();
+  // the staging table's own connection (see StageTable): a new one, since the pool may allow only one
+  const copyClient = new pg.Client((pool as unknown as { options: pg.ClientConfig }).options);
+  copyClient.on("error", () => {}); // a dropped connection surfaces as the failing COPY
+  let stage: StageTable | null = null;
   if (process.env.ETL_TIMINGS) traceQueries(client);
   const startedAt = new Date();
   try {
     await client.query("BEGIN");
     // bulk merges sort and hash the whole file; give them room (transaction-local)
     await client.query("SET LOCAL work_mem = '256MB'");
+    // the merges are few, large statements: compiling them costs more than it saves
+    await client.query("SET LOCAL jit = off");
     const before = await client.query<{ rows_read: number }>(
       `SELECT rows_read FROM etl_batch WHERE sha256 = $1 AND status = 'loaded' ORDER BY batch_id LIMIT 1`,
       [sha],
@@ -266,13 +272,14 @@ export async function loadFile(target: pg.Pool | string, opts: LoadFileOptions):
     );
     const batchId = Number(ins.rows[0].batch_id);
     await seedReference(client);
-    await createStage(client, kind);
+    await copyClient.connect();
+    stage = await StageTable.create(client, copyClient, kind, batchId);
     const merge = merges[kind];
     await merge.prepare?.(client);
     const blocks: BlockTally = { inserted: 0, updated: 0 };
     let stager: RowStager | null = null;
     const pipe = new StagePipeline(
-      client,
+      stage,
       kind,
       opts.blockRows ?? DEFAULT_BLOCK_ROWS,
       async (first, last, repeats) => {
@@ -313,15 +320,17 @@ export async function loadFile(target: pg.Pool | string, opts: LoadFileOptions):
     // temp tables are never auto-analysed; without statistics the whole-file checks get nested-loop plans.
     // A small sample is plenty for their joins and costs a fraction of the default one.
     await client.query("SET LOCAL default_statistics_target = 10");
-    await client.query("ANALYZE stg");
+    await client.query(`ANALYZE ${stage.name}`);
     opts.onProgress?.({ phase: "merging", rowsRead, bytesRead, totalBytes });
     await opts.hooks?.afterStaging?.(client);
 
     await ensureDates(client, stager!.minDate, stager!.maxDate);
-    const merged = await merge.finish(client, batchId, blocks);
-    await recoverRawRows(client, opts.path, profile, sha);
+    const merged = await merge.finish(client, batchId, blocks, { mayRepeatKeys: stager!.fileHadRepeats });
+    const rej = await client.query<{ n: number; without_raw: number }>(
+      `SELECT count(*)::int AS n, count(*) FILTER (WHERE raw IS NULL)::int AS without_raw FROM stg WHERE reject_code IS NOT NULL`,
+    );
+    if (rej.rows[0].without_raw > 0) await recoverRawRows(client, opts.path, profile, sha);
     await storeRejects(client, batchId, header);
-    const rej = await client.query<{ n: number }>(`SELECT count(*)::int AS n FROM stg WHERE reject_code IS NOT NULL`);
     const counts = { ...merged, rejected: rej.rows[0].n };
     await client.query(
       `UPDATE etl_batch SET finished_at = now(), rows_read = $2, rows_inserted = $3, rows_updated = $4, rows_unchanged = $5,
@@ -357,6 +366,8 @@ export async function loadFile(target: pg.Pool | string, opts: LoadFileOptions):
     }
     throw e;
   } finally {
+    await stage?.drop(client);
+    await copyClient.end().catch(() => undefined);
     client.release();
     if (typeof target === "string") await pool.end();
   }

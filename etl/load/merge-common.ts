@@ -61,10 +61,10 @@ export async function registerShops(client: pg.PoolClient, shopCol: string): Pro
  * say which one is right. `groupKey`, when given, is a staging column equivalent to the natural key
  * (its surrogate key), which groups faster than the text columns.
  */
-export async function rejectDuplicates(client: pg.PoolClient, keyCols: string[], label: string, groupKey?: string): Promise<void> {
+export async function rejectDuplicates(client: pg.PoolClient, keyCols: string[], label: string, groupKey?: string): Promise<number> {
   const key = groupKey ? [groupKey] : keyCols;
   const on = key.map((c) => `s.${c} = k.${c}`).join(" AND ");
-  await client.query(
+  const r = await client.query(
     `WITH d AS (
        SELECT ${key.join(", ")} FROM stg WHERE reject_code IS NULL GROUP BY ${key.join(", ")} HAVING count(*) > 1
      ), k AS (
@@ -82,16 +82,18 @@ export async function rejectDuplicates(client: pg.PoolClient, keyCols: string[],
      FROM stg s JOIN k ON ${on}
      WHERE t.row_no = s.row_no AND s.reject_code IS NULL AND (k.conflicting OR s.row_no > k.first_row)`,
   );
+  return r.rowCount ?? 0;
 }
 
 /** Rows whose machine serial is not in dim_machine: the machines export must come first. */
-export async function rejectUnknownMachines(client: pg.PoolClient, byKey = false): Promise<void> {
+export async function rejectUnknownMachines(client: pg.PoolClient, byKey = false): Promise<number> {
   const known = byKey ? "m.machine_key = s.machine_key" : "m.serial = s.serial";
-  await client.query(
+  const r = await client.query(
     `UPDATE stg s SET reject_code = 'unknown_machine',
        reject_reason = format('machine serial %s is not in the machine master; load the machines export that lists it first', s.serial)
      WHERE s.reject_code IS NULL AND NOT EXISTS (SELECT 1 FROM dim_machine m WHERE ${known})`,
   );
+  return r.rowCount ?? 0;
 }
 
 /** Every rejected row into etl_reject, its raw fields keyed by the file's header. */

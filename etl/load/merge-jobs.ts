@@ -42,6 +42,12 @@ const int = (n: number) => {
   return String(n);
 };
 
+/** What the loader learnt about the file while staging it. */
+export interface FileFacts {
+  /** false when no natural key can have come twice (see KeySeenFilter) */
+  mayRepeatKeys: boolean;
+}
+
 export interface BlockTally {
   inserted: number;
   updated: number;
@@ -49,7 +55,7 @@ export interface BlockTally {
 
 /** Staging columns a block carries into the fact (all but the raw row and reject columns). */
 const BLOCK_COLS = [
-  "row_no", ...FACT_COLS.filter((c) => !["fault_codes_raw", "first_batch_id", "batch_id"].includes(c)), "fault_codes",
+  "row_no", ...FACT_COLS.filter((c) => !["fault_codes_raw", "first_batch_id", "batch_id"].includes(c)), "fault_codes", "shop_code", "tech_id",
 ];
 
 /** Step 1 for staged rows first..last (row numbers); returns how many lines it inserted and updated. */
@@ -63,41 +69,46 @@ export async function jobsBlock(client: pg.PoolClient, batchId: number, first: n
   // block's rows are read straight from stg
   const src = repeats ? "blk c" : `(SELECT ${cols} ${candidates}) c`;
   const values = FACT_COLS.map((c) => (FROM_STAGE[c] ?? `c.${c}`).replace("$B", B)).join(", ");
-  // One round trip; the statements run in order inside the load's transaction. The block's candidate
-  // lines (row checks passed, machine known, first copy of each key) are copied once into blk. Joins to
-  // the fact are kept to index lookups: a block is small next to the warehouse, and neither temp table
-  // has statistics while the file is still being read.
+  // One round trip, in the load's transaction. A changed line's prior version goes to history through the
+  // trigger fact_repair_line_keep_history (migration 0041), which costs nothing for new lines. Fault codes
+  // are written here for new lines; those of updated lines are replaced in finishJobs. The shops,
+  // technicians and parts the block's lines name are added too (a line the whole-file checks reject
+  // later may leave its technician or part behind: they exist all the same).
   const script = `
-    SET LOCAL enable_hashjoin = off;
-    SET LOCAL enable_mergejoin = off;
-    TRUNCATE touched;
     ${repeats ? `TRUNCATE blk; INSERT INTO blk SELECT DISTINCT ON (s.repair_line_key) ${cols} ${candidates} ORDER BY s.repair_line_key, s.row_no;` : ""}
-    INSERT INTO fact_repair_line_history (repair_line_key, prior_row, prior_batch_id, replaced_by_batch)
-      SELECT f.repair_line_key, to_jsonb(f), f.batch_id, ${B}
-      FROM ${src} JOIN fact_repair_line f ON f.repair_line_key = c.repair_line_key
-      WHERE f.row_hash <> c.row_hash;
     WITH up AS (
       INSERT INTO fact_repair_line AS f (${FACT_COLS.join(", ")})
       SELECT ${values} FROM ${src}
       ON CONFLICT (repair_line_key) DO UPDATE SET ${UPDATABLE.map((c) => `${c} = excluded.${c}`).join(", ")}
       WHERE f.row_hash <> excluded.row_hash
-      RETURNING f.repair_line_key, (xmax = 0) AS inserted
+      RETURNING f.repair_line_key, (xmax = 0) AS inserted, f.fault_codes_raw
+    ), codes AS (
+      ${faultCodeInsert(`SELECT repair_line_key, fault_codes_raw AS fault_codes FROM up WHERE inserted`)}
+    ), shops AS (
+      INSERT INTO dim_shop (shop_key, shop_code, name)
+      SELECT DISTINCT ON (c.shop_key) c.shop_key, c.shop_code, c.shop_code FROM ${src} WHERE c.shop_code <> ''
+      ORDER BY c.shop_key, c.row_no
+      ON CONFLICT DO NOTHING
+    ), techs AS (
+      INSERT INTO dim_technician (technician_key, shop_key, tech_id, display_name)
+      SELECT DISTINCT ON (c.technician_key) c.technician_key, c.shop_key, c.tech_id, c.tech_id FROM ${src} WHERE c.technician_key IS NOT NULL
+      ORDER BY c.technician_key, c.row_no
+      ON CONFLICT (technician_key) DO NOTHING
+    ), parts AS (
+      INSERT INTO dim_part (part_key, part_number, supplier_lot, description)
+      SELECT DISTINCT ON (c.part_key) c.part_key, c.part_number, COALESCE(c.supplier_lot, ''), c.part_description FROM ${src}
+      WHERE c.part_key IS NOT NULL ORDER BY c.part_key, c.row_no
+      ON CONFLICT (part_key) DO NOTHING
     )
-    INSERT INTO touched SELECT repair_line_key, inserted FROM up;
-    DELETE FROM fact_fault_code d USING touched t WHERE d.repair_line_key = t.key AND NOT t.inserted;
-    ${faultCodeInsert(`SELECT c.repair_line_key, c.fault_codes FROM ${src} JOIN touched t ON t.key = c.repair_line_key WHERE c.fault_codes IS NOT NULL`)};
-    SET LOCAL enable_hashjoin = on;
-    SET LOCAL enable_mergejoin = on;
-    SELECT count(*) FILTER (WHERE inserted)::int AS inserted, count(*) FILTER (WHERE NOT inserted)::int AS updated FROM touched;
+    SELECT count(*) FILTER (WHERE inserted)::int AS inserted, count(*) FILTER (WHERE NOT inserted)::int AS updated FROM up;
   `;
-  const results = (await client.query(script)) as unknown as pg.QueryResult<BlockTally>[];
-  const tally = results[results.length - 1].rows[0];
+  const results = (await client.query(script)) as unknown as pg.QueryResult<BlockTally> | pg.QueryResult<BlockTally>[];
+  const tally = (Array.isArray(results) ? results[results.length - 1] : results).rows[0];
   return { inserted: tally.inserted, updated: tally.updated };
 }
 
 /** Created once per load, before the first block. */
 export async function prepareJobs(client: pg.PoolClient): Promise<void> {
-  await client.query(`CREATE TEMP TABLE touched (key bigint PRIMARY KEY, inserted boolean NOT NULL) ON COMMIT DROP`);
   await client.query(`CREATE TEMP TABLE blk ON COMMIT DROP AS SELECT ${BLOCK_COLS.join(", ")} FROM stg WITH NO DATA`);
 }
 
@@ -120,6 +131,8 @@ async function putBack(client: pg.PoolClient, batchId: number): Promise<number> 
   const n = (await client.query<{ n: number }>(`SELECT count(*)::int AS n FROM put_back`)).rows[0].n;
   if (n === 0) return 0;
   await client.query(`DELETE FROM fact_repair_line f USING put_back p WHERE f.repair_line_key = p.key AND p.was_new`);
+  // putting a line back is not a change of its own: the history trigger stands aside
+  await client.query(`SET LOCAL ironledger.restoring_lines = 'on'`);
   await client.query(
     `UPDATE fact_repair_line f SET ${UPDATABLE.map((c) => `${c} = r.${c}`).join(", ")}
      FROM put_back p,
@@ -129,6 +142,7 @@ async function putBack(client: pg.PoolClient, batchId: number): Promise<number> 
      WHERE f.repair_line_key = p.key AND NOT p.was_new`,
     [batchId],
   );
+  await client.query(`SET LOCAL ironledger.restoring_lines = 'off'`);
   await client.query(
     `DELETE FROM fact_repair_line_history h USING put_back p WHERE h.repair_line_key = p.key AND h.replaced_by_batch = $1`,
     [batchId],
@@ -143,41 +157,35 @@ async function putBack(client: pg.PoolClient, batchId: number): Promise<number> 
 }
 
 /** Step 2: whole-file checks, putting back what they reject, dimensions, hour-meter verdicts, counts. */
-export async function finishJobs(client: pg.PoolClient, batchId: number, blocks: BlockTally): Promise<MergeCounts> {
-  await rejectDuplicates(client, ["shop_code", "ro_number", "line_no"], "shop %s repair order %s line %s", "repair_line_key");
-  await rejectUnknownMachines(client, true);
+export async function finishJobs(client: pg.PoolClient, batchId: number, blocks: BlockTally, file: FileFacts): Promise<MergeCounts> {
+  // the loader's filter knows when no key came twice: then there is nothing for the duplicate check to find
+  const duplicates = file.mayRepeatKeys
+    ? await rejectDuplicates(client, ["shop_code", "ro_number", "line_no"], "shop %s repair order %s line %s", "repair_line_key")
+    : 0;
+  const unknown = await rejectUnknownMachines(client, true);
   // before the hour checks, so that they see the warehouse's own version of a line the file contradicts
-  let putBackCount = await putBack(client, batchId);
+  let putBackCount = duplicates + unknown > 0 ? await putBack(client, batchId) : 0;
   // an RO reading's key is its line's key, so the file's own lines (already merged) are not counted twice
-  await checkHourReadings(client, {
+  const backwards = await checkHourReadings(client, {
     dateCol: "opened_date",
     hoursCol: "hour_meter",
     precomputed: { machineKey: "machine_key", readingKey: "repair_line_key" },
     batchId,
     onlyNotable: true,
   });
-  putBackCount += await putBack(client, batchId);
+  if (backwards > 0) putBackCount += await putBack(client, batchId);
 
-  // shops, technicians and parts of the accepted lines, in one pass over the staged rows
+  // fault codes of the lines this file updated (the ones with a history row of this batch): replaced whole
   await client.query(
-    `WITH d AS MATERIALIZED (
-       SELECT GROUPING(shop_key) AS by_shop, GROUPING(technician_key) AS by_tech, GROUPING(part_key) AS by_part,
-              shop_key, technician_key, part_key, min(shop_code) AS shop_code, min(shop_key) AS tech_shop_key, min(tech_id) AS tech_id,
-              min(part_number) AS part_number, COALESCE(min(supplier_lot), '') AS supplier_lot, min(part_description) AS part_description
-       FROM stg WHERE reject_code IS NULL
-       GROUP BY GROUPING SETS ((shop_key), (technician_key), (part_key))
-     ), shops AS (
-       INSERT INTO dim_shop (shop_key, shop_code, name)
-       SELECT shop_key, shop_code, shop_code FROM d WHERE by_shop = 0 AND shop_key IS NOT NULL AND shop_code <> ''
-       ON CONFLICT DO NOTHING
-     ), techs AS (
-       INSERT INTO dim_technician (technician_key, shop_key, tech_id, display_name)
-       SELECT technician_key, tech_shop_key, tech_id, tech_id FROM d WHERE by_tech = 0 AND technician_key IS NOT NULL
-       ON CONFLICT (technician_key) DO NOTHING
-     )
-     INSERT INTO dim_part (part_key, part_number, supplier_lot, description)
-     SELECT part_key, part_number, supplier_lot, part_description FROM d WHERE by_part = 0 AND part_key IS NOT NULL
-     ON CONFLICT (part_key) DO NOTHING`,
+    `CREATE TEMP TABLE updated_lines ON COMMIT DROP AS
+     SELECT DISTINCT repair_line_key AS key FROM fact_repair_line_history WHERE replaced_by_batch = $1`,
+    [batchId],
+  );
+  await client.query(`DELETE FROM fact_fault_code d USING updated_lines u WHERE d.repair_line_key = u.key`);
+  await client.query(
+    faultCodeInsert(
+      `SELECT f.repair_line_key, f.fault_codes_raw AS fault_codes FROM fact_repair_line f JOIN updated_lines u ON u.key = f.repair_line_key`,
+    ),
   );
 
   // The checks' verdict on each line's reading. A line is written with the usual verdict (generation 0,

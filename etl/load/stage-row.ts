@@ -11,7 +11,7 @@ import { transformMachine } from "../transform/machines.js";
 import { transformMeasurement } from "../transform/measurements.js";
 import { RowRejected } from "../transform/reject.js";
 import { transformWeather } from "../transform/weather.js";
-import { KeyCache, whKey } from "./keys.js";
+import { KeyCache, KeySeenFilter, whKeyWithSpare } from "./keys.js";
 import { copyValue, keyColumns, stageColumns } from "./staging.js";
 
 type Transform = (f: FieldReader, shop: string | undefined) => Record<string, unknown>;
@@ -39,16 +39,21 @@ const DATE_COLUMNS: Record<ExportKind, string[]> = {
  * Surrogate keys the loader stages with a row, in the order of keyColumns[kind] (etl/load/staging.ts):
  * the same natural-key text as the SQL merges would hash. Written into `out`, reused row after row.
  */
-const rowKeys: Partial<Record<ExportKind, (r: Record<string, unknown>, keys: KeyCache, out: (string | null)[]) => void>> = {
+type RowKeyer = (r: Record<string, unknown>, keys: KeyCache, out: (string | null)[]) => [a: number, b: number];
+
+/** The first key is the row's own (its natural key's); the two numbers returned feed the repeat filter. */
+const rowKeys: Partial<Record<ExportKind, RowKeyer>> = {
   jobs: (r, keys, out) => {
     const shop = r.shop_code as string;
-    out[0] = whKey(`repair_line|${shop}|${r.ro_number}|${r.line_no}`);
+    const [key, a, b] = whKeyWithSpare(`repair_line|${shop}|${r.ro_number}|${r.line_no}`);
+    out[0] = key;
     out[1] = keys.of("shop", shop);
     out[2] = keys.of("machine", r.serial as string);
     out[3] = keys.of("component", r.component_code as string);
     out[4] = r.failure_mode === null ? null : keys.of("failure_mode", r.failure_mode as string);
     out[5] = r.tech_id === null ? null : keys.of("technician", shop, r.tech_id as string);
     out[6] = r.part_number === null ? null : keys.of("part", r.part_number as string, (r.supplier_lot as string | null) ?? "");
+    return [a, b];
   },
 };
 
@@ -69,12 +74,13 @@ export class RowStager {
   private readonly transform: Transform;
   private readonly dateCols: string[];
   private readonly shopCol: string | undefined;
-  private readonly keyer: ((r: Record<string, unknown>, keys: KeyCache, out: (string | null)[]) => void) | undefined;
+  private readonly keyer: RowKeyer | undefined;
   private readonly keys = new KeyCache();
   private readonly keyValues: (string | null)[];
-  /** the first key of the rows staged since the last blockHadRepeats() call, and whether one came twice */
-  private blockKeys = new Set<string>();
+  /** whether a row's key may have come before in the file: in the block being filled, in the file so far */
+  private readonly seen: KeySeenFilter | null;
   private blockRepeats = false;
+  private fileRepeats = false;
   /** the staged text of a row without record: reject columns filled in, every other column \N */
   private readonly emptyTail: string;
 
@@ -92,6 +98,7 @@ export class RowStager {
     this.dateCols = DATE_COLUMNS[kind];
     this.shopCol = SHOP_COLUMN[kind];
     this.keyer = rowKeys[kind];
+    this.seen = this.keyer ? new KeySeenFilter() : null;
     this.keyValues = new Array<string | null>(keyColumns[kind]?.length ?? 0).fill(null);
     this.emptyTail = new Array(this.names.length + 1 + this.keyValues.length).fill("\\N").join("\t");
   }
@@ -128,27 +135,27 @@ export class RowStager {
     // the content hash: same natural key + same hash means nothing changed
     values.push(hash("md5", text));
     if (this.keyer) {
-      this.keyer(record, this.keys, this.keyValues);
+      const [a, b] = this.keyer(record, this.keys, this.keyValues);
       for (const k of this.keyValues) values.push(k ?? "\\N");
-      const key = this.keyValues[0];
-      if (key !== null) {
-        if (this.blockKeys.has(key)) this.blockRepeats = true;
-        else this.blockKeys.add(key);
-      }
+      if (this.seen!.add(a, b)) this.blockRepeats = this.fileRepeats = true;
     }
     values[values.length - 1] += "\n";
     return `${rec.line}\t\\N\t\\N\t\\N\t${text}\t${values.slice(this.names.length).join("\t")}`;
   }
 
   /**
-   * Whether a natural key came twice among the rows staged since the last call (the block being sealed);
-   * a block without repeats can be merged without first picking one copy per key.
+   * Whether a natural key may have come twice among the rows staged since the last call (the block being
+   * sealed); a block without repeats can be merged without first picking one copy per key.
    */
   blockHadRepeats(): boolean {
     const r = this.blockRepeats;
-    this.blockKeys = new Set();
     this.blockRepeats = false;
     return r;
+  }
+
+  /** Whether any natural key may have come twice in the file: when not, the duplicate check can be skipped. */
+  get fileHadRepeats(): boolean {
+    return this.fileRepeats || !this.keyer;
   }
 
   /** The staging line of a rejected row: its raw fields and the reason, nothing else. */

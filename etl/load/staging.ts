@@ -1,4 +1,3 @@
-import { once } from "node:events";
 import type pg from "pg";
 import { from as copyFrom } from "pg-copy-streams";
 import type { ExportKind } from "../profiles/profile-schema.js";
@@ -49,11 +48,50 @@ export function stagedColumns(kind: ExportKind): [string, string][] {
   return [...stageColumns[kind], ["row_hash", "text"], ...(keyColumns[kind] ?? []).map((k): [string, string] => [k, "bigint"])];
 }
 
-export async function createStage(client: pg.PoolClient, kind: ExportKind): Promise<void> {
-  const cols = stagedColumns(kind).map(([n, t]) => `${n} ${t}`).join(", ");
-  await client.query(
-    `CREATE TEMP TABLE stg (row_no integer PRIMARY KEY, raw text, reject_code text, reject_reason text, ${cols}) ON COMMIT DROP`,
+/**
+ * The staging table of one load. An unlogged table (never WAL-logged, like a temp table) that a connection
+ * of its own fills, block by block, with COPY in autocommit, so the database can COPY one block while the
+ * load's transaction merges the one before; the transaction sees it as the temp view `stg`. It is dropped
+ * when the load ends, however it ends. Its connection holds an advisory lock on the table's name, so a load
+ * can tell the table of a live load from one a killed process left behind, and drops only the latter.
+ */
+export class StageTable {
+  private constructor(
+    readonly name: string,
+    readonly copyClient: pg.Client,
+  ) {}
+
+  static async create(client: pg.PoolClient, copyClient: pg.Client, kind: ExportKind, batchId: number): Promise<StageTable> {
+    const name = `etl_stage_${Math.trunc(batchId)}`;
+    await sweepOrphans(copyClient);
+    await copyClient.query(`SELECT pg_advisory_lock(hashtext($1))`, [name]);
+    const cols = stagedColumns(kind).map(([n, t]) => `${n} ${t}`).join(", ");
+    await copyClient.query(`DROP TABLE IF EXISTS ${name}`);
+    await copyClient.query(`CREATE UNLOGGED TABLE ${name} (row_no integer PRIMARY KEY, raw text, reject_code text, reject_reason text, ${cols})`);
+    await client.query(`DROP VIEW IF EXISTS pg_temp.stg`);
+    await client.query(`CREATE TEMP VIEW stg AS SELECT * FROM ${name}`);
+    return new StageTable(name, copyClient);
+  }
+
+  /** Drops the view (in the load's session) and the table; never throws. */
+  async drop(client: pg.PoolClient): Promise<void> {
+    await client.query(`DROP VIEW IF EXISTS pg_temp.stg`).catch(() => undefined);
+    await this.copyClient.query(`DROP TABLE IF EXISTS ${this.name}`).catch(() => undefined);
+    await this.copyClient.query(`SELECT pg_advisory_unlock(hashtext($1))`, [this.name]).catch(() => undefined);
+  }
+}
+
+/** Staging tables whose load is gone (no session holds their lock) are dropped. */
+async function sweepOrphans(c: pg.Client): Promise<void> {
+  const r = await c.query<{ name: string }>(
+    `SELECT relname AS name FROM pg_class WHERE relkind = 'r' AND relname ~ '^etl_stage_[0-9]+$' AND relnamespace = current_schema()::regnamespace`,
   );
+  for (const { name } of r.rows) {
+    const got = await c.query<{ ok: boolean }>(`SELECT pg_try_advisory_lock(hashtext($1)) AS ok`, [name]);
+    if (!got.rows[0].ok) continue;
+    await c.query(`DROP TABLE IF EXISTS ${name}`);
+    await c.query(`SELECT pg_advisory_unlock(hashtext($1))`, [name]);
+  }
 }
 
 /** PostgreSQL COPY text format: \N for null, backslash escapes for the separators. */
@@ -79,13 +117,15 @@ export class StagePipeline {
   private rows = 0;
   private first = -1;
   private last = -1;
-  private queue: Promise<void> = Promise.resolve();
-  private queued = 0;
+  /** COPYs run one after another on the staging connection, merges one after another on the load's */
+  private copies: Promise<void> = Promise.resolve();
+  private merges: Promise<void> = Promise.resolve();
+  private inFlight = 0;
   private failure: unknown = null;
   readonly copySql: string;
 
   constructor(
-    private readonly client: pg.PoolClient,
+    private readonly stage: StageTable,
     kind: ExportKind,
     private readonly blockRows: number,
     private readonly afterBlock: (first: number, last: number, sealed: unknown) => Promise<void>,
@@ -93,7 +133,7 @@ export class StagePipeline {
     private readonly onSeal: () => unknown = () => undefined,
   ) {
     const cols = ["row_no", "raw", "reject_code", "reject_reason", ...stagedColumns(kind).map(([n]) => n)].join(", ");
-    this.copySql = `COPY stg (${cols}) FROM STDIN`;
+    this.copySql = `COPY ${stage.name} (${cols}) FROM STDIN`;
   }
 
   write(rowNo: number, line: string): Promise<void> | undefined {
@@ -110,7 +150,7 @@ export class StagePipeline {
     return undefined;
   }
 
-  /** Hands the block to the database; waits only when the block before it is still being worked on. */
+  /** Hands the block over; waits only when the block before it is not merged yet. */
   private seal(): Promise<void> | undefined {
     if (this.lines.length) this.pieces.push(this.lines.join(""));
     const pieces = this.pieces;
@@ -120,33 +160,47 @@ export class StagePipeline {
     this.lines = [];
     this.rows = 0;
     this.first = -1;
-    const waitFor = this.queued > 0 ? this.queue : undefined;
-    this.queued++;
-    this.queue = this.queue
+    const waitFor = this.inFlight > 0 ? this.merges : undefined;
+    this.inFlight++;
+    const sealedAt = Date.now();
+    let copiedAt = 0;
+    const copied = this.copies.then(async () => {
+      const t0 = Date.now();
+      await this.copy(pieces);
+      copiedAt = Date.now();
+      if (process.env.ETL_TIMINGS) process.stderr.write(`block ${first}–${last}: COPY ${copiedAt - t0} ms, ${t0 - sealedAt} ms after it was sealed\n`);
+    });
+    this.copies = copied.catch((e: unknown) => {
+      this.failure ??= e;
+    });
+    this.merges = Promise.all([this.merges, copied])
       .then(async () => {
-        await this.copy(pieces);
+        if (this.failure) return;
+        const t1 = Date.now();
         await this.afterBlock(first, last, sealed);
+        if (process.env.ETL_TIMINGS) process.stderr.write(`block ${first}–${last}: merge ${Date.now() - t1} ms, ${t1 - copiedAt} ms after its COPY\n`);
       })
       .catch((e: unknown) => {
         this.failure ??= e;
       })
       .finally(() => {
-        this.queued--;
+        this.inFlight--;
       });
     return waitFor;
   }
 
   private async copy(pieces: string[]): Promise<void> {
     if (this.failure) return;
-    const stream = this.client.query(copyFrom(this.copySql));
+    const stream = this.stage.copyClient.query(copyFrom(this.copySql));
     const done = new Promise<void>((resolve, reject) => {
       stream.on("finish", resolve);
       stream.on("error", reject);
     });
     done.catch(() => undefined);
-    for (const piece of pieces) {
-      if (!stream.write(piece)) await Promise.race([once(stream, "drain"), done]);
-    }
+    // The block is in memory already: hand it to the socket as ONE write. The COPY stream writes piece by
+    // piece and waits for the socket to drain in between, and each wait needs the reader, busy parsing the
+    // next block, to yield; a single write is pushed by the event loop alone, as fast as the server reads.
+    stream.write(pieces.join(""));
     stream.end();
     await done;
   }
@@ -154,12 +208,14 @@ export class StagePipeline {
   /** Sends the last block and waits for every block; rethrows the first database error. */
   async end(): Promise<void> {
     if (this.rows) void this.seal();
-    await this.queue;
+    await this.copies;
+    await this.merges;
     if (this.failure) throw this.failure;
   }
 
   /** Waits for the blocks already handed over, without sending the one being filled (used on errors). */
   async settle(): Promise<void> {
-    await this.queue;
+    await this.copies;
+    await this.merges;
   }
 }

@@ -79,10 +79,25 @@ describe("loadFile idempotency and atomicity", () => {
       expect(await snapshot(t.pool)).toEqual(before);
       const b = await t.pool.query(`SELECT status, error_message, rows_read FROM etl_batch WHERE file_name = 'jobs-export-1.csv'`);
       expect(b.rows).toEqual([{ status: "failed", error_message: "disk full (simulated)", rows_read: 0 }]);
+      const stages = await t.pool.query(`SELECT relname FROM pg_class WHERE relname LIKE 'etl_stage_%'`);
+      expect(stages.rows).toEqual([]);
       const retry = await loadFile(t.pool, opts("jobs-export-1.csv"));
       expect(retry).toMatchObject({ status: "loaded", inserted: 3 });
     });
   }
+
+  it("drops a staging table that a killed load left behind, and keeps the table of a live one", async () => {
+    const { default: pg } = await import("pg");
+    const live = new pg.Client({ connectionString: t.url });
+    await live.connect();
+    await live.query(`SELECT pg_advisory_lock(hashtext('etl_stage_990001'))`);
+    await live.query(`CREATE UNLOGGED TABLE etl_stage_990001 (row_no integer)`);
+    await t.pool.query(`CREATE UNLOGGED TABLE etl_stage_990002 (row_no integer)`); // nobody holds its lock
+    await loadFile(t.pool, opts("jobs-export-1.csv"));
+    const left = await t.pool.query(`SELECT relname FROM pg_class WHERE relname LIKE 'etl_stage_%' ORDER BY 1`);
+    expect(left.rows.map((r) => r.relname)).toEqual(["etl_stage_990001"]);
+    await live.end();
+  });
 
   const fatal: [string, () => Parameters<typeof loadFile>[1], string, RegExp][] = [
     ["an unreadable file", () => ({ path: fixture("no-such-file.csv"), loadedBy: "test" }), "FILE_UNREADABLE", /cannot read .*no-such-file\.csv/],
