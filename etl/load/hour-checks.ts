@@ -53,8 +53,10 @@ export async function checkHourReadings(client: pg.PoolClient, spec: ReadingSpec
       SELECT *, sum(mc::int) OVER (PARTITION BY machine_key ORDER BY d, row_no NULLS FIRST ROWS UNBOUNDED PRECEDING) AS gen
       FROM all_r
     )
-    SELECT *, max(h) OVER (PARTITION BY machine_key, gen ORDER BY d RANGE BETWEEN UNBOUNDED PRECEDING AND '1 day' PRECEDING) AS prior_max
-    FROM g`);
+    -- one sort serves both windows: (machine, generation, date) is a prefix of (…, row)
+    SELECT *, max(h) OVER (PARTITION BY machine_key, gen ORDER BY d RANGE BETWEEN UNBOUNDED PRECEDING AND '1 day' PRECEDING) AS prior_max,
+           lag(h) OVER w AS prev_h, lag(d) OVER w AS prev_d
+    FROM g WINDOW w AS (PARTITION BY machine_key, gen ORDER BY d, row_no NULLS FIRST)`);
   await client.query(`ANALYZE hr`);
 
   // the rejected readings leave hr too, so that the verdicts below are taken over the accepted ones
@@ -74,12 +76,16 @@ export async function checkHourReadings(client: pg.PoolClient, spec: ReadingSpec
     )
     DELETE FROM hr USING rej WHERE hr.row_no = rej.row_no`);
 
+  // The verdicts. Each reading is compared with the one before it among the accepted readings; hr has
+  // that already unless some reading was just rejected, and then the comparison is taken again.
+  const n = rejected.rowCount ?? 0;
+  const ordered = n === 0
+    ? `SELECT * FROM hr`
+    : `SELECT machine_key, d, h, row_no, rk, gen, lag(h) OVER w AS prev_h, lag(d) OVER w AS prev_d
+       FROM hr WINDOW w AS (PARTITION BY machine_key, gen ORDER BY d, row_no NULLS FIRST)`;
   await client.query(`
     CREATE TEMP TABLE hr_out ON COMMIT DROP AS
-    WITH l AS (
-      SELECT hr.*, lag(h) OVER w AS prev_h, lag(d) OVER w AS prev_d
-      FROM hr WINDOW w AS (PARTITION BY machine_key, gen ORDER BY d, row_no NULLS FIRST)
-    )
+    WITH l AS (${ordered})
     SELECT * FROM (SELECT row_no, rk, machine_key, gen::integer AS generation,
       NOT COALESCE(h - prev_h > ${MAX_HOURS_PER_DAY} * greatest(d - prev_d, 1), false) AS valid,
       CASE WHEN h - prev_h > ${MAX_HOURS_PER_DAY} * greatest(d - prev_d, 1)
@@ -88,5 +94,5 @@ export async function checkHourReadings(client: pg.PoolClient, spec: ReadingSpec
     ${spec.onlyNotable ? "WHERE v.generation <> 0 OR NOT v.valid" : ""}`);
   await client.query(`ALTER TABLE hr_out ADD PRIMARY KEY (row_no)`);
   await client.query(`ANALYZE hr_out`);
-  return rejected.rowCount ?? 0;
+  return n;
 }

@@ -325,7 +325,7 @@ export async function loadFile(target: pg.Pool | string, opts: LoadFileOptions):
     await opts.hooks?.afterStaging?.(client);
 
     await ensureDates(client, stager!.minDate, stager!.maxDate);
-    const merged = await merge.finish(client, batchId, blocks, { mayRepeatKeys: stager!.fileHadRepeats });
+    const merged = await merge.finish(client, batchId, blocks, { mayRepeatKeys: stager!.fileHadRepeats, members: stager!.members });
     const rej = await client.query<{ n: number; without_raw: number }>(
       `SELECT count(*)::int AS n, count(*) FILTER (WHERE raw IS NULL)::int AS without_raw FROM stg WHERE reject_code IS NOT NULL`,
     );

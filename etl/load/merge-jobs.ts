@@ -46,6 +46,14 @@ const int = (n: number) => {
 export interface FileFacts {
   /** false when no natural key can have come twice (see KeySeenFilter) */
   mayRepeatKeys: boolean;
+  /** the shops, technicians and parts its rows name (first sighting of each), or null when too many to keep */
+  members: DimensionMembers | null;
+}
+
+export interface DimensionMembers {
+  shops: { key: string; code: string }[];
+  technicians: { key: string; shopKey: string; techId: string }[];
+  parts: { key: string; number: string; lot: string; description: string | null }[];
 }
 
 export interface BlockTally {
@@ -55,7 +63,7 @@ export interface BlockTally {
 
 /** Staging columns a block carries into the fact (all but the raw row and reject columns). */
 const BLOCK_COLS = [
-  "row_no", ...FACT_COLS.filter((c) => !["fault_codes_raw", "first_batch_id", "batch_id"].includes(c)), "fault_codes", "shop_code", "tech_id",
+  "row_no", ...FACT_COLS.filter((c) => !["fault_codes_raw", "first_batch_id", "batch_id"].includes(c)), "fault_codes",
 ];
 
 /** Step 1 for staged rows first..last (row numbers); returns how many lines it inserted and updated. */
@@ -71,9 +79,7 @@ export async function jobsBlock(client: pg.PoolClient, batchId: number, first: n
   const values = FACT_COLS.map((c) => (FROM_STAGE[c] ?? `c.${c}`).replace("$B", B)).join(", ");
   // One round trip, in the load's transaction. A changed line's prior version goes to history through the
   // trigger fact_repair_line_keep_history (migration 0041), which costs nothing for new lines. Fault codes
-  // are written here for new lines; those of updated lines are replaced in finishJobs. The shops,
-  // technicians and parts the block's lines name are added too (a line the whole-file checks reject
-  // later may leave its technician or part behind: they exist all the same).
+  // are written here for new lines; those of updated lines are replaced in finishJobs.
   const script = `
     ${repeats ? `TRUNCATE blk; INSERT INTO blk SELECT DISTINCT ON (s.repair_line_key) ${cols} ${candidates} ORDER BY s.repair_line_key, s.row_no;` : ""}
     WITH up AS (
@@ -84,21 +90,6 @@ export async function jobsBlock(client: pg.PoolClient, batchId: number, first: n
       RETURNING f.repair_line_key, (xmax = 0) AS inserted, f.fault_codes_raw
     ), codes AS (
       ${faultCodeInsert(`SELECT repair_line_key, fault_codes_raw AS fault_codes FROM up WHERE inserted`)}
-    ), shops AS (
-      INSERT INTO dim_shop (shop_key, shop_code, name)
-      SELECT DISTINCT ON (c.shop_key) c.shop_key, c.shop_code, c.shop_code FROM ${src} WHERE c.shop_code <> ''
-      ORDER BY c.shop_key, c.row_no
-      ON CONFLICT DO NOTHING
-    ), techs AS (
-      INSERT INTO dim_technician (technician_key, shop_key, tech_id, display_name)
-      SELECT DISTINCT ON (c.technician_key) c.technician_key, c.shop_key, c.tech_id, c.tech_id FROM ${src} WHERE c.technician_key IS NOT NULL
-      ORDER BY c.technician_key, c.row_no
-      ON CONFLICT (technician_key) DO NOTHING
-    ), parts AS (
-      INSERT INTO dim_part (part_key, part_number, supplier_lot, description)
-      SELECT DISTINCT ON (c.part_key) c.part_key, c.part_number, COALESCE(c.supplier_lot, ''), c.part_description FROM ${src}
-      WHERE c.part_key IS NOT NULL ORDER BY c.part_key, c.row_no
-      ON CONFLICT (part_key) DO NOTHING
     )
     SELECT count(*) FILTER (WHERE inserted)::int AS inserted, count(*) FILTER (WHERE NOT inserted)::int AS updated FROM up;
   `;
@@ -187,6 +178,49 @@ export async function finishJobs(client: pg.PoolClient, batchId: number, blocks:
       `SELECT f.repair_line_key, f.fault_codes_raw AS fault_codes FROM fact_repair_line f JOIN updated_lines u ON u.key = f.repair_line_key`,
     ),
   );
+
+  // Shops, technicians and parts the file names (rows that passed the row checks; a line rejected later may
+  // leave its technician or part behind: they exist all the same). The loader collected them as it went.
+  if (file.members) {
+    const m = file.members;
+    await client.query(
+      `INSERT INTO dim_shop (shop_key, shop_code, name) SELECT k, c, c FROM unnest($1::bigint[], $2::text[]) AS t(k, c) WHERE c <> ''
+       ON CONFLICT DO NOTHING`,
+      [m.shops.map((x) => x.key), m.shops.map((x) => x.code)],
+    );
+    await client.query(
+      `INSERT INTO dim_technician (technician_key, shop_key, tech_id, display_name)
+       SELECT k, s, t, t FROM unnest($1::bigint[], $2::bigint[], $3::text[]) AS x(k, s, t) ON CONFLICT (technician_key) DO NOTHING`,
+      [m.technicians.map((x) => x.key), m.technicians.map((x) => x.shopKey), m.technicians.map((x) => x.techId)],
+    );
+    await client.query(
+      `INSERT INTO dim_part (part_key, part_number, supplier_lot, description)
+       SELECT k, n, l, d FROM unnest($1::bigint[], $2::text[], $3::text[], $4::text[]) AS x(k, n, l, d) ON CONFLICT (part_key) DO NOTHING`,
+      [m.parts.map((x) => x.key), m.parts.map((x) => x.number), m.parts.map((x) => x.lot), m.parts.map((x) => x.description)],
+    );
+  } else {
+    await client.query(
+      `WITH d AS MATERIALIZED (
+         SELECT GROUPING(shop_key) AS by_shop, GROUPING(technician_key) AS by_tech, GROUPING(part_key) AS by_part,
+                  shop_key, technician_key, part_key, min(shop_code) AS shop_code, min(shop_key) AS tech_shop_key, min(tech_id) AS tech_id,
+                  min(part_number) AS part_number, COALESCE(min(supplier_lot), '') AS supplier_lot,
+                (array_agg(part_description ORDER BY row_no))[1] AS part_description
+         FROM stg WHERE repair_line_key IS NOT NULL
+         GROUP BY GROUPING SETS ((shop_key), (technician_key), (part_key))
+       ), shops AS (
+         INSERT INTO dim_shop (shop_key, shop_code, name)
+         SELECT shop_key, shop_code, shop_code FROM d WHERE by_shop = 0 AND shop_key IS NOT NULL AND shop_code <> ''
+         ON CONFLICT DO NOTHING
+       ), techs AS (
+         INSERT INTO dim_technician (technician_key, shop_key, tech_id, display_name)
+         SELECT technician_key, tech_shop_key, tech_id, tech_id FROM d WHERE by_tech = 0 AND technician_key IS NOT NULL
+         ON CONFLICT (technician_key) DO NOTHING
+       )
+       INSERT INTO dim_part (part_key, part_number, supplier_lot, description)
+       SELECT part_key, part_number, supplier_lot, part_description FROM d WHERE by_part = 0 AND part_key IS NOT NULL
+       ON CONFLICT (part_key) DO NOTHING`,
+    );
+  }
 
   // The checks' verdict on each line's reading. A line is written with the usual verdict (generation 0,
   // valid); hr_out holds only the readings judged otherwise. So: lines with an unusual verdict get it, and

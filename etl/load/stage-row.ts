@@ -12,6 +12,7 @@ import { transformMeasurement } from "../transform/measurements.js";
 import { RowRejected } from "../transform/reject.js";
 import { transformWeather } from "../transform/weather.js";
 import { KeyCache, KeySeenFilter, whKeyWithSpare } from "./keys.js";
+import type { DimensionMembers } from "./merge-jobs.js";
 import { copyValue, keyColumns, stageColumns } from "./staging.js";
 
 type Transform = (f: FieldReader, shop: string | undefined) => Record<string, unknown>;
@@ -66,6 +67,8 @@ type Reject = { code: string; reason: string };
  * from the file (see recoverRawRows in load-file.ts). Also tracks the range of dates the file names.
  */
 export class RowStager {
+  /** how many technicians and parts a load remembers before leaving them to the merge (a test seam) */
+  static memberCap = 200_000;
   minDate: string | null = null;
   maxDate: string | null = null;
   private readonly names: string[];
@@ -81,6 +84,9 @@ export class RowStager {
   private readonly seen: KeySeenFilter | null;
   private blockRepeats = false;
   private fileRepeats = false;
+  /** shops, technicians and parts named by accepted rows, first sighting of each (jobs only) */
+  private readonly found = { shops: new Map<string, string>(), technicians: new Map<string, [string, string]>(), parts: new Map<string, [string, string, string | null]>() };
+  private foundOverflow = false;
   /** the staged text of a row without record: reject columns filled in, every other column \N */
   private readonly emptyTail: string;
 
@@ -138,6 +144,7 @@ export class RowStager {
       const [a, b] = this.keyer(record, this.keys, this.keyValues);
       for (const k of this.keyValues) values.push(k ?? "\\N");
       if (this.seen!.add(a, b)) this.blockRepeats = this.fileRepeats = true;
+      this.collectMembers(record);
     }
     values[values.length - 1] += "\n";
     return `${rec.line}\t\\N\t\\N\t\\N\t${text}\t${values.slice(this.names.length).join("\t")}`;
@@ -156,6 +163,31 @@ export class RowStager {
   /** Whether any natural key may have come twice in the file: when not, the duplicate check can be skipped. */
   get fileHadRepeats(): boolean {
     return this.fileRepeats || !this.keyer;
+  }
+
+  /** Remembers the shop, technician and part a job line names, the first time each is seen. */
+  private collectMembers(r: Record<string, unknown>): void {
+    if (this.kind !== "jobs" || this.foundOverflow) return;
+    const [shopKey, techKey, partKey] = [this.keyValues[1]!, this.keyValues[5], this.keyValues[6]];
+    const f = this.found;
+    if (!f.shops.has(shopKey)) f.shops.set(shopKey, r.shop_code as string);
+    if (techKey !== null && !f.technicians.has(techKey)) f.technicians.set(techKey, [shopKey, r.tech_id as string]);
+    if (partKey !== null && !f.parts.has(partKey)) {
+      f.parts.set(partKey, [r.part_number as string, (r.supplier_lot as string | null) ?? "", r.part_description as string | null]);
+    }
+    // a bounded memory: past this many, the merge finds them in the staged rows instead
+    if (f.technicians.size + f.parts.size > RowStager.memberCap) this.foundOverflow = true;
+  }
+
+  /** The shops, technicians and parts of the file's accepted job lines, or null when there were too many to keep. */
+  get members(): DimensionMembers | null {
+    if (this.kind !== "jobs" || this.foundOverflow) return null;
+    const f = this.found;
+    return {
+      shops: [...f.shops].map(([key, code]) => ({ key, code })),
+      technicians: [...f.technicians].map(([key, [shopKey, techId]]) => ({ key, shopKey, techId })),
+      parts: [...f.parts].map(([key, [number, lot, description]]) => ({ key, number, lot, description })),
+    };
   }
 
   /** The staging line of a rejected row: its raw fields and the reason, nothing else. */

@@ -3,6 +3,7 @@ import os from "node:os";
 import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { loadFile, type BatchSummary } from "../../etl/load/load-file.js";
+import { RowStager } from "../../etl/load/stage-row.js";
 import { freshTestDb, type TestDb } from "../helpers/test-db.js";
 import { dropTestDb, fixture, snapshot, TODAY } from "./helpers.js";
 
@@ -68,6 +69,19 @@ describe("block-by-block merging of job lines", () => {
       expect(await contents(t)).toEqual(whole.tables);
     });
   }
+
+  it("gives the same dimensions when the loader keeps no list of them and the merge finds them in the staged rows", async () => {
+    const t = await fresh();
+    const cap = RowStager.memberCap;
+    RowStager.memberCap = -1;
+    try {
+      const summaries = await loadAll(t, 2, files);
+      expect(summaries).toEqual(whole.summaries);
+      expect(await contents(t)).toEqual(whole.tables);
+    } finally {
+      RowStager.memberCap = cap;
+    }
+  });
 
   it("refuses a correction that the file contradicts and puts the line back as it was, in any block size", async () => {
     const results = [];
