@@ -51,6 +51,8 @@ export interface FileFacts {
 }
 
 export interface DimensionMembers {
+  /** machine keys the accepted rows name */
+  machines: string[];
   shops: { key: string; code: string }[];
   technicians: { key: string; shopKey: string; techId: string }[];
   parts: { key: string; number: string; lot: string; description: string | null }[];
@@ -153,7 +155,16 @@ export async function finishJobs(client: pg.PoolClient, batchId: number, blocks:
   const duplicates = file.mayRepeatKeys
     ? await rejectDuplicates(client, ["shop_code", "ro_number", "line_no"], "shop %s repair order %s line %s", "repair_line_key")
     : 0;
-  const unknown = await rejectUnknownMachines(client, true);
+  // when the loader's list of the file's machines is complete and all are known, no row can name an unknown one
+  const allKnown =
+    file.members !== null &&
+    (
+      await client.query<{ n: number }>(
+        `SELECT count(*)::int AS n FROM unnest($1::bigint[]) AS k WHERE NOT EXISTS (SELECT 1 FROM dim_machine m WHERE m.machine_key = k)`,
+        [file.members.machines],
+      )
+    ).rows[0].n === 0;
+  const unknown = allKnown ? 0 : await rejectUnknownMachines(client, true);
   // before the hour checks, so that they see the warehouse's own version of a line the file contradicts
   let putBackCount = duplicates + unknown > 0 ? await putBack(client, batchId) : 0;
   // an RO reading's key is its line's key, so the file's own lines (already merged) are not counted twice

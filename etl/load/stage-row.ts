@@ -85,7 +85,7 @@ export class RowStager {
   private blockRepeats = false;
   private fileRepeats = false;
   /** shops, technicians and parts named by accepted rows, first sighting of each (jobs only) */
-  private readonly found = { shops: new Map<string, string>(), technicians: new Map<string, [string, string]>(), parts: new Map<string, [string, string, string | null]>() };
+  private readonly found = { machines: new Set<string>(), shops: new Map<string, string>(), technicians: new Map<string, [string, string]>(), parts: new Map<string, [string, string, string | null]>() };
   private foundOverflow = false;
   /** the staged text of a row without record: reject columns filled in, every other column \N */
   private readonly emptyTail: string;
@@ -170,13 +170,14 @@ export class RowStager {
     if (this.kind !== "jobs" || this.foundOverflow) return;
     const [shopKey, techKey, partKey] = [this.keyValues[1]!, this.keyValues[5], this.keyValues[6]];
     const f = this.found;
+    f.machines.add(this.keyValues[2]!);
     if (!f.shops.has(shopKey)) f.shops.set(shopKey, r.shop_code as string);
     if (techKey !== null && !f.technicians.has(techKey)) f.technicians.set(techKey, [shopKey, r.tech_id as string]);
     if (partKey !== null && !f.parts.has(partKey)) {
       f.parts.set(partKey, [r.part_number as string, (r.supplier_lot as string | null) ?? "", r.part_description as string | null]);
     }
     // a bounded memory: past this many, the merge finds them in the staged rows instead
-    if (f.technicians.size + f.parts.size > RowStager.memberCap) this.foundOverflow = true;
+    if (f.machines.size + f.technicians.size + f.parts.size > RowStager.memberCap) this.foundOverflow = true;
   }
 
   /** The shops, technicians and parts of the file's accepted job lines, or null when there were too many to keep. */
@@ -184,6 +185,7 @@ export class RowStager {
     if (this.kind !== "jobs" || this.foundOverflow) return null;
     const f = this.found;
     return {
+      machines: [...f.machines],
       shops: [...f.shops].map(([key, code]) => ({ key, code })),
       technicians: [...f.technicians].map(([key, [shopKey, techId]]) => ({ key, shopKey, techId })),
       parts: [...f.parts].map(([key, [number, lot, description]]) => ({ key, number, lot, description })),

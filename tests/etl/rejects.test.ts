@@ -1,3 +1,6 @@
+import { mkdtempSync, readFileSync, writeFileSync } from "node:fs";
+import os from "node:os";
+import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { loadFile, type BatchSummary } from "../../etl/load/load-file.js";
 import { freshTestDb, type TestDb } from "../helpers/test-db.js";
@@ -82,6 +85,32 @@ describe("loadFile with bad rows", () => {
       [4, "negative_value", "rail voltage -3 V is negative"],
       [5, "unknown_code", `measurement kind "oil_pressure" is not in this shop's code table or Ironledger's list`],
       [6, "unknown_repair_line", "repair order R-999 line 1 of shop S4 is not in the warehouse; load the jobs export that has it first"],
+    ]);
+  });
+});
+
+describe("hour-meter checks in a warehouse without any meter change", () => {
+  let t: TestDb;
+  beforeAll(async () => {
+    t = await freshTestDb();
+    await loadFile(t.pool, { path: fixture("machines.csv"), loadedBy: "test", today: TODAY });
+  });
+  afterAll(async () => dropTestDb(t));
+
+  it("still rejects a reading below an earlier one and sets aside a rise of more than 24 h a day", async () => {
+    const header = readFileSync(fixture("jobs-bad-rows.csv"), "utf8").split("\n")[0];
+    const line = (ro: string, date: string, hours: number) =>
+      `S4,${ro},1,KT35-20001,${date},${date},${hours},,Noise,Worn,Replaced,HYD-LIN-HOSE,WEAR,,1.0,1.0,40.00,110.00,customer,failure,S4-T1,,,,,,,N,,`;
+    const file = path.join(mkdtempSync(path.join(os.tmpdir(), "etl-hours-")), "jobs.csv");
+    writeFileSync(file, [header, line("H-1", "2024-01-03", 4020), line("H-2", "2024-02-01", 3812), line("H-3", "2024-01-04", 4100)].join("\n") + "\n");
+    const s = await loadFile(t.pool, { path: file, loadedBy: "test", today: TODAY });
+    expect(s).toMatchObject({ read: 3, inserted: 2, rejected: 1 });
+    const [reject] = await rejectsOf(t.pool, s.batchId);
+    expect(reject).toMatchObject({ row_number: 3, reason_code: "hour_meter_backwards" });
+    const r = await t.pool.query(`SELECT f.ro_number, r.valid, r.meter_generation FROM fact_hour_reading r JOIN fact_repair_line f USING (repair_line_key) ORDER BY 1`);
+    expect(r.rows).toEqual([
+      { ro_number: "H-1", valid: true, meter_generation: 0 },
+      { ro_number: "H-3", valid: false, meter_generation: 0 },
     ]);
   });
 });
