@@ -102,10 +102,11 @@ export function copyValue(v: unknown): string {
 }
 
 /**
- * Feeds staging rows to PostgreSQL in blocks of `blockRows` rows. Each block is one COPY into stg,
- * followed by `afterBlock(firstRowNo, lastRowNo)` (the kind's per-block merge, or nothing). While the
- * database works on one block the caller goes on preparing the next, so reading and merging overlap;
- * at most one block waits in memory, so memory stays flat however long the file is.
+ * Feeds staging rows to PostgreSQL in blocks of `blockRows` rows. Each block is one COPY into the
+ * staging table on its own connection, then `afterBlock(firstRowNo, lastRowNo, sealed)` (the kind's
+ * per-block merge, or nothing) on the load's. While block k is merged, block k+1 is COPYed and the caller
+ * prepares block k+2, so reading, COPY and merging overlap; at most two blocks are held in memory, so
+ * memory stays flat however long the file is.
  *
  *   const w = pipe.write(rowNo, line); if (w) await w;   // a promise only when the caller must wait
  *   await pipe.end();
