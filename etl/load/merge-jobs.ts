@@ -6,14 +6,15 @@ import { rejectDuplicates, rejectUnknownMachines, type MergeCounts } from "./mer
  * Repair-order lines, merged in two steps so that reading the file and writing the warehouse overlap:
  *
  * 1. jobsBlock — while the loader reads on, each block of staged rows is merged straight into
- *    fact_repair_line (new lines inserted, changed lines updated with their prior version kept in
- *    fact_repair_line_history, fault codes replaced). Only rows that passed the row checks and name a
- *    known machine take part; the first copy of a key within the block stands for the others.
+ *    fact_repair_line (new lines inserted with their fault codes; changed lines updated, the trigger of
+ *    migration 0041 keeping the prior version in fact_repair_line_history). Only rows that passed the row
+ *    checks and name a known machine take part; the first copy of a key within the block stands for the others.
  * 2. finishJobs — once every row is staged, the checks that need the whole file run exactly as they would
  *    before any merge (duplicates within the file, hour meters against the warehouse's other readings;
  *    this file's own lines are excluded from "the warehouse" by key). Lines that these checks reject and
  *    that step 1 had already written are put back as they were (deleted if new, restored from history if
- *    updated). Then dimensions, hour readings and the counts.
+ *    updated). Then the fault codes of updated lines, the dimensions the file names, each line's
+ *    hour-meter verdict and the counts.
  *
  * The result is the same as checking the whole file first and merging afterwards; most files have no
  * line to put back, so the merge costs little more than the inserts themselves.
