@@ -1,5 +1,5 @@
 import type pg from "pg";
-import { fmtSql } from "./merge-common.js";
+import { anyNotableLine, fmtSql } from "./merge-common.js";
 
 /**
  * Hour-meter checks for the readings a file brings (jobs: one per repair-order line; hours exports).
@@ -9,7 +9,8 @@ import { fmtSql } from "./merge-common.js";
  * - A rise of more than 24 h per calendar day over the previous reading is kept but marked invalid.
  * Results land in the temp table hr_out (row_no, rk, machine_key, generation, valid, invalid_reason): every
  * accepted reading, or with `onlyNotable` only those whose verdict is not the usual one (generation 0, valid),
- * which is all a caller that stores the usual verdict by default needs.
+ * which is all a caller that stores the usual verdict by default needs; then, when no reading goes
+ * backwards, one window pass writes nothing but those few rows.
  */
 export const BACKWARDS_TOLERANCE_H = 2;
 export const MAX_HOURS_PER_DAY = 24;
@@ -24,6 +25,8 @@ export interface ReadingSpec {
   /** readings of this batch already in the warehouse (merged block by block) that are the file's own rows */
   batchId?: number;
   onlyNotable?: boolean;
+  /** whether any of the file's accepted readings notes a meter change, when the loader knows (else looked up) */
+  fileMeterChanges?: boolean;
 }
 
 /** Runs the checks; returns how many of the file's rows were rejected as going backwards. */
@@ -31,18 +34,20 @@ export async function checkHourReadings(client: pg.PoolClient, spec: ReadingSpec
   // Without a meter change among the readings involved every reading is in generation 0, and one window
   // pass does instead of two. Looked up cheaply: the file's rows, the few repair lines stored with a later
   // generation or set aside (partial index), and the small table of other readings.
-  const changes = await client.query<{ any: boolean }>(`
-    SELECT EXISTS (SELECT 1 FROM stg WHERE reject_code IS NULL AND meter_change)
-        OR EXISTS (SELECT 1 FROM fact_repair_line f WHERE (f.meter_generation <> 0 OR NOT f.hour_valid) AND f.meter_note IS NOT NULL)
-        OR EXISTS (SELECT 1 FROM fact_meter_reading r WHERE r.meter_change) AS any`);
-  const generations = changes.rows[0].any
+  const fileChanges =
+    spec.fileMeterChanges ??
+    (await client.query<{ any: boolean }>(`SELECT EXISTS (SELECT 1 FROM stg WHERE reject_code IS NULL AND meter_change) AS any`)).rows[0].any;
+  const anyChange =
+    fileChanges ||
+    (await client.query<{ any: boolean }>(`SELECT EXISTS (SELECT 1 FROM fact_meter_reading r WHERE r.meter_change) AS any`)).rows[0].any ||
+    (await anyNotableLine(client, `SELECT 1 FROM fact_repair_line f WHERE (f.meter_generation <> 0 OR NOT f.hour_valid) AND f.meter_note IS NOT NULL`));
+  const generations = anyChange
     ? `g AS (
       SELECT *, sum(mc::int) OVER (PARTITION BY machine_key ORDER BY d, row_no NULLS FIRST ROWS UNBOUNDED PRECEDING) AS gen
       FROM all_r
     )`
     : `g AS (SELECT *, 0::bigint AS gen FROM all_r)`;
-  await client.query(`
-    CREATE TEMP TABLE hr ON COMMIT DROP AS
+  const readings = `
     WITH file_r AS (
       ${
         spec.precomputed
@@ -66,7 +71,35 @@ export async function checkHourReadings(client: pg.PoolClient, spec: ReadingSpec
     -- one sort serves both windows: (machine, generation, date) is a prefix of (…, row)
     SELECT *, max(h) OVER (PARTITION BY machine_key, gen ORDER BY d RANGE BETWEEN UNBOUNDED PRECEDING AND '1 day' PRECEDING) AS prior_max,
            lag(h) OVER w AS prev_h, lag(d) OVER w AS prev_d
-    FROM g WINDOW w AS (PARTITION BY machine_key, gen ORDER BY d, row_no NULLS FIRST)`);
+    FROM g WINDOW w AS (PARTITION BY machine_key, gen ORDER BY d, row_no NULLS FIRST)`;
+  const rise = `h - prev_h > ${MAX_HOURS_PER_DAY} * greatest(d - prev_d, 1)`;
+  const verdicts = (l: string, extra = "") => `
+    SELECT ${extra}row_no, rk, machine_key, gen::integer AS generation, NOT COALESCE(${rise}, false) AS valid,
+      CASE WHEN ${rise} THEN format('rose %s h in %s day(s) since %s h on %s', ${fmtSql("h - prev_h")}, greatest(d - prev_d, 1), ${fmtSql("prev_h")}, prev_d) END AS invalid_reason
+    FROM ${l} WHERE row_no IS NOT NULL`;
+  const keyVerdicts = async () => {
+    await client.query(`ALTER TABLE hr_out ADD PRIMARY KEY (row_no)`);
+    await client.query(`ANALYZE hr_out`);
+  };
+
+  if (spec.onlyNotable) {
+    // Usually no reading goes backwards: then the verdicts come straight from the window pass and only the
+    // few unusual ones are written. If some reading does, the pass is taken again in full below, since
+    // rejecting it changes the comparisons of the readings after it.
+    await client.query(`
+      CREATE TEMP TABLE hr_out ON COMMIT DROP AS
+      SELECT * FROM (${verdicts(`(${readings}) l`, `prior_max > h + ${BACKWARDS_TOLERANCE_H} AS backwards, `)}) v
+      WHERE generation <> 0 OR NOT valid OR backwards`);
+    const any = await client.query<{ any: boolean }>(`SELECT EXISTS (SELECT 1 FROM hr_out WHERE backwards) AS any`);
+    if (!any.rows[0].any) {
+      await client.query(`ALTER TABLE hr_out DROP COLUMN backwards`);
+      await keyVerdicts();
+      return 0;
+    }
+    await client.query(`DROP TABLE hr_out`);
+  }
+
+  await client.query(`CREATE TEMP TABLE hr ON COMMIT DROP AS ${readings}`);
   await client.query(`ANALYZE hr`);
 
   // the rejected readings leave hr too, so that the verdicts below are taken over the accepted ones
@@ -95,14 +128,7 @@ export async function checkHourReadings(client: pg.PoolClient, spec: ReadingSpec
        FROM hr WINDOW w AS (PARTITION BY machine_key, gen ORDER BY d, row_no NULLS FIRST)`;
   await client.query(`
     CREATE TEMP TABLE hr_out ON COMMIT DROP AS
-    WITH l AS (${ordered})
-    SELECT * FROM (SELECT row_no, rk, machine_key, gen::integer AS generation,
-      NOT COALESCE(h - prev_h > ${MAX_HOURS_PER_DAY} * greatest(d - prev_d, 1), false) AS valid,
-      CASE WHEN h - prev_h > ${MAX_HOURS_PER_DAY} * greatest(d - prev_d, 1)
-        THEN format('rose %s h in %s day(s) since %s h on %s', ${fmtSql("h - prev_h")}, greatest(d - prev_d, 1), ${fmtSql("prev_h")}, prev_d) END AS invalid_reason
-    FROM l WHERE row_no IS NOT NULL) v
-    ${spec.onlyNotable ? "WHERE v.generation <> 0 OR NOT v.valid" : ""}`);
-  await client.query(`ALTER TABLE hr_out ADD PRIMARY KEY (row_no)`);
-  await client.query(`ANALYZE hr_out`);
+    SELECT * FROM (${verdicts(`(${ordered}) l`)}) v ${spec.onlyNotable ? "WHERE v.generation <> 0 OR NOT v.valid" : ""}`);
+  await keyVerdicts();
   return n;
 }

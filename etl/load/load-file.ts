@@ -325,12 +325,12 @@ export async function loadFile(target: pg.Pool | string, opts: LoadFileOptions):
     await opts.hooks?.afterStaging?.(client);
 
     await ensureDates(client, stager!.minDate, stager!.maxDate);
-    const merged = await merge.finish(client, batchId, blocks, { mayRepeatKeys: stager!.fileHadRepeats, members: stager!.members });
+    const merged = await merge.finish(client, batchId, blocks, { mayRepeatKeys: stager!.fileHadRepeats, members: stager!.members, meterChanges: stager!.meterChanges });
     const rej = await client.query<{ n: number; without_raw: number }>(
       `SELECT count(*)::int AS n, count(*) FILTER (WHERE raw IS NULL)::int AS without_raw FROM stg WHERE reject_code IS NOT NULL`,
     );
     if (rej.rows[0].without_raw > 0) await recoverRawRows(client, opts.path, profile, sha);
-    await storeRejects(client, batchId, header);
+    if (rej.rows[0].n > 0) await storeRejects(client, batchId, header);
     const counts = { ...merged, rejected: rej.rows[0].n };
     await client.query(
       `UPDATE etl_batch SET finished_at = now(), rows_read = $2, rows_inserted = $3, rows_updated = $4, rows_unchanged = $5,

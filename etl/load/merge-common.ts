@@ -97,6 +97,21 @@ export async function rejectUnknownMachines(client: pg.PoolClient, byKey = false
 }
 
 /** Every rejected row into etl_reject, its raw fields keyed by the file's header. */
+/**
+ * Whether a query over the few repair lines with an unusual hour-meter verdict (the partial index
+ * fact_repair_line_notable_reading_idx) finds any. Lines inserted by this very transaction have no
+ * statistics yet, and the planner then takes `meter_generation <> 0` to hold for nearly every line and
+ * reads the whole table instead of the index; the table scan is ruled out for this one query.
+ */
+export async function anyNotableLine(client: pg.PoolClient, sql: string): Promise<boolean> {
+  await client.query(`SET LOCAL enable_seqscan = off`);
+  try {
+    return (await client.query<{ any: boolean }>(`SELECT EXISTS (${sql}) AS any`)).rows[0].any;
+  } finally {
+    await client.query(`SET LOCAL enable_seqscan TO DEFAULT`);
+  }
+}
+
 export async function storeRejects(client: pg.PoolClient, batchId: number, header: string[]): Promise<void> {
   await client.query(
     `INSERT INTO etl_reject (batch_id, row_number, raw_row, reason_code, reason)

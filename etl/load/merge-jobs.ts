@@ -1,6 +1,6 @@
 import type pg from "pg";
 import { checkHourReadings } from "./hour-checks.js";
-import { rejectDuplicates, rejectUnknownMachines, type MergeCounts } from "./merge-common.js";
+import { anyNotableLine, rejectDuplicates, rejectUnknownMachines, type MergeCounts } from "./merge-common.js";
 
 /**
  * Repair-order lines, merged in two steps so that reading the file and writing the warehouse overlap:
@@ -49,6 +49,8 @@ export interface FileFacts {
   mayRepeatKeys: boolean;
   /** the shops, technicians and parts its rows name (first sighting of each), or null when too many to keep */
   members: DimensionMembers | null;
+  /** whether a row that passed the row checks notes a meter change */
+  meterChanges: boolean;
 }
 
 export interface DimensionMembers {
@@ -175,6 +177,7 @@ export async function finishJobs(client: pg.PoolClient, batchId: number, blocks:
     precomputed: { machineKey: "machine_key", readingKey: "repair_line_key" },
     batchId,
     onlyNotable: true,
+    fileMeterChanges: file.meterChanges,
   });
   if (backwards > 0) putBackCount += await putBack(client, batchId);
 
@@ -244,12 +247,16 @@ export async function finishJobs(client: pg.PoolClient, batchId: number, blocks:
      WHERE f.repair_line_key = h.rk
        AND (f.meter_generation, f.hour_valid, f.hour_invalid_reason) IS DISTINCT FROM (h.generation, h.valid, h.invalid_reason)`,
   );
-  await client.query(
-    `UPDATE fact_repair_line f SET meter_generation = 0, hour_valid = true, hour_invalid_reason = NULL
-     FROM stg s
-     WHERE (f.meter_generation <> 0 OR NOT f.hour_valid) AND f.repair_line_key = s.repair_line_key AND s.reject_code IS NULL
-       AND NOT EXISTS (SELECT 1 FROM hr_out h WHERE h.rk = f.repair_line_key)`,
-  );
+  const stale = `SELECT f.repair_line_key AS key FROM fact_repair_line f
+     WHERE (f.meter_generation <> 0 OR NOT f.hour_valid) AND NOT EXISTS (SELECT 1 FROM hr_out h WHERE h.rk = f.repair_line_key)`;
+  if (await anyNotableLine(client, stale)) {
+    await client.query(
+      `WITH stale AS MATERIALIZED (${stale})
+       UPDATE fact_repair_line f SET meter_generation = 0, hour_valid = true, hour_invalid_reason = NULL
+       FROM (SELECT DISTINCT t.key FROM stale t JOIN stg s ON s.repair_line_key = t.key WHERE s.reject_code IS NULL) x
+       WHERE f.repair_line_key = x.key`,
+    );
+  }
 
   const accepted = (await client.query<{ n: number }>(`SELECT count(*)::int AS n FROM stg WHERE reject_code IS NULL`)).rows[0].n;
   let { inserted, updated } = blocks;

@@ -69,6 +69,8 @@ type Reject = { code: string; reason: string };
 export class RowStager {
   /** how many technicians and parts a load remembers before leaving them to the merge (a test seam) */
   static memberCap = 200_000;
+  /** whether an accepted row notes a meter change (a replaced or reset hour meter) */
+  meterChanges = false;
   minDate: string | null = null;
   maxDate: string | null = null;
   private readonly names: string[];
@@ -128,6 +130,7 @@ export class RowStager {
       if (!(e instanceof RowRejected)) throw e;
       return this.rejected(rec, { code: e.code, reason: e.reason });
     }
+    if (record.meter_change === true) this.meterChanges = true;
     for (const c of this.dateCols) {
       const d = record[c] as string | null;
       if (d) {

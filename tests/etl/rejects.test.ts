@@ -97,20 +97,47 @@ describe("hour-meter checks in a warehouse without any meter change", () => {
   });
   afterAll(async () => dropTestDb(t));
 
-  it("still rejects a reading below an earlier one and sets aside a rise of more than 24 h a day", async () => {
-    const header = readFileSync(fixture("jobs-bad-rows.csv"), "utf8").split("\n")[0];
-    const line = (ro: string, date: string, hours: number) =>
-      `S4,${ro},1,KT35-20001,${date},${date},${hours},,Noise,Worn,Replaced,HYD-LIN-HOSE,WEAR,,1.0,1.0,40.00,110.00,customer,failure,S4-T1,,,,,,,N,,`;
+  const header = readFileSync(fixture("jobs-bad-rows.csv"), "utf8").split("\n")[0];
+  const line = (ro: string, date: string, hours: number, meterNote = "") =>
+    `S4,${ro},1,KT35-20001,${date},${date},${hours},${meterNote},Noise,Worn,Replaced,HYD-LIN-HOSE,WEAR,,1.0,1.0,40.00,110.00,customer,failure,S4-T1,,,,,,,N,,`;
+  const jobsFile = (lines: string[]) => {
     const file = path.join(mkdtempSync(path.join(os.tmpdir(), "etl-hours-")), "jobs.csv");
-    writeFileSync(file, [header, line("H-1", "2024-01-03", 4020), line("H-2", "2024-02-01", 3812), line("H-3", "2024-01-04", 4100)].join("\n") + "\n");
+    writeFileSync(file, [header, ...lines].join("\n") + "\n");
+    return file;
+  };
+  const verdicts = async () =>
+    (await t.pool.query(`SELECT f.ro_number, r.valid, r.meter_generation FROM fact_hour_reading r JOIN fact_repair_line f USING (repair_line_key) ORDER BY 1`)).rows;
+
+  it("still rejects a reading below an earlier one and sets aside a rise of more than 24 h a day", async () => {
+    const file = jobsFile([line("H-1", "2024-01-03", 4020), line("H-2", "2024-02-01", 3812), line("H-3", "2024-01-04", 4100)]);
     const s = await loadFile(t.pool, { path: file, loadedBy: "test", today: TODAY });
     expect(s).toMatchObject({ read: 3, inserted: 2, rejected: 1 });
     const [reject] = await rejectsOf(t.pool, s.batchId);
     expect(reject).toMatchObject({ row_number: 3, reason_code: "hour_meter_backwards" });
-    const r = await t.pool.query(`SELECT f.ro_number, r.valid, r.meter_generation FROM fact_hour_reading r JOIN fact_repair_line f USING (repair_line_key) ORDER BY 1`);
-    expect(r.rows).toEqual([
+    expect(await verdicts()).toEqual([
       { ro_number: "H-1", valid: true, meter_generation: 0 },
       { ro_number: "H-3", valid: false, meter_generation: 0 },
     ]);
+  });
+
+  it("stores the verdicts of a file in which no reading goes backwards, and gives a corrected line the usual verdict back", async () => {
+    // a rise of 100 h in one day is set aside; a replaced meter starts generation 1 even though it reads lower
+    const first = await loadFile(t.pool, {
+      path: jobsFile([line("H-4", "2024-03-01", 4200), line("H-5", "2024-03-02", 4300), line("H-6", "2024-04-01", 10, "meter replaced")]),
+      loadedBy: "test",
+      today: TODAY,
+    });
+    expect(first).toMatchObject({ read: 3, inserted: 3, rejected: 0 });
+    expect(await verdicts()).toEqual([
+      { ro_number: "H-1", valid: true, meter_generation: 0 },
+      { ro_number: "H-3", valid: false, meter_generation: 0 },
+      { ro_number: "H-4", valid: true, meter_generation: 0 },
+      { ro_number: "H-5", valid: false, meter_generation: 0 },
+      { ro_number: "H-6", valid: true, meter_generation: 1 },
+    ]);
+    // the next export corrects H-5 to a plausible reading: its line is updated and its reading is valid again
+    const second = await loadFile(t.pool, { path: jobsFile([line("H-4", "2024-03-01", 4200), line("H-5", "2024-03-02", 4210)]), loadedBy: "test", today: TODAY });
+    expect(second).toMatchObject({ read: 2, inserted: 0, updated: 1, unchanged: 1, rejected: 0 });
+    expect((await verdicts()).find((v) => v.ro_number === "H-5")).toEqual({ ro_number: "H-5", valid: true, meter_generation: 0 });
   });
 });
