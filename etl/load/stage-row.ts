@@ -13,6 +13,7 @@ import { RowRejected } from "../transform/reject.js";
 import { transformWeather } from "../transform/weather.js";
 import { KeyCache, KeySeenFilter, whKeyWithSpare } from "./keys.js";
 import type { DimensionMembers } from "./merge-jobs.js";
+import { rowBuilder, stagedText } from "./row-shape.js";
 import { copyValue, keyColumns, stageColumns } from "./staging.js";
 
 type Transform = (f: FieldReader, shop: string | undefined) => Record<string, unknown>;
@@ -74,8 +75,9 @@ export class RowStager {
   minDate: string | null = null;
   maxDate: string | null = null;
   private readonly names: string[];
-  /** [canonical column, index in the file's fields] for the columns this file has */
-  private readonly mapped: [string, number][];
+  /** a record's fields → its row object by canonical column; a record → its staged text (etl/load/row-shape.ts) */
+  private readonly buildRow: (fields: string[]) => Record<string, string | undefined>;
+  private readonly text: (record: Record<string, unknown>) => string;
   private readonly transform: Transform;
   private readonly dateCols: string[];
   private readonly shopCol: string | undefined;
@@ -101,7 +103,8 @@ export class RowStager {
   ) {
     this.names = stageColumns[kind].map(([n]) => n);
     const colIndex = mapHeader(profile, header);
-    this.mapped = (layouts[kind] as readonly string[]).flatMap((c): [string, number][] => (colIndex.has(c) ? [[c, colIndex.get(c)!]] : []));
+    this.buildRow = rowBuilder(layouts[kind], colIndex);
+    this.text = stagedText(this.names);
     this.transform = transforms[kind];
     this.dateCols = DATE_COLUMNS[kind];
     this.shopCol = SHOP_COLUMN[kind];
@@ -116,8 +119,7 @@ export class RowStager {
     if (rec.fields.length !== this.header.length) {
       return this.rejected(rec, { code: "wrong_column_count", reason: `the row has ${rec.fields.length} fields but the header has ${this.header.length}` });
     }
-    const row: Record<string, string | undefined> = {};
-    for (const [c, i] of this.mapped) row[c] = rec.fields[i];
+    const row = this.buildRow(rec.fields);
     if (this.shopCol && this.shop && !row[this.shopCol]?.trim()) row[this.shopCol] = this.shop;
     const missing = missingFields(this.kind, row);
     if (missing.length) {
@@ -138,19 +140,16 @@ export class RowStager {
         if (this.maxDate === null || d > this.maxDate) this.maxDate = d;
       }
     }
-    const values: string[] = [];
-    for (const n of this.names) values.push(copyValue(record[n]));
-    const text = values.join("\t");
+    const text = this.text(record);
     // the content hash: same natural key + same hash means nothing changed
-    values.push(hash("md5", text));
+    let tail = hash("md5", text);
     if (this.keyer) {
       const [a, b] = this.keyer(record, this.keys, this.keyValues);
-      for (const k of this.keyValues) values.push(k ?? "\\N");
+      for (const k of this.keyValues) tail += "\t" + (k ?? "\\N");
       if (this.seen!.add(a, b)) this.blockRepeats = this.fileRepeats = true;
       this.collectMembers(record);
     }
-    values[values.length - 1] += "\n";
-    return `${rec.line}\t\\N\t\\N\t\\N\t${text}\t${values.slice(this.names.length).join("\t")}`;
+    return rec.line + "\t\\N\t\\N\t\\N\t" + text + "\t" + tail + "\n";
   }
 
   /**
