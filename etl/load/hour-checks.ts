@@ -27,6 +27,13 @@ export interface ReadingSpec {
   onlyNotable?: boolean;
   /** whether any of the file's accepted readings notes a meter change, when the loader knows (else looked up) */
   fileMeterChanges?: boolean;
+  /** the machine keys of the file's readings, when the loader knows them all (else taken from the readings) */
+  machineKeys?: string[];
+  /**
+   * true when no reading of the file is stored under another batch (with `batchId`: the file has no
+   * unchanged line), so that the warehouse's readings need not be matched against the file's keys
+   */
+  noneStoredBefore?: boolean;
 }
 
 /** Runs the checks; returns how many of the file's rows were rejected as going backwards. */
@@ -63,8 +70,9 @@ export async function checkHourReadings(client: pg.PoolClient, spec: ReadingSpec
     wh_r AS (
       SELECT r.machine_key, r.reading_date AS d, r.hours AS h, r.meter_change AS mc, NULL::integer AS row_no, NULL::bigint AS rk
       FROM fact_hour_reading r
-      WHERE r.valid AND r.machine_key IN (SELECT machine_key FROM file_r)${spec.batchId === undefined ? "" : ` AND r.batch_id <> ${Number(spec.batchId)}`}
-        AND NOT EXISTS (SELECT 1 FROM file_r f WHERE f.rk = r.hour_reading_key)
+      WHERE r.valid AND ${spec.machineKeys ? `r.machine_key = ANY($1::bigint[])` : `r.machine_key IN (SELECT machine_key FROM file_r)`}
+        ${spec.batchId === undefined ? "" : `AND r.batch_id <> ${Number(spec.batchId)}`}
+        ${spec.noneStoredBefore ? "" : `AND NOT EXISTS (SELECT 1 FROM file_r f WHERE f.rk = r.hour_reading_key)`}
     ),
     all_r AS (SELECT machine_key, d, h, mc, row_no, rk FROM file_r UNION ALL SELECT machine_key, d, h, mc, row_no, rk FROM wh_r),
     ${generations}
@@ -72,6 +80,7 @@ export async function checkHourReadings(client: pg.PoolClient, spec: ReadingSpec
     SELECT *, max(h) OVER (PARTITION BY machine_key, gen ORDER BY d RANGE BETWEEN UNBOUNDED PRECEDING AND '1 day' PRECEDING) AS prior_max,
            lag(h) OVER w AS prev_h, lag(d) OVER w AS prev_d
     FROM g WINDOW w AS (PARTITION BY machine_key, gen ORDER BY d, row_no NULLS FIRST)`;
+  const params = spec.machineKeys ? [spec.machineKeys] : [];
   const rise = `h - prev_h > ${MAX_HOURS_PER_DAY} * greatest(d - prev_d, 1)`;
   const verdicts = (l: string, extra = "") => `
     SELECT ${extra}row_no, rk, machine_key, gen::integer AS generation, NOT COALESCE(${rise}, false) AS valid,
@@ -89,7 +98,7 @@ export async function checkHourReadings(client: pg.PoolClient, spec: ReadingSpec
     await client.query(`
       CREATE TEMP TABLE hr_out ON COMMIT DROP AS
       SELECT * FROM (${verdicts(`(${readings}) l`, `prior_max > h + ${BACKWARDS_TOLERANCE_H} AS backwards, `)}) v
-      WHERE generation <> 0 OR NOT valid OR backwards`);
+      WHERE generation <> 0 OR NOT valid OR backwards`, params);
     const any = await client.query<{ any: boolean }>(`SELECT EXISTS (SELECT 1 FROM hr_out WHERE backwards) AS any`);
     if (!any.rows[0].any) {
       await client.query(`ALTER TABLE hr_out DROP COLUMN backwards`);
@@ -99,7 +108,7 @@ export async function checkHourReadings(client: pg.PoolClient, spec: ReadingSpec
     await client.query(`DROP TABLE hr_out`);
   }
 
-  await client.query(`CREATE TEMP TABLE hr ON COMMIT DROP AS ${readings}`);
+  await client.query(`CREATE TEMP TABLE hr ON COMMIT DROP AS ${readings}`, params);
   await client.query(`ANALYZE hr`);
 
   // the rejected readings leave hr too, so that the verdicts below are taken over the accepted ones

@@ -170,7 +170,10 @@ export async function finishJobs(client: pg.PoolClient, batchId: number, blocks:
   const unknown = allKnown ? 0 : await rejectUnknownMachines(client, true);
   // before the hour checks, so that they see the warehouse's own version of a line the file contradicts
   let putBackCount = duplicates + unknown > 0 ? await putBack(client, batchId) : 0;
-  // an RO reading's key is its line's key, so the file's own lines (already merged) are not counted twice
+  const acceptedBeforeHours = (await client.query<{ n: number }>(`SELECT count(*)::int AS n FROM stg WHERE reject_code IS NULL`)).rows[0].n;
+  // An RO reading's key is its line's key, so the file's own lines (already merged) are not counted twice.
+  // A line of the file stored under an earlier batch is one it leaves unchanged; when every accepted line
+  // was inserted or updated, there is none, and the warehouse's readings need no matching against the file.
   const backwards = await checkHourReadings(client, {
     dateCol: "opened_date",
     hoursCol: "hour_meter",
@@ -178,6 +181,8 @@ export async function finishJobs(client: pg.PoolClient, batchId: number, blocks:
     batchId,
     onlyNotable: true,
     fileMeterChanges: file.meterChanges,
+    machineKeys: file.members?.machines,
+    noneStoredBefore: putBackCount === 0 && blocks.inserted + blocks.updated === acceptedBeforeHours,
   });
   if (backwards > 0) putBackCount += await putBack(client, batchId);
 
@@ -258,7 +263,7 @@ export async function finishJobs(client: pg.PoolClient, batchId: number, blocks:
     );
   }
 
-  const accepted = (await client.query<{ n: number }>(`SELECT count(*)::int AS n FROM stg WHERE reject_code IS NULL`)).rows[0].n;
+  const accepted = acceptedBeforeHours - backwards;
   let { inserted, updated } = blocks;
   if (putBackCount > 0) {
     // lines were put back: count from the warehouse itself
