@@ -8,6 +8,8 @@ import { Kysely, PostgresDialect } from "kysely";
 import type { Database } from "../server/db/schema.js";
 import { refreshExposure } from "../server/db/derived/refresh-exposure.js";
 import { exportKindSchema, type ExportKind } from "./profiles/profile-schema.js";
+import { readShopRegister } from "./shops/read-register.js";
+import { upsertShops } from "./shops/upsert-shops.js";
 
 // A thin shell over etl/load/load-file.ts: parse arguments, load each file, print progress and a summary.
 
@@ -85,6 +87,60 @@ program
   .option("--json", "print one JSON object per line instead of a progress bar")
   .action(async (files: string[], o) => {
     process.exitCode = await load(files, o);
+  });
+
+/** Registers the shops of a register file; nothing is written when any row is wrong. */
+async function registerShops(file: string, o: { json?: boolean }): Promise<number> {
+  let read;
+  try {
+    read = await readShopRegister(file);
+  } catch (e) {
+    process.stderr.write(`${file}: ${(e as Error).message}\n`);
+    return 1;
+  }
+  if (read.errors.length) {
+    if (o.json) process.stdout.write(JSON.stringify({ event: "error", file, errors: read.errors }) + "\n");
+    process.stderr.write(`${file}: nothing was registered; fix these and run it again:\n${read.errors.map((e) => `  ${e}`).join("\n")}\n`);
+    return 1;
+  }
+  const pool = new pg.Pool({ connectionString: defaultUrl(), max: 1 });
+  try {
+    await upsertShops(pool, read.shops);
+  } finally {
+    await pool.end();
+  }
+  if (o.json) process.stdout.write(JSON.stringify({ event: "shops_registered", file, shops: read.shops.map((s) => s.code) }) + "\n");
+  else process.stdout.write(`${file}: ${read.shops.length} shop${read.shops.length === 1 ? "" : "s"} registered (${read.shops.map((s) => s.code).join(", ")})\n`);
+  return 0;
+}
+
+async function listRegisteredShops(o: { json?: boolean }): Promise<number> {
+  const pool = new pg.Pool({ connectionString: defaultUrl(), max: 1 });
+  try {
+    const r = await pool.query<Record<string, string | number | null>>(
+      `SELECT shop_code AS code, name, region, town, lat, lon, climate_zone, time_zone, weather_station, export_profile FROM dim_shop ORDER BY shop_code`,
+    );
+    if (o.json) for (const row of r.rows) process.stdout.write(JSON.stringify(row) + "\n");
+    else for (const row of r.rows) process.stdout.write(`${row.code}\t${row.name}\t${row.climate_zone ?? "(no climate zone)"}\t${row.time_zone ?? "(no time zone)"}\n`);
+    return 0;
+  } finally {
+    await pool.end();
+  }
+}
+
+const shops = program.command("shops").description("The shop register: names, places, climate zones and time zones of the shops");
+shops
+  .command("register")
+  .argument("<file>", "register CSV (columns in docs/exports.md, \"shops\"); registers new shops and updates known ones")
+  .option("--json", "print JSON objects instead of text")
+  .action(async (file: string, o) => {
+    process.exitCode = await registerShops(file, o);
+  });
+shops
+  .command("list")
+  .option("--json", "one JSON object per shop")
+  .action(async (o) => {
+    process.exitCode = await listRegisteredShops(o);
   });
 
 await program.parseAsync(process.argv);

@@ -5,7 +5,7 @@ import type { Db } from "../db/database.js";
 import { generateDemo, type Manifest } from "../../etl/demo/generate.js";
 import { shops as demoShops } from "../../etl/demo/scenario.js";
 import { loadFile } from "../../etl/load/load-file.js";
-import { upsertShops } from "../../etl/load/shops.js";
+import { upsertShops } from "../../etl/shops/upsert-shops.js";
 import { refreshExposure } from "../db/derived/refresh-exposure.js";
 
 export interface DemoLoadSummary {

@@ -1,22 +1,6 @@
-import { execFile } from "node:child_process";
-import path from "node:path";
-import { promisify } from "node:util";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { freshTestDb, type TestDb } from "../helpers/test-db.js";
-import { dropTestDb, fixture } from "./helpers.js";
-
-const run = promisify(execFile);
-const root = path.resolve(import.meta.dirname, "../..");
-
-async function etl(url: string, args: string[]): Promise<{ code: number; stdout: string; stderr: string }> {
-  try {
-    const r = await run(process.execPath, ["--import", "tsx", "etl/cli.ts", ...args], { cwd: root, env: { ...process.env, DATABASE_URL: url } });
-    return { code: 0, ...r };
-  } catch (e) {
-    const x = e as { code: number; stdout: string; stderr: string };
-    return { code: x.code, stdout: x.stdout, stderr: x.stderr };
-  }
-}
+import { dropTestDb, fixture, runEtlCli } from "./helpers.js";
 
 describe("npm run etl -- load", () => {
   let t: TestDb;
@@ -26,7 +10,7 @@ describe("npm run etl -- load", () => {
   afterAll(async () => dropTestDb(t));
 
   it("prints one JSON object per line with a final summary per file when given --json", async () => {
-    const r = await etl(t.url, ["load", "--json", fixture("machines.csv")]);
+    const r = await runEtlCli(t.url, ["load", "--json", fixture("machines.csv")]);
     expect(r.code).toBe(0);
     const lines = r.stdout.trim().split("\n").map((l) => JSON.parse(l));
     const summary = lines.filter((l) => l.event === "summary").at(-1);
@@ -35,7 +19,7 @@ describe("npm run etl -- load", () => {
   });
 
   it("exits non-zero with a one-line message and loads nothing when the profile is unknown", async () => {
-    const r = await etl(t.url, ["load", "--profile", "no-such-profile", fixture("jobs-export-1.csv")]);
+    const r = await runEtlCli(t.url, ["load", "--profile", "no-such-profile", fixture("jobs-export-1.csv")]);
     expect(r.code).not.toBe(0);
     expect(r.stderr.trim().split("\n")).toHaveLength(1);
     expect(r.stderr).toMatch(/unknown profile "no-such-profile"/);

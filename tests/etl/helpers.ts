@@ -1,10 +1,26 @@
+import { execFile } from "node:child_process";
 import path from "node:path";
 import { fileURLToPath } from "node:url";
+import { promisify } from "node:util";
 import type pg from "pg";
 
 const here = path.dirname(fileURLToPath(import.meta.url));
 export const fixture = (name: string) => path.join(here, "fixtures", name);
 export const sample = (name: string) => path.resolve(here, "../../etl/samples", name);
+
+/** Runs the ETL CLI (`npm run etl -- …`) against the database at `url`; never throws, returns its exit code and output. */
+export async function runEtlCli(url: string, args: string[]): Promise<{ code: number; stdout: string; stderr: string }> {
+  try {
+    const r = await promisify(execFile)(process.execPath, ["--import", "tsx", "etl/cli.ts", ...args], {
+      cwd: path.resolve(here, "../.."),
+      env: { ...process.env, DATABASE_URL: url },
+    });
+    return { code: 0, ...r };
+  } catch (e) {
+    const x = e as { code: number; stdout: string; stderr: string };
+    return { code: x.code, stdout: x.stdout, stderr: x.stderr };
+  }
+}
 
 /** A fixed "today" so the fixtures' dates stay in the past and 2052/2099 stay in the future. */
 export const TODAY = "2025-06-30";
