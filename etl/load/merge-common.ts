@@ -96,7 +96,6 @@ export async function rejectUnknownMachines(client: pg.PoolClient, byKey = false
   return r.rowCount ?? 0;
 }
 
-/** Every rejected row into etl_reject, its raw fields keyed by the file's header. */
 /**
  * Whether a query over the few repair lines with an unusual hour-meter verdict (the partial index
  * fact_repair_line_notable_reading_idx) finds any. Lines inserted by this very transaction have no
@@ -112,6 +111,7 @@ export async function anyNotableLine(client: pg.PoolClient, sql: string): Promis
   }
 }
 
+/** Every rejected row into etl_reject, its raw fields keyed by the file's header. */
 export async function storeRejects(client: pg.PoolClient, batchId: number, header: string[]): Promise<void> {
   await client.query(
     `INSERT INTO etl_reject (batch_id, row_number, raw_row, reason_code, reason)
