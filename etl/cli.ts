@@ -106,6 +106,9 @@ async function registerShops(file: string, o: { json?: boolean }): Promise<numbe
   const pool = new pg.Pool({ connectionString: defaultUrl(), max: 1 });
   try {
     await upsertShops(pool, read.shops);
+  } catch (e) {
+    process.stderr.write(`${file}: nothing was registered: ${(e as Error).message}\n`);
+    return 1;
   } finally {
     await pool.end();
   }
@@ -123,6 +126,9 @@ async function listRegisteredShops(o: { json?: boolean }): Promise<number> {
     if (o.json) for (const row of r.rows) process.stdout.write(JSON.stringify(row) + "\n");
     else for (const row of r.rows) process.stdout.write(`${row.code}\t${row.name}\t${row.climate_zone ?? "(no climate zone)"}\t${row.time_zone ?? "(no time zone)"}\n`);
     return 0;
+  } catch (e) {
+    process.stderr.write(`cannot list the shops: ${(e as Error).message}\n`);
+    return 1;
   } finally {
     await pool.end();
   }
