@@ -10,7 +10,7 @@ import { once } from "node:events";
 import { pipeline } from "node:stream/promises";
 import { Command } from "commander";
 import pg from "pg";
-import { from as copyFrom, to as copyTo } from "pg-copy-streams";
+import * as copyStreams from "pg-copy-streams";
 import { layouts } from "../etl/layouts.js";
 import { loadFile } from "../etl/load/load-file.js";
 import { createDb } from "../server/db/database.js";
@@ -114,11 +114,11 @@ async function main(): Promise<void> {
     let rawSeconds: number;
     let rawRows: number;
     try {
-      await pipeline(client.query(copyTo(`COPY (SELECT ${cols} FROM fact_repair_line) TO STDOUT`)), createWriteStream(rawFile));
+      await pipeline(client.query(copyStreams.to(`COPY (SELECT ${cols} FROM fact_repair_line) TO STDOUT`)), createWriteStream(rawFile));
       await client.query(`CREATE TABLE bench_raw_repair_line (LIKE fact_repair_line INCLUDING ALL)`);
       process.stderr.write("loading the normalised rows with plain COPY…\n");
       const t0 = process.hrtime.bigint();
-      const stream = client.query(copyFrom(`COPY bench_raw_repair_line (${cols}) FROM STDIN`));
+      const stream = client.query(copyStreams.from(`COPY bench_raw_repair_line (${cols}) FROM STDIN`));
       await pipeline(createReadStream(rawFile, { highWaterMark: 1 << 16 }), stream);
       rawSeconds = Number(process.hrtime.bigint() - t0) / 1e9;
       rawRows = Number(stream.rowCount);

@@ -12,6 +12,8 @@ trap cleanup EXIT INT TERM
 PG_EXTRA_OPTS="-c fsync=off -c synchronous_commit=off -c full_page_writes=off" bash scripts/pg.sh start "$TEST_DIR" "$TEST_PGPORT"
 export TEST_PG_URL="postgres://postgres@127.0.0.1:$TEST_PGPORT/postgres"
 
+echo "Checking import boundaries…" >&2
+bash scripts/check-boundaries.sh
 echo "Type-checking…" >&2
 npx tsc --noEmit -p tsconfig.json
 echo "Building the client…" >&2

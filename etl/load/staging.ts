@@ -1,5 +1,6 @@
 import type pg from "pg";
-import { from as copyFrom } from "pg-copy-streams";
+// A namespace import: the boundary checker misreads "import { from as … }".
+import * as copyStreams from "pg-copy-streams";
 import type { ExportKind } from "../profiles/profile-schema.js";
 
 /**
@@ -192,7 +193,7 @@ export class StagePipeline {
 
   private async copy(pieces: string[]): Promise<void> {
     if (this.failure) return;
-    const stream = this.stage.copyClient.query(copyFrom(this.copySql));
+    const stream = this.stage.copyClient.query(copyStreams.from(this.copySql));
     const done = new Promise<void>((resolve, reject) => {
       stream.on("finish", resolve);
       stream.on("error", reject);

@@ -4,11 +4,10 @@ import type { Db } from "../db/database.js";
 import { HttpError } from "../errors.js";
 import type { ClusterDetail } from "../../shared/schemas/analytics-clusters.js";
 import { hourBands, temperatureBands } from "../../shared/bands.js";
-import { findClusters, toCluster } from "../services/cluster-finder.js";
+import { clusterCaution, clusterMethod, findClusters, toCluster } from "../services/cluster-finder.js";
 import { clusterLineFacts, failureBandCounts } from "../db/queries/cluster-detail.js";
 import { listRepairs } from "../db/queries/repairs.js";
-import { ANALYTICS_ROLES } from "./analytics-rates.js";
-import { clusterCaution, clusterMethod } from "./analytics-clusters.js";
+import { analyticsRoles } from "../../shared/roles.js";
 
 /** Counts per band in the bands' order (unknown last), the cluster's beside everyone else's. */
 function profile(ids: readonly string[], inCluster: Map<string, number>, all: Map<string, number>): ClusterDetail["hourProfile"] {
@@ -31,7 +30,7 @@ const tally = <T,>(items: T[], key: (t: T) => string, n: (t: T) => number = () =
  */
 export function clusterDetailRoutes(db: Db): Router {
   const router = Router();
-  router.get("/:id", allow(...ANALYTICS_ROLES), async (req, res) => {
+  router.get("/:id", allow(...analyticsRoles), async (req, res) => {
     const scope = requireScope(req);
     const found = await findClusters(db, scope, req.query);
     const signal = found.scan.signals.find((s) => toCluster(found.components, s).id === req.params.id);

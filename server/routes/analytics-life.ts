@@ -16,7 +16,7 @@ import { compareWeibull, fitWeibull, weibullPlotPoints, type WeibullFit, type We
 import { weibullLine } from "../analytics/weibull-band.js";
 import { kaplanMeier, logRankTest } from "../analytics/kaplan-meier.js";
 import { meanCumulativeFunction, mcfSlope } from "../analytics/mcf.js";
-import { ANALYTICS_ROLES } from "./analytics-rates.js";
+import { analyticsRoles } from "../../shared/roles.js";
 import { ResultCache } from "../services/result-cache.js";
 import { dataVersion } from "../db/queries/data-version.js";
 
@@ -56,7 +56,7 @@ const thin = <T,>(rows: T[], max: number): T[] => (rows.length <= max ? rows : r
 
 export function analyticsLifeRoutes(db: Db): Router {
   const router = Router();
-  router.use(allow(...ANALYTICS_ROLES));
+  router.use(allow(...analyticsRoles));
   // Fits and curves change only when the warehouse does: cache each answer per request and data version.
   const cache = new ResultCache<unknown>(200);
   const cached = async <T,>(req: Request, compute: () => Promise<T>): Promise<T> =>

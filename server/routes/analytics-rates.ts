@@ -14,8 +14,8 @@ import { poissonRate, type RateEstimate } from "../analytics/poisson.js";
 import { uChart } from "../analytics/control-chart.js";
 import { hourBands, temperatureBands } from "../../shared/bands.js";
 import { components } from "../../shared/catalog.js";
+import { analyticsRoles } from "../../shared/roles.js";
 
-export const ANALYTICS_ROLES = ["analyst", "director", "manager", "clerk", "admin"] as const;
 
 const rate = (r: RateEstimate | null): Rate | null =>
   r ? { rate: r.rate, lower: r.lower, upper: r.upper, per: r.per, level: r.level } : null;
@@ -28,7 +28,7 @@ function inBandOrder<T extends { band: string }>(ids: readonly string[], rows: T
 
 export function analyticsRateRoutes(db: Db): Router {
   const router = Router();
-  router.use(allow(...ANALYTICS_ROLES));
+  router.use(allow(...analyticsRoles));
 
   router.get("/hour-bands", async (req, res) => {
     const f = analyticsFiltersSchema.parse(req.query);

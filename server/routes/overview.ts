@@ -9,7 +9,7 @@ import { lastExposureMonth, latestLoads, machinesNeedingAttention, recordVisit, 
 import { listShops } from "../db/queries/shops.js";
 import { poissonRate } from "../analytics/poisson.js";
 import { COLD_START_AIDS, findClusters, toCluster } from "../services/cluster-finder.js";
-import { ANALYTICS_ROLES } from "./analytics-rates.js";
+import { analyticsRoles } from "../../shared/roles.js";
 
 /** 'YYYY-MM' shifted by n months. */
 export function addMonths(ym: string, n: number): string {
@@ -74,7 +74,7 @@ function loadsByShop(rows: LoadRow[], names: Map<string, string>): Overview["loa
 /** GET /api/overview: what changed since the last load and the last visit. */
 export function overviewRoutes(db: Db): Router {
   const router = Router();
-  router.get("/", allow(...ANALYTICS_ROLES), async (req, res) => {
+  router.get("/", allow(...analyticsRoles), async (req, res) => {
     const scope = requireScope(req);
     const user = requireUser(req);
     const [loads, shops, head, found, attention] = await Promise.all([

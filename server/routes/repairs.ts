@@ -7,7 +7,7 @@ import { HttpError } from "../errors.js";
 import { analyticsFiltersSchema } from "../../shared/schemas/analytics-filters.js";
 import { repairCsvColumns, repairListQuerySchema, type RepairList } from "../../shared/schemas/repairs.js";
 import { eachRepairBatch, getRepair, listRepairs, type RepairFilter } from "../db/queries/repairs.js";
-import { ANALYTICS_ROLES } from "./analytics-rates.js";
+import { analyticsRoles } from "../../shared/roles.js";
 
 function parse(req: Request) {
   const filters = analyticsFiltersSchema.parse(req.query);
@@ -25,7 +25,7 @@ export const neutraliseCell = (s: string) => (/^[=+\-@\t\r]/.test(s) && !/^-?\d+
 /** GET /api/repairs (a page) and GET /api/repairs/:id (one line in full). */
 export function repairRoutes(db: Db): Router {
   const router = Router();
-  router.use(allow(...ANALYTICS_ROLES));
+  router.use(allow(...analyticsRoles));
 
   router.get("/", async (req, res) => {
     const { filter, list } = parse(req);
@@ -47,7 +47,7 @@ export function repairRoutes(db: Db): Router {
 /** GET /api/repairs.csv: every line the same filter matches, in list order, streamed. */
 export function repairCsvRoutes(db: Db): Router {
   const router = Router();
-  router.get("/", allow(...ANALYTICS_ROLES), async (req, res) => {
+  router.get("/", allow(...analyticsRoles), async (req, res) => {
     const { filter, list } = parse(req);
     const csv = stringify({
       header: true,

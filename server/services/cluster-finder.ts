@@ -11,6 +11,14 @@ import { dataVersion } from "../db/queries/data-version.js";
 import { components } from "../../shared/catalog.js";
 import { hourBandLabel, temperatureBandLabel } from "../../shared/bands.js";
 
+export const clusterMethod = (standardise: "hour" | "hour+temperature") =>
+  standardise === "hour+temperature"
+    ? "Expected failures from the scanned group's own rates per engine hour in each hour band × temperature band (indirect standardisation), so cold weather alone is not a cluster; one-sided exact Poisson p-value per cell, Benjamini–Hochberg q over all cells tested."
+    : "Expected failures from the scanned group's own rates per engine hour in each hour band (indirect standardisation); one-sided exact Poisson p-value per cell, Benjamini–Hochberg q over all cells tested.";
+
+export const clusterCaution =
+  "A cluster is an association in the data, a place to look: confirm it against the repair lines and the parts before acting on it.";
+
 export const COLD_START_AIDS = components.filter((c) => c.coldStartAid).map((c) => c.code);
 
 function subjectFor(codes: string[]): string {

@@ -5,8 +5,7 @@ import type { ClaimCandidate, ClaimDetail, ClaimPreview, ClaimSend, ClaimSummary
 import { safetyCautions } from "../../shared/measurement-interpretation.js";
 import { HttpError, notFound } from "../errors.js";
 import type { Storage } from "../services/storage.js";
-import { findClusters, toCluster } from "../services/cluster-finder.js";
-import { clusterCaution, clusterMethod } from "../routes/analytics-clusters.js";
+import { clusterCaution, clusterMethod, findClusters, toCluster } from "../services/cluster-finder.js";
 import {
   claimAttachments, claimAudit, claimLineKeys, claimSends, claimsHoldingLines, getClaim, insertClaim, listClaims, policyFor,
   hourTrail, repairLinesByKeys, unclaimedCandidateKeys, type Actor,
