@@ -5,8 +5,8 @@ import pg from "pg";
 import { EtlFatalError } from "./errors.js";
 import { loadFile, type BatchSummary, type LoadProgress } from "./load/load-file.js";
 import { Kysely, PostgresDialect } from "kysely";
-import type { Database } from "../server/db/schema.js";
-import { refreshExposure } from "../server/db/derived/refresh-exposure.js";
+import { refreshExposure } from "./derived/refresh-exposure.js";
+import { etlPoolConfig } from "./load/timed-client.js";
 import { exportKindSchema, type ExportKind } from "./profiles/profile-schema.js";
 import { readShopRegister } from "./shops/read-register.js";
 import { upsertShops } from "./shops/upsert-shops.js";
@@ -27,7 +27,7 @@ function summaryLine(s: BatchSummary): string {
 }
 
 async function load(files: string[], o: { kind?: ExportKind; profile?: string; shop?: string; json?: boolean }): Promise<number> {
-  const pool = new pg.Pool({ connectionString: defaultUrl(), max: 2 });
+  const pool = new pg.Pool(etlPoolConfig(defaultUrl(), 2));
   const tty = !o.json && process.stderr.isTTY;
   const loadedBy = `cli:${os.userInfo().username}`;
   let changed = false;
@@ -67,7 +67,8 @@ async function load(files: string[], o: { kind?: ExportKind; profile?: string; s
     return 0;
   } finally {
     // The analytics read exposure from a derived table: rebuild it once after the files that changed something.
-    const db = new Kysely<Database>({ dialect: new PostgresDialect({ pool }) });
+    // Kysely<any>: the ETL writes raw SQL and does not import the server's schema types.
+    const db = new Kysely<any>({ dialect: new PostgresDialect({ pool }) });
     if (changed) {
       const r = await refreshExposure(db);
       if (o.json) process.stdout.write(JSON.stringify({ event: "exposure_rebuilt", rows: r.rows, seconds: r.seconds }) + "\n");

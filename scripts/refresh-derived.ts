@@ -1,6 +1,6 @@
 import { loadConfig } from "../server/config.js";
 import { createDb } from "../server/db/database.js";
-import { refreshExposure } from "../server/db/derived/refresh-exposure.js";
+import { refreshExposure } from "../etl/index.js";
 
 const { db } = createDb(loadConfig().databaseUrl);
 try {

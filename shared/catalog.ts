@@ -12,6 +12,9 @@ export interface ComponentDef {
   coldStartAid?: boolean;
 }
 
+/** The heater-plug set: the part the exposure aggregate tracks by fitted lot. */
+export const HEATER_PLUG = "ENG-CSA-HPLUG";
+
 export const components: readonly ComponentDef[] = [
   { code: "ENG-CSA-HPLUG", name: "Heater-plug set", system: "Engine", assembly: "Cold-start aid", coldStartAid: true },
   { code: "ENG-CSA-GRID", name: "Intake grid heater", system: "Engine", assembly: "Cold-start aid", coldStartAid: true },

@@ -1,4 +1,5 @@
 /** Calendar arithmetic on whole UTC days (days since 1970-01-01), the demo world's time step. */
+import { addMonths as addIsoMonths } from "../../shared/dates.js";
 
 const MS_PER_DAY = 86_400_000;
 
@@ -27,11 +28,7 @@ export function dayOfYear(day: number): number {
 
 /** The same calendar day `months` later (clamped to the month's end), as warranty terms count months. */
 export function addMonths(day: number, months: number): number {
-  const d = new Date(day * MS_PER_DAY);
-  const target = new Date(Date.UTC(d.getUTCFullYear(), d.getUTCMonth() + months, 1));
-  const lastDay = new Date(Date.UTC(target.getUTCFullYear(), target.getUTCMonth() + 1, 0)).getUTCDate();
-  target.setUTCDate(Math.min(d.getUTCDate(), lastDay));
-  return Math.round(target.getTime() / MS_PER_DAY);
+  return dayOf(addIsoMonths(isoOf(day), months));
 }
 
 /** December, January and February. */

@@ -4,7 +4,8 @@
  *
  *   loadFile(pool: pg.Pool | string, options: LoadFileOptions): Promise<BatchSummary>
  *
- * - `pool` is a pg.Pool (e.g. the one createDb returns) or a connection string; one client is used per file.
+ * - `pool` is a pg.Pool (e.g. the one createDb returns) or a connection string. A load takes two of the pool's
+ *   connections: one for its transaction, one that fills the staging table by COPY (so a pool needs max ≥ 2).
  * - options: { path, kind?, profile?, shop?, loadedBy, onProgress?, today?, blockRows?, hooks? }. Without `profile` the
  *   profile is detected from the header (among profiles of `kind`, when given). `shop` fills the shop column
  *   of single-shop exports that have none.
@@ -38,6 +39,7 @@ import { finishJobs, jobsBlock, prepareJobs, type BlockTally, type FileFacts } f
 import { mergeHours, mergeMachines, mergeMeasurements, mergeWeather } from "./merge-others.js";
 import { RowStager } from "./stage-row.js";
 import { StagePipeline, StageTable } from "./staging.js";
+import { etlPoolConfig } from "./timed-client.js";
 
 export interface LoadProgress {
   phase: "reading" | "merging" | "done";
@@ -153,22 +155,6 @@ function utcToday(): string {
   return new Date().toISOString().slice(0, 10);
 }
 
-/** ETL_TIMINGS=1 prints each statement's duration to stderr (for tuning; off by default). */
-const traced = new WeakSet<pg.PoolClient>();
-function traceQueries(client: pg.PoolClient): void {
-  if (traced.has(client)) return; // a pooled client is wrapped once
-  traced.add(client);
-  const original = client.query.bind(client) as (...a: unknown[]) => unknown;
-  (client as unknown as { query: (...a: unknown[]) => unknown }).query = (...args: unknown[]) => {
-    const t0 = Date.now();
-    const r = original(...args);
-    if (r instanceof Promise) {
-      void r.then(() => process.stderr.write(`${Date.now() - t0} ms  ${String(args[0]).replace(/\s+/g, " ").slice(0, 90)}\n`), () => undefined);
-    }
-    return r;
-  };
-}
-
 /**
  * Rows rejected by a whole-file check (a duplicate, an unknown machine, an hour meter going backwards) were
  * staged without their raw fields, as every accepted row is. Reads the file once more and fills them in,
@@ -230,14 +216,14 @@ export async function loadFile(target: pg.Pool | string, opts: LoadFileOptions):
   } catch (e) {
     throw new EtlFatalError("FILE_UNREADABLE", `cannot read ${opts.path}: ${(e as Error).message}`);
   }
-  const pool = typeof target === "string" ? new pg.Pool({ connectionString: target, max: 1 }) : target;
+  const pool = typeof target === "string" ? new pg.Pool(etlPoolConfig(target, 2)) : target;
   if (typeof target === "string") pool.on("error", () => {}); // an idle client closed by the server is simply dropped
   const client = await pool.connect();
-  // the staging table's own connection (see StageTable): a new one, since the pool may allow only one
-  const copyClient = new pg.Client((pool as unknown as { options: pg.ClientConfig }).options);
-  copyClient.on("error", () => {}); // a dropped connection surfaces as the failing COPY
+  // the staging table's own connection (see StageTable), taken from the same pool once the batch is recorded
+  let copyClient: pg.PoolClient | null = null;
+  const ignoreCopyError = () => {}; // a dropped connection surfaces as the failing COPY
+  let failed = false;
   let stage: StageTable | null = null;
-  if (process.env.ETL_TIMINGS) traceQueries(client);
   const startedAt = new Date();
   try {
     await client.query("BEGIN");
@@ -272,7 +258,8 @@ export async function loadFile(target: pg.Pool | string, opts: LoadFileOptions):
     );
     const batchId = Number(ins.rows[0].batch_id);
     await seedReference(client);
-    await copyClient.connect();
+    copyClient = await pool.connect();
+    copyClient.on("error", ignoreCopyError);
     stage = await StageTable.create(client, copyClient, kind, batchId);
     const merge = merges[kind];
     await merge.prepare?.(client);
@@ -354,6 +341,7 @@ export async function loadFile(target: pg.Pool | string, opts: LoadFileOptions):
       durationMs: Date.now() - started,
     };
   } catch (e) {
+    failed = true;
     await client.query("ROLLBACK").catch(() => undefined);
     if (!(e instanceof EtlFatalError)) {
       await client
@@ -367,7 +355,8 @@ export async function loadFile(target: pg.Pool | string, opts: LoadFileOptions):
     throw e;
   } finally {
     await stage?.drop(client);
-    await copyClient.end().catch(() => undefined);
+    copyClient?.off("error", ignoreCopyError);
+    copyClient?.release(failed); // a failed load's COPY connection may be mid-stream: discard it
     client.release();
     if (typeof target === "string") await pool.end();
   }

@@ -59,10 +59,10 @@ export function stagedColumns(kind: ExportKind): [string, string][] {
 export class StageTable {
   private constructor(
     readonly name: string,
-    readonly copyClient: pg.Client,
+    readonly copyClient: pg.PoolClient,
   ) {}
 
-  static async create(client: pg.PoolClient, copyClient: pg.Client, kind: ExportKind, batchId: number): Promise<StageTable> {
+  static async create(client: pg.PoolClient, copyClient: pg.PoolClient, kind: ExportKind, batchId: number): Promise<StageTable> {
     const name = `etl_stage_${Math.trunc(batchId)}`;
     await sweepOrphans(copyClient);
     await copyClient.query(`SELECT pg_advisory_lock(hashtext($1))`, [name]);

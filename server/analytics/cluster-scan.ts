@@ -1,5 +1,6 @@
 import { benjaminiHochberg } from "./fdr.js";
 import { poissonExcessPValue, standardisedRatio, type StandardisedRatio } from "./poisson.js";
+import { monthIndex } from "../../shared/dates.js";
 
 /** Marks a dimension that a cell does not restrict. */
 export const ALL = "all";
@@ -83,12 +84,6 @@ export interface ClusterScanOptions {
   level?: number;
   labels?: DimensionLabels;
 }
-
-const monthIndex = (ym: string): number => {
-  const match = /^(\d{4})-(\d{2})$/.exec(ym);
-  if (!match) throw new RangeError(`build month must be "YYYY-MM", got ${ym}`);
-  return Number(match[1]) * 12 + Number(match[2]) - 1;
-};
 
 const SCALAR_DIMENSIONS = ["engineFamily", "supplierLot", "shop", "temperatureBand", "hourBand"] as const;
 

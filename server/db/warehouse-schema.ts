@@ -154,7 +154,8 @@ export interface FactRepairLineTable {
   parts_cost: NullableNumeric;
   labor_cost: NullableNumeric;
   pay_type: "customer" | "warranty" | "internal" | "goodwill";
-  is_warranty: Computed<boolean>;
+  /** null when the pay type is unknown */
+  is_warranty: Computed<boolean | null>;
   line_type: "failure" | "pm" | "return_for_parts" | "install";
   part_number: string | null;
   part_description: string | null;
@@ -247,7 +248,45 @@ export interface FactWeatherDayTable {
   batch_id: Bigint;
 }
 
+/** Derived: machine-days and engine hours per cohort × shop × month × band (etl/derived/refresh-exposure.ts). */
+export interface AggExposureTable {
+  engine_family: string;
+  model_line: string;
+  build_month: string;
+  lot: string;
+  shop_key: Bigint;
+  month: string;
+  temp_band: string;
+  hour_band: string;
+  machines: number;
+  machine_days: number;
+  engine_hours: number;
+}
+
+/** agg_exposure without build month, lot and machine count. */
+export type AggExposureFleetTable = Omit<AggExposureTable, "build_month" | "lot" | "machines">;
+
+/** When each derived table was last rebuilt, and from which batch. */
+export interface AggRefreshTable {
+  name: string;
+  refreshed_at: Date;
+  last_batch: NullableBigint;
+  rows: number;
+  seconds: number;
+}
+
+/** View: interpolated engine hours per machine and reading date, continuous across meter generations. */
+export interface VEngineHoursView {
+  machine_key: Bigint;
+  reading_date: string;
+  engine_hours: number;
+}
+
 export interface WarehouseTables {
+  agg_exposure: AggExposureTable;
+  agg_exposure_fleet: AggExposureFleetTable;
+  agg_refresh: AggRefreshTable;
+  v_engine_hours: VEngineHoursView;
   etl_batch: EtlBatchTable;
   etl_reject: EtlRejectTable;
   dim_date: DimDateTable;

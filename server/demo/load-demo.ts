@@ -2,11 +2,7 @@ import path from "node:path";
 import { existsSync, readFileSync } from "node:fs";
 import type pg from "pg";
 import type { Db } from "../db/database.js";
-import { generateDemo, type Manifest } from "../../etl/demo/generate.js";
-import { shops as demoShops } from "../../etl/demo/scenario.js";
-import { loadFile } from "../../etl/load/load-file.js";
-import { upsertShops } from "../../etl/shops/upsert-shops.js";
-import { refreshExposure } from "../db/derived/refresh-exposure.js";
+import { demoShops, generateDemo, loadFile, refreshExposure, upsertShops, type Manifest } from "../../etl/index.js";
 
 export interface DemoLoadSummary {
   files: number;

@@ -8,15 +8,9 @@ import { countsByMonth } from "../db/queries/analytics-rates.js";
 import { lastExposureMonth, latestLoads, machinesNeedingAttention, recordVisit, type LoadRow } from "../db/queries/overview.js";
 import { listShops } from "../db/queries/shops.js";
 import { poissonRate } from "../analytics/poisson.js";
+import { addMonthsToMonth } from "../../shared/dates.js";
 import { COLD_START_AIDS, findClusters, toCluster } from "../services/cluster-finder.js";
 import { analyticsRoles } from "../../shared/roles.js";
-
-/** 'YYYY-MM' shifted by n months. */
-export function addMonths(ym: string, n: number): string {
-  const [y, m] = ym.split("-").map(Number);
-  const i = y * 12 + (m - 1) + n;
-  return `${Math.floor(i / 12)}-${String((i % 12) + 1).padStart(2, "0")}`;
-}
 
 const HEADLINES: { label: string; components: string[] }[] = [
   { label: "All failures", components: [] },
@@ -32,8 +26,8 @@ async function headlines(db: Db, scope: ShopScope): Promise<Overview["headlines"
     "Failures (first visit for a fault; comebacks excluded) per 1,000 engine hours over the twelve months ending with the last month of data, against the twelve months before; exact Poisson 95 % limits.";
   const last = await lastExposureMonth(db, scope);
   if (!last) return { thisYear: null, lastYear: null, rows: [], method };
-  const thisYear = { from: addMonths(last, -11), to: last };
-  const lastYear = { from: addMonths(last, -23), to: addMonths(last, -12) };
+  const thisYear = { from: addMonthsToMonth(last, -11), to: last };
+  const lastYear = { from: addMonthsToMonth(last, -23), to: addMonthsToMonth(last, -12) };
   const rows = await Promise.all(
     HEADLINES.map(async (h): Promise<Headline> => {
       const f = analyticsFiltersSchema.parse({ from: `${lastYear.from}-01`, components: h.components.join(",") });

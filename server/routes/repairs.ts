@@ -8,6 +8,7 @@ import { analyticsFiltersSchema } from "../../shared/schemas/analytics-filters.j
 import { repairCsvColumns, repairListQuerySchema, type RepairList } from "../../shared/schemas/repairs.js";
 import { eachRepairBatch, getRepair, listRepairs, type RepairFilter } from "../db/queries/repairs.js";
 import { analyticsRoles } from "../../shared/roles.js";
+import { neutraliseCell } from "../../shared/csv-cell.js";
 
 function parse(req: Request) {
   const filters = analyticsFiltersSchema.parse(req.query);
@@ -15,12 +16,6 @@ function parse(req: Request) {
   const filter: RepairFilter = { filters, list: { q: list.q, lineType: list.lineType, payType: list.payType } };
   return { filter, list };
 }
-
-/**
- * A spreadsheet would run a cell that starts with = + - @ (or a tab / CR) as a formula: prefix it with '.
- * A plain number such as a negative line id is left alone.
- */
-export const neutraliseCell = (s: string) => (/^[=+\-@\t\r]/.test(s) && !/^-?\d+(\.\d+)?$/.test(s) ? `'${s}` : s);
 
 /** GET /api/repairs (a page) and GET /api/repairs/:id (one line in full). */
 export function repairRoutes(db: Db): Router {

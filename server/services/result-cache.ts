@@ -1,22 +1,25 @@
+import { LRUCache } from "lru-cache";
+
 /**
  * A small in-process cache for expensive analytics results, keyed by request and valid for one data
- * version (see dataVersion): a new load or rebuild makes every entry stale. Least recently used entries go first.
+ * version (see dataVersion): a new load or rebuild makes every entry stale. lru-cache keeps the most
+ * recently used `max` entries; a computation in flight is shared by concurrent callers, and one that fails
+ * is forgotten so the next call tries again.
  */
 export class ResultCache<T> {
-  private entries = new Map<string, { version: string; value: Promise<T> }>();
-  constructor(private readonly max = 100) {}
+  private readonly entries: LRUCache<string, { version: string; value: Promise<T> }>;
+  constructor(max = 100) {
+    this.entries = new LRUCache({ max });
+  }
 
   async get(key: string, version: string, compute: () => Promise<T>): Promise<T> {
     const hit = this.entries.get(key);
-    if (hit && hit.version === version) {
-      this.entries.delete(key);
-      this.entries.set(key, hit);
-      return await hit.value;
-    }
-    const value = compute();
-    this.entries.set(key, { version, value });
-    value.catch(() => this.entries.delete(key));
-    while (this.entries.size > this.max) this.entries.delete(this.entries.keys().next().value!);
-    return await value;
+    if (hit && hit.version === version) return await hit.value;
+    const entry = { version, value: compute() };
+    this.entries.set(key, entry);
+    entry.value.catch(() => {
+      if (this.entries.peek(key) === entry) this.entries.delete(key);
+    });
+    return await entry.value;
   }
 }

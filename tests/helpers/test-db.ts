@@ -56,7 +56,7 @@ function sourceHash(): string {
       else if (/\.(ts|json)$/.test(e.name)) h.update(p.slice(root.length)).update(readFileSync(p));
     }
   };
-  for (const d of ["etl", "migrations", "server/db/derived", "server/demo"]) walk(path.join(root, d));
+  for (const d of ["etl", "migrations", "shared", "server/demo"]) walk(path.join(root, d));
   return h.digest("hex").slice(0, 12);
 }
 

@@ -2,8 +2,8 @@ import { sql, type RawBuilder } from "kysely";
 import type { ShopScope } from "../../../shared/schemas/me.js";
 import type { AnalyticsFilters } from "../../../shared/schemas/analytics-filters.js";
 import { scopedShopCodes } from "./scope.js";
-import { hourBandSql, temperatureBandSql, UNKNOWN_BAND } from "../derived/band-sql.js";
-import { HEATER_PLUG } from "../derived/refresh-exposure.js";
+import { hourBandSql, temperatureBandSql, UNKNOWN_BAND } from "../../../shared/band-sql.js";
+import { HEATER_PLUG } from "../../../shared/catalog.js";
 
 /** Comeback window used to keep repeat visits for one fault out of failure counts (DOMAIN.md, common practice). */
 export const COMEBACK_DAYS = 30;

@@ -4,7 +4,7 @@ import type { ShopScope } from "../../../shared/schemas/me.js";
 import type { AnalyticsFilters } from "../../../shared/schemas/analytics-filters.js";
 import type { RepairDetail, RepairListQuery, RepairRow, RepairSortKey } from "../../../shared/schemas/repairs.js";
 import { scopedShopCodes } from "./scope.js";
-import { hourBandSql, temperatureBandSql } from "../derived/band-sql.js";
+import { hourBandSql, temperatureBandSql } from "../../../shared/band-sql.js";
 
 /** What a repair-line listing is filtered by: the shared analytics filters, the list's own parameters, optional ids. */
 export interface RepairFilter {

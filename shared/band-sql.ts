@@ -1,5 +1,7 @@
 import { sql, type RawBuilder } from "kysely";
-import { hourBands, temperatureBands, type Band } from "../../../shared/bands.js";
+import { hourBands, temperatureBands, type Band } from "./bands.js";
+
+/** The temperature and hour bands of shared/bands.ts as SQL, for the warehouse's queries and its derived tables. */
 
 /** CASE expression placing a numeric expression in one of the bands (lo inclusive, hi exclusive). */
 function bandCase(expr: RawBuilder<unknown>, bands: readonly Band[], unknown: string): RawBuilder<string> {

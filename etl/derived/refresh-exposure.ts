@@ -1,8 +1,6 @@
-import { sql } from "kysely";
-import type { Db } from "../database.js";
-import { hourBandSql, temperatureBandSql, UNKNOWN_BAND } from "./band-sql.js";
-
-export const HEATER_PLUG = "ENG-CSA-HPLUG";
+import { sql, type Kysely } from "kysely";
+import { hourBandSql, temperatureBandSql, UNKNOWN_BAND } from "../../shared/band-sql.js";
+import { HEATER_PLUG } from "../../shared/catalog.js";
 
 /**
  * Rebuilds agg_exposure from the hour-meter trail, the fleet and the daily weather.
@@ -13,7 +11,8 @@ export const HEATER_PLUG = "ENG-CSA-HPLUG";
  * temperature band and its engine-hour band, and with the heater-plug lot fitted that day (the build lot
  * until the first heater-plug replacement, then the replacement's lot). Runs inside one transaction.
  */
-export async function refreshExposure(db: Db): Promise<{ rows: number; seconds: number }> {
+// Kysely<any>: the ETL writes raw SQL and does not import the server's schema types.
+export async function refreshExposure(db: Kysely<any>): Promise<{ rows: number; seconds: number }> {
   const started = performance.now();
   const hAt = sql`d.h_at`;
   const tmin = sql`w.tmin_c`;
