@@ -19,6 +19,7 @@ import { apiRoutes } from "./routes/index.js";
 import { adminMailRoutes } from "./routes/admin-mail.js";
 import type { Storage } from "./services/storage.js";
 import type { Mailer } from "./services/mailer.js";
+import type { MailArchive } from "./services/mail-archive.js";
 import type PgBoss from "pg-boss";
 
 export interface AppDeps {
@@ -37,10 +38,12 @@ export interface AppDeps {
   storage?: Storage;
   /** outgoing mail for claim packets */
   mailer?: Mailer;
-  /** where the local SMTP fake keeps captured mail; null or omitted with a real mail server */
-  mailDir?: string | null;
+  /** the mail the local SMTP fake captured; null or omitted with a real mail server */
+  mailArchive?: MailArchive | null;
   /** the job queue that retries failed packet sends */
   boss?: PgBoss | null;
+  /** keys the benchmarks' peer letters (BENCHMARK_PEER_SECRET); null or omitted → derived from the session secret */
+  benchmarkPeerSecret?: string | null;
 }
 
 /** Builds the Express app without listening: index.ts and the tests both use it. */
@@ -82,9 +85,9 @@ export function createApp(d: AppDeps): express.Express {
   app.use("/api/health", healthRoutes(d.db));
   app.use("/api/me", meRoutes());
   app.use("/api/admin/users", adminUserRoutes(d.db));
-  app.use("/api/admin/mail", adminMailRoutes(d.mailDir ?? null));
-  // peer letters for managers are keyed by a secret derived from the session secret, stable across restarts
-  const peerSecret = createHmac("sha256", d.sessionSecret).update("benchmark-peers").digest("hex");
+  app.use("/api/admin/mail", adminMailRoutes(d.mailArchive ?? null));
+  // peer letters for managers are keyed by the configured secret, else one derived from the session secret (stable across restarts)
+  const peerSecret = d.benchmarkPeerSecret ?? createHmac("sha256", d.sessionSecret).update("benchmark-peers").digest("hex");
   app.use("/api", apiRoutes(d.db, { storage: d.storage, mailer: d.mailer, boss: d.boss }, peerSecret));
   app.use("/api", apiNotFound);
 

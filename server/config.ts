@@ -32,6 +32,7 @@ const envSchema = z.object({
   S3_SECRET_ACCESS_KEY: z.string().optional(),
   LOCAL_S3_PORT: port.default(4569),
   LOAD_DEMO: bool.default(true),
+  BENCHMARK_PEER_SECRET: z.string().optional(),
 });
 
 export interface Config {
@@ -60,6 +61,8 @@ export interface Config {
     localPort: number;
   };
   loadDemo: boolean;
+  /** keys the benchmarks' peer letters; null (unset or empty) → derived from the session secret */
+  benchmarkPeerSecret: string | null;
 }
 
 /** Parses the environment once; every variable is documented in README.md. */
@@ -95,6 +98,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
       localPort: e.LOCAL_S3_PORT,
     },
     loadDemo: e.LOAD_DEMO,
+    benchmarkPeerSecret: e.BENCHMARK_PEER_SECRET || null,
   };
 }
 

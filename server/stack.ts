@@ -12,9 +12,10 @@ import { startSmtpFake } from "./dev/smtp-fake.js";
 import { startS3Fake } from "./dev/s3-fake.js";
 import { createStorage, type Storage } from "./services/storage.js";
 import { createMailer, type Mailer } from "./services/mailer.js";
+import type { MailArchive } from "./services/mail-archive.js";
 import { logger } from "./logger.js";
 import PgBoss from "pg-boss";
-import { startSendWorker } from "./warranty/send.js";
+import { startSendWorker } from "./services/warranty/send.js";
 import type pg from "pg";
 
 export interface Stack {
@@ -69,12 +70,14 @@ export async function startStack(config: Config, opts: { staticDir?: string } = 
     if (!clientSecret) throw new Error("OIDC_CLIENT_SECRET is required when OIDC_ISSUER is set");
 
     let mailDir: string | null = null;
+    let mailArchive: MailArchive | null = null;
     let smtpHost = config.smtp.host;
     let smtpPort = config.smtp.port;
     if (!smtpHost) {
       mailDir = path.join(config.dataDir, "mail");
       const smtp = await startSmtpFake(config.smtp.localPort, mailDir);
       closers.push(smtp.close);
+      mailArchive = smtp.archive;
       smtpHost = "127.0.0.1";
       smtpPort = config.smtp.localPort;
     }
@@ -102,6 +105,7 @@ export async function startStack(config: Config, opts: { staticDir?: string } = 
       pool,
       publicUrl: config.publicUrl,
       sessionSecret: secrets.sessionSecret,
+      benchmarkPeerSecret: config.benchmarkPeerSecret,
       oidc: createOidcClient({ issuer, clientId: config.oidc.clientId, clientSecret }),
       issuer,
       scopes: config.oidc.scopes,
@@ -110,7 +114,7 @@ export async function startStack(config: Config, opts: { staticDir?: string } = 
       staticDir: opts.staticDir ?? path.join(projectRoot, "dist"),
       storage,
       mailer,
-      mailDir,
+      mailArchive,
       boss,
     });
     const server = await listen(app, config.port, config.host);

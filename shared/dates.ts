@@ -1,4 +1,4 @@
-import { addDays as fnsAddDays, addMonths as fnsAddMonths, differenceInCalendarDays, format, parseISO } from "date-fns";
+import { addDays as fnsAddDays, addMonths as fnsAddMonths, format, parseISO } from "date-fns";
 
 /**
  * Calendar arithmetic on ISO dates ('YYYY-MM-DD') and months ('YYYY-MM'), the one place for it.
@@ -24,9 +24,14 @@ export function addMonths(date: string, months: number): string {
   return formatDate(fnsAddMonths(parseDate(date), months));
 }
 
-/** Whole calendar days from a to b (positive when b is later). */
+/**
+ * Whole calendar days from a to b (positive when b is later). Date.parse reads an ISO date as UTC midnight,
+ * so the difference is a whole number of days; it is in hot loops (comebacks), where date-fns is ~7× slower.
+ */
 export function daysBetween(a: string, b: string): number {
-  return differenceInCalendarDays(parseDate(b), parseDate(a));
+  if (!ISO_DATE.test(a)) throw new Error(`not an ISO date: ${a}`);
+  if (!ISO_DATE.test(b)) throw new Error(`not an ISO date: ${b}`);
+  return Math.round((Date.parse(b) - Date.parse(a)) / 86_400_000);
 }
 
 /** Today's date in UTC. */
@@ -55,3 +60,6 @@ export function monthIndex(month: string): number {
 
 /** Whole months from a to b ('YYYY-MM', positive when b is later). */
 export const monthsBetween = (a: string, b: string): number => monthIndex(b) - monthIndex(a);
+
+/** A month in English words ('2024-02' → 'February 2024'). */
+export const monthLabel = (month: string): string => format(parseMonth(month), "MMMM yyyy");

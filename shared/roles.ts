@@ -15,5 +15,8 @@ export const roleLabels: Record<Role, string> = {
 /** Roles whose shop scope is the whole group; a manager is limited to the shops named in their claim. */
 export const groupWideRoles: readonly Role[] = ["admin", "analyst", "director", "clerk"];
 
+/** Roles that build and file warranty claims. */
+export const claimRoles = ["clerk", "manager"] as const satisfies readonly Role[];
+
 /** Roles that read the analytics (overview, repairs, rates, life curves, clusters). */
 export const analyticsRoles = ["analyst", "director", "manager", "clerk", "admin"] as const satisfies readonly Role[];

@@ -8,6 +8,7 @@
  * line's shop and technician, and is not itself an original: it neither enters the denominator nor spawns
  * comebacks of its own (a third visit is a repeat repair).
  */
+import { daysBetween } from "../../shared/dates.js";
 
 export type LineType = "failure" | "pm" | "return_for_parts" | "install";
 
@@ -50,9 +51,6 @@ export interface OriginalLine {
   comebacks: ComebackPair[];
 }
 
-const DAY_MS = 86_400_000;
-export const daysBetween = (from: string, to: string): number => Math.round((Date.parse(to) - Date.parse(from)) / DAY_MS);
-export const addDays = (date: string, days: number): string => new Date(Date.parse(date) + days * DAY_MS).toISOString().slice(0, 10);
 
 /** Lines that can be the original of a comeback: closed failure lines that are not customer damage. */
 export function isRepair(l: RepairLineRecord): boolean {

@@ -1,18 +1,16 @@
 import { SMTPServer } from "smtp-server";
-import { mkdirSync, writeFileSync, readdirSync, readFileSync } from "node:fs";
+import { simpleParser } from "mailparser";
+import { mkdirSync, writeFileSync } from "node:fs";
+import { readdir, readFile } from "node:fs/promises";
 import path from "node:path";
+import type { CapturedMail, MailArchive } from "../services/mail-archive.js";
 
-export interface CapturedMail {
-  id: string;
-  from: string;
-  to: string[];
-  receivedAt: string;
-  raw: string;
-}
+/** The envelope the fake keeps beside each message: `<id>.json` next to `<id>.eml`. */
+type Envelope = Pick<CapturedMail, "id" | "from" | "to" | "receivedAt">;
 
 /**
- * A loopback SMTP server that accepts every message and keeps it as an .eml file in `dir`.
- * Stands in for the real mail relay in development and tests.
+ * A loopback SMTP server that accepts every message and keeps it as an .eml file in `dir`, with the archive
+ * that lists what it captured. Stands in for the real mail relay in development and tests.
  */
 export async function startSmtpFake(port: number, dir: string) {
   mkdirSync(dir, { recursive: true });
@@ -26,7 +24,7 @@ export async function startSmtpFake(port: number, dir: string) {
       stream.on("data", (c: Buffer) => chunks.push(c));
       stream.on("end", () => {
         const id = `${Date.now()}-${String(++seq).padStart(4, "0")}`;
-        const meta = {
+        const meta: Envelope = {
           id,
           from: session.envelope.mailFrom ? session.envelope.mailFrom.address : "",
           to: session.envelope.rcptTo.map((r) => r.address),
@@ -45,23 +43,38 @@ export async function startSmtpFake(port: number, dir: string) {
   return {
     port,
     dir,
+    archive: capturedMailArchive(dir),
     close: () => new Promise<void>((resolve) => server.close(() => resolve())),
   };
 }
 
-/** Reads what the fake captured, newest first. */
-export function listCapturedMail(dir: string): CapturedMail[] {
-  let files: string[] = [];
-  try {
-    files = readdirSync(dir).filter((f) => f.endsWith(".json"));
-  } catch {
-    return [];
-  }
-  return files
-    .sort()
-    .reverse()
-    .map((f) => {
-      const meta = JSON.parse(readFileSync(path.join(dir, f), "utf8")) as Omit<CapturedMail, "raw">;
-      return { ...meta, raw: readFileSync(path.join(dir, f.replace(/\.json$/, ".eml")), "utf8") };
-    });
+/** What the fake keeps in `dir`, newest first, each message read with mailparser. */
+function capturedMailArchive(dir: string): MailArchive {
+  return {
+    async list(limit) {
+      let files: string[];
+      try {
+        files = (await readdir(dir)).filter((f) => f.endsWith(".json"));
+      } catch {
+        return [];
+      }
+      const mail: CapturedMail[] = [];
+      for (const f of files.sort().reverse().slice(0, limit)) {
+        const meta = JSON.parse(await readFile(path.join(dir, f), "utf8")) as Envelope;
+        const m = await simpleParser(await readFile(path.join(dir, f.replace(/\.json$/, ".eml"))));
+        mail.push({
+          id: meta.id,
+          from: meta.from,
+          to: meta.to,
+          subject: m.subject ?? "",
+          receivedAt: meta.receivedAt,
+          text: m.text ?? "",
+          attachments: m.attachments
+            .filter((a) => a.filename)
+            .map((a) => ({ filename: a.filename!, contentType: a.contentType, sizeBytes: a.content.length })),
+        });
+      }
+      return mail;
+    },
+  };
 }

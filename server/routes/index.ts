@@ -11,7 +11,7 @@ import { overviewRoutes } from "./overview.js";
 import { clusterDetailRoutes } from "./analytics-cluster-detail.js";
 
 /** Mounts the resource routers under /api. Each router declares its roles with allow(). */
-export function apiRoutes(db: Db, services: Omit<ClaimRouteDeps, "db"> = {}, peerSecret?: string): Router {
+export function apiRoutes(db: Db, services: Omit<ClaimRouteDeps, "db">, peerSecret: string): Router {
   const router = Router();
   router.use("/shops", shopRoutes(db));
   router.use("/analytics/rates", analyticsRateRoutes(db));

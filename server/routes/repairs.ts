@@ -52,7 +52,7 @@ export function repairCsvRoutes(db: Db): Router {
       cast: { string: neutraliseCell, number: (n) => String(n) },
     });
     res.setHeader("content-type", "text/csv; charset=utf-8");
-    res.setHeader("content-disposition", `attachment; filename="repair-lines.csv"`);
+    res.attachment("repair-lines.csv");
     csv.pipe(res);
     try {
       await eachRepairBatch(db, requireScope(req), filter, list, async (rows) => {

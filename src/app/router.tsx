@@ -1,15 +1,21 @@
 import { createBrowserRouter, type RouteObject } from "react-router-dom";
 import type { QueryClient } from "@tanstack/react-query";
 import { Layout } from "./layout";
+import { lazyPage } from "./page-loader";
+import { pagePaths } from "./page-paths";
 import { RouteError } from "@/routes/route-error";
+import { AreaError, type AreaWords } from "@/routes/area-error";
 import { SignedOutRoute } from "@/routes/sign-in";
 import { meQueries } from "@/features/session/api/me-queries";
+
+/** A route area: a pathless route whose error boundary explains refusals in the area's own words. */
+const area = (words: AreaWords, children: RouteObject[]): RouteObject => ({ errorElement: <AreaError {...words} />, children });
 
 export function routes(qc: QueryClient): RouteObject[] {
   return [
     { path: "/signed-out", element: <SignedOutRoute />, errorElement: <RouteError /> },
     {
-      path: "/",
+      path: pagePaths.overview,
       element: <Layout />,
       errorElement: <RouteError />,
       loader: async () => {
@@ -17,19 +23,29 @@ export function routes(qc: QueryClient): RouteObject[] {
         return null;
       },
       children: [
-        { index: true, lazy: () => import("@/routes/overview") },
-        { path: "clusters", lazy: () => import("@/routes/clusters") },
-        { path: "clusters/:id", lazy: () => import("@/routes/cluster-detail") },
-        { path: "rates", lazy: () => import("@/routes/rates") },
-        { path: "life", lazy: () => import("@/routes/life") },
-        { path: "repairs", lazy: () => import("@/routes/repairs") },
-        { path: "repairs/:id", lazy: () => import("@/routes/repair-detail") },
-        { path: "benchmarks", lazy: () => import("@/routes/benchmarks") },
-        { path: "admin/users", lazy: () => import("@/routes/admin-users") },
-        { path: "claims", lazy: () => import("@/routes/claims") },
-        { path: "claims/new", lazy: () => import("@/routes/claim-new") },
-        { path: "claims/:id", lazy: () => import("@/routes/claim-detail") },
-        { path: "admin/mail", lazy: () => import("@/routes/admin-mail") },
+        area({ subject: "the failure analytics", list: { to: pagePaths.clusters, label: "All clusters" } }, [
+          { index: true, lazy: lazyPage(qc, () => import("@/routes/overview")) },
+          { path: pagePaths.clusters, lazy: lazyPage(qc, () => import("@/routes/clusters")) },
+          { path: pagePaths.cluster, lazy: lazyPage(qc, () => import("@/routes/cluster-detail")) },
+          { path: pagePaths.rates, lazy: lazyPage(qc, () => import("@/routes/rates")) },
+          { path: pagePaths.life, lazy: lazyPage(qc, () => import("@/routes/life")) },
+        ]),
+        area({ subject: "the repair records", list: { to: pagePaths.repairs, label: "All repairs" } }, [
+          { path: pagePaths.repairs, lazy: lazyPage(qc, () => import("@/routes/repairs")) },
+          { path: pagePaths.repair, lazy: lazyPage(qc, () => import("@/routes/repair-detail")) },
+        ]),
+        area({ subject: "the shop benchmarks" }, [
+          { path: pagePaths.benchmarks, lazy: lazyPage(qc, () => import("@/routes/benchmarks")) },
+        ]),
+        area({ subject: "warranty claims", list: { to: pagePaths.claims, label: "All claims" } }, [
+          { path: pagePaths.claims, lazy: lazyPage(qc, () => import("@/routes/claims")) },
+          { path: pagePaths.claimNew, lazy: lazyPage(qc, () => import("@/routes/claim-new")) },
+          { path: pagePaths.claim, lazy: lazyPage(qc, () => import("@/routes/claim-detail")) },
+        ]),
+        area({ subject: "the administration pages" }, [
+          { path: pagePaths.adminUsers, lazy: lazyPage(qc, () => import("@/routes/admin-users")) },
+          { path: pagePaths.adminMail, lazy: lazyPage(qc, () => import("@/routes/admin-mail")) },
+        ]),
         { path: "*", lazy: () => import("@/routes/not-found") },
       ],
     },

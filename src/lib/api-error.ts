@@ -26,3 +26,11 @@ export async function toApiError(res: Response): Promise<ApiError> {
   }
   return new ApiError(res.status, "http_" + res.status, `The server answered ${res.status} ${res.statusText}.`);
 }
+
+/** Answers a page explains in words instead of offering a retry: signed out, no access, nothing there. */
+const PAGE_STATUSES: ReadonlySet<number> = new Set([401, 403, 404]);
+
+/** True for an API error whose status the route areas' error boundaries explain (see src/routes/area-error.tsx). */
+export function isPageStatus(error: unknown): error is ApiError {
+  return error instanceof ApiError && PAGE_STATUSES.has(error.status);
+}

@@ -1,13 +1,17 @@
-/** CSV text for a table of plain values (RFC 4180 quoting; cells starting with = + - @ are neutralised). */
+import { stringify } from "csv-stringify/browser/esm/sync";
+import { csvCell } from "@shared/csv-cell";
+
+/**
+ * CSV out of the browser: a table of plain values as RFC 4180 text (csv-stringify quotes), every cell through
+ * the shared rule that neutralises spreadsheet formulas (shared/csv-cell.ts). Numbers are rounded to six
+ * decimals first, so a chart's table does not export floating-point noise.
+ */
 export function toCsv(columns: readonly { key: string; label: string }[], rows: readonly Record<string, unknown>[]): string {
-  const cell = (v: unknown): string => {
-    let s = v === null || v === undefined ? "" : typeof v === "number" ? String(Math.round(v * 1e6) / 1e6) : String(v);
-    if (/^[=+\-@\t\r]/.test(s)) s = `'${s}`;
-    return /[",\n\r]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
-  };
-  return [columns.map((c) => cell(c.label)).join(","), ...rows.map((r) => columns.map((c) => cell(r[c.key])).join(","))].join("\r\n") + "\r\n";
+  const cell = (v: unknown) => csvCell(typeof v === "number" ? Math.round(v * 1e6) / 1e6 : v);
+  return stringify([columns.map((c) => cell(c.label)), ...rows.map((r) => columns.map((c) => cell(r[c.key])))], { record_delimiter: "windows" });
 }
 
+/** Saves text as a file. Hand-written rather than file-saver: an object URL and the download attribute are all current browsers need. */
 export function downloadText(filename: string, text: string, type = "text/csv;charset=utf-8"): void {
   const url = URL.createObjectURL(new Blob([text], { type }));
   const a = document.createElement("a");

@@ -1,7 +1,11 @@
 import { useQuery } from "@tanstack/react-query";
 import { userQueries } from "@/features/admin/api/user-queries";
 import { Card, EmptyState, ErrorNotice, Skeleton } from "@/components/ui/states";
+import type { PrimeCache } from "@/app/page-loader";
 import { roleLabels } from "@shared/roles";
+
+// awaited: a short list, and someone who is not an administrator reaches the area's error boundary
+export const primeCache: PrimeCache = (qc) => qc.ensureQueryData(userQueries.list());
 
 export function Component() {
   const q = useQuery(userQueries.list());

@@ -1,7 +1,6 @@
-import type { ReactNode } from "react";
-import { useQuery, type UseQueryResult } from "@tanstack/react-query";
+import { useQuery } from "@tanstack/react-query";
 import { ChartCard } from "@/components/chart-card";
-import { ErrorNotice, Skeleton } from "@/components/ui/states";
+import { QueryView } from "@/features/filters/components/query-view";
 import { palette } from "@/lib/palette";
 import { benchmarkQueries } from "@/features/benchmarks/api/benchmark-queries";
 import { funnelChart, trendChart } from "@/features/benchmarks/charts/benchmark-charts";
@@ -9,7 +8,8 @@ import { ComebackPairsPanel } from "@/features/benchmarks/components/comeback-pa
 import { KpiTable } from "@/features/benchmarks/components/kpi-table";
 import { PeriodControls } from "@/features/benchmarks/components/period-controls";
 import { OwnShopSummary, VisitList } from "@/features/benchmarks/components/visit-list";
-import { useBenchmarkParams } from "@/features/benchmarks/hooks/use-benchmark-params";
+import { readBenchmarkParams, useBenchmarkParams } from "@/features/benchmarks/hooks/use-benchmark-params";
+import type { PrimeCache } from "@/app/page-loader";
 import { pct } from "@/features/benchmarks/format";
 import type { Funnel } from "@shared/schemas/benchmarks";
 
@@ -34,12 +34,14 @@ function FunnelWords({ d }: { d: Funnel }) {
   );
 }
 
-/** A query's loading and error states, then its data. */
-function Loaded<T>({ query, label, children }: { query: UseQueryResult<T>; label: string; children: (data: T) => ReactNode }) {
-  if (query.isPending) return <Skeleton lines={6} label={`Loading ${label}`} />;
-  if (query.isError) return <ErrorNotice error={query.error} onRetry={() => query.refetch()} />;
-  return <>{children(query.data)}</>;
-}
+// prefetched, not awaited: the benchmarks, funnel and trend are computed over a year of repair orders; the
+// page shows each as it arrives
+export const primeCache: PrimeCache = (qc, { url }) => {
+  const params = readBenchmarkParams(url.searchParams);
+  void qc.prefetchQuery(benchmarkQueries.shops(params));
+  void qc.prefetchQuery(benchmarkQueries.funnel(params));
+  void qc.prefetchQuery(benchmarkQueries.trend(params));
+};
 
 export function Component() {
   const { params, drill, technician, update } = useBenchmarkParams();
@@ -60,9 +62,9 @@ export function Component() {
       </div>
       <PeriodControls params={params} period={shops.data?.period} onChange={update} />
 
-      <Loaded query={shops} label="the benchmarks">
+      <QueryView query={shops} label="the benchmarks" lines={6}>
         {(d) => (d.viewer.groupWide ? <VisitList data={d} onOpen={open} /> : <OwnShopSummary data={d} onOpen={open} />)}
-      </Loaded>
+      </QueryView>
 
       {drillShop && (
         <div id="comeback-pairs">
@@ -77,7 +79,7 @@ export function Component() {
       )}
 
       <div className="grid gap-4 xl:grid-cols-2">
-        <Loaded query={funnel} label="the funnel">
+        <QueryView query={funnel} label="the funnel" lines={6}>
           {(f) => (
             <ChartCard
               title="Funnel: comeback rate against volume"
@@ -94,8 +96,8 @@ export function Component() {
               footer={<FunnelWords d={f} />}
             />
           )}
-        </Loaded>
-        <Loaded query={trend} label="the trend">
+        </QueryView>
+        <QueryView query={trend} label="the trend" lines={6}>
           {(t) => (
             <ChartCard
               title="Trend by month"
@@ -115,7 +117,7 @@ export function Component() {
               footer={t.method}
             />
           )}
-        </Loaded>
+        </QueryView>
       </div>
 
       {shops.data && <KpiTable data={shops.data} onOpen={(s) => open(s)} />}

@@ -9,7 +9,12 @@ import { StatusActions } from "@/features/claims/components/status-actions";
 import { AttachmentsPanel } from "@/features/claims/components/attachments-panel";
 import { SendPanel } from "@/features/claims/components/send-panel";
 import { AuditTrail } from "@/features/claims/components/audit-trail";
+import type { PrimeCache } from "@/app/page-loader";
 import { apiPaths } from "@shared/api-paths";
+
+// awaited: one claim is a quick lookup, and a claim that is missing or out of scope reaches the claims
+// area's error boundary before the page renders
+export const primeCache: PrimeCache = (qc, { params }) => qc.ensureQueryData(claimQueries.detail(params.id ?? ""));
 
 export function Component() {
   const id = useParams().id!;

@@ -7,13 +7,17 @@ import { DeadlineBadge, money, num } from "@/features/claims/components/deadline
 import { Cautions, EligibilityPanel, LineFacts, MeasurementPanel } from "@/features/claims/components/line-evidence";
 import { CaseLines, ClusterStats } from "@/features/claims/components/cluster-stats";
 import type { ClaimPreview } from "@shared/schemas/claims";
+import type { Me } from "@shared/schemas/me";
+import type { PrimeCache } from "@/app/page-loader";
 import { meQueries } from "@/features/session/api/me-queries";
 import { UnclaimedLines } from "@/features/claims/components/unclaimed-lines";
 
+/** Campaign cases span shops, so only a group-wide role (the clerk) makes them. */
+const makesCampaignCases = (me: Me | null) => me?.scope.kind === "all";
+
 function Chooser() {
   const { data: me } = useSuspenseQuery(meQueries.current());
-  // campaign cases span shops, so only a group-wide role (the clerk) makes them
-  const groupWide = me?.scope.kind === "all";
+  const groupWide = makesCampaignCases(me);
   const clusters = useQuery({ ...claimQueries.clusterChoices(), enabled: groupWide });
   const [, setParams] = useSearchParams();
   const [line, setLine] = useState("");
@@ -108,6 +112,18 @@ function PreviewView({ p, onCreate, creating }: { p: ClaimPreview; onCreate: () 
     </div>
   );
 }
+
+// prefetched, not awaited: a campaign preview and the cluster choices both run the cluster scan, and the
+// queue of unclaimed lines judges eligibility line by line; the page shows each part as it arrives
+export const primeCache: PrimeCache = (qc, { url, me }) => {
+  const params = url.searchParams;
+  if (params.get("cluster") || params.get("repairLine")) {
+    void qc.prefetchQuery(claimQueries.preview(params.toString()));
+    return;
+  }
+  void qc.prefetchQuery(claimQueries.candidates());
+  if (makesCampaignCases(me)) void qc.prefetchQuery(claimQueries.clusterChoices());
+};
 
 export function Component() {
   const [params] = useSearchParams();

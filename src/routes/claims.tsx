@@ -4,6 +4,14 @@ import { UnclaimedLines } from "@/features/claims/components/unclaimed-lines";
 import { Card, EmptyState, ErrorNotice, Skeleton } from "@/components/ui/states";
 import { claimQueries } from "@/features/claims/api/claim-queries";
 import { DeadlineBadge, StatusPill, money } from "@/features/claims/components/deadline-badge";
+import type { PrimeCache } from "@/app/page-loader";
+
+// the claim list is awaited (a short table; a refusal reaches the claims area's error boundary); the queue of
+// unclaimed lines below it is prefetched, not awaited, since it judges eligibility line by line
+export const primeCache: PrimeCache = (qc) => {
+  void qc.prefetchQuery(claimQueries.candidates());
+  return qc.ensureQueryData(claimQueries.list());
+};
 
 export function Component() {
   const q = useQuery(claimQueries.list());

@@ -1,25 +1,19 @@
-import { useQuery, useQueryClient } from "@tanstack/react-query";
-import { Link, matchRoutes, useParams } from "react-router-dom";
+import { useQuery, useSuspenseQuery } from "@tanstack/react-query";
+import { Link, useParams } from "react-router-dom";
 import { clusterQueries } from "@/features/clusters/api/cluster-queries";
 import { clusterProfileChart, clusterTimelineChart } from "@/features/clusters/charts/cluster-charts";
-import { useFilters } from "@/features/filters/use-filters";
+import { readFilters, useFilters } from "@/features/filters/use-filters";
 import { useTemperatureUnit } from "@/features/filters/hooks/use-temperature-unit";
 import { QueryView } from "@/features/filters/components/query-view";
 import { ChartCard } from "@/components/chart-card";
 import { Card } from "@/components/ui/states";
 import { palette } from "@/lib/palette";
-import { routes } from "@/app/router";
+import { pagePaths } from "@/app/page-paths";
+import type { PrimeCache } from "@/app/page-loader";
 import { hourBandLabel, temperatureBandLabel } from "@shared/bands";
 import type { ClusterDetail } from "@shared/schemas/analytics-clusters";
-
-const CASE_PATH = "/claims/new";
-
-/** True once the warranty pages are registered in the router (the catch-all does not count). */
-function useWarrantyCaseRoute(): boolean {
-  const qc = useQueryClient();
-  const m = matchRoutes(routes(qc), CASE_PATH);
-  return !!m && m[m.length - 1].route.path !== "*";
-}
+import { claimRoles } from "@shared/roles";
+import { meQueries } from "@/features/session/api/me-queries";
 
 function Summary({ d }: { d: ClusterDetail }) {
   const c = d.cluster;
@@ -46,12 +40,18 @@ function Summary({ d }: { d: ClusterDetail }) {
   );
 }
 
+// prefetched, not awaited: the detail is read from the cluster scan, which can take seconds on a fresh server
+export const primeCache: PrimeCache = (qc, { params, url }) => {
+  void qc.prefetchQuery(clusterQueries.detail(params.id ?? "", readFilters(url.searchParams).search));
+};
+
 export function Component() {
   const { id = "" } = useParams();
   const { search } = useFilters();
   const [unit] = useTemperatureUnit();
   const q = useQuery(clusterQueries.detail(id, search));
-  const canOpenCase = useWarrantyCaseRoute();
+  const { data: me } = useSuspenseQuery(meQueries.current());
+  const canClaim = (me?.roles ?? []).some((r) => (claimRoles as readonly string[]).includes(r));
   return (
     <div className="space-y-4">
       <Link to={`/clusters${search ? `?${search}` : ""}`} className="text-sm text-accent">← All clusters</Link>
@@ -60,12 +60,12 @@ export function Component() {
           <>
             <div className="flex flex-wrap items-start justify-between gap-3">
               <h1 className="max-w-3xl text-xl font-bold">{d.cluster.description}</h1>
-              {canOpenCase ? (
-                <Link to={`${CASE_PATH}?cluster=${encodeURIComponent(d.cluster.id)}`} className="rounded bg-accent px-3 py-2 text-sm font-semibold text-white">Open a warranty case</Link>
+              {canClaim ? (
+                <Link to={`${pagePaths.claimNew}?cluster=${encodeURIComponent(d.cluster.id)}`} className="rounded bg-accent px-3 py-2 text-sm font-semibold text-white">Open a warranty case</Link>
               ) : (
                 <div className="text-right">
                   <button type="button" disabled aria-describedby="case-reason" className="cursor-not-allowed rounded bg-line px-3 py-2 text-sm font-semibold text-muted">Open a warranty case</button>
-                  <p id="case-reason" className="mt-1 max-w-64 text-xs text-muted">Warranty cases are not available yet: the claims pages are still being built.</p>
+                  <p id="case-reason" className="mt-1 max-w-64 text-xs text-muted">A warranty clerk or a shop manager opens warranty cases; send them this page's link.</p>
                 </div>
               )}
             </div>

@@ -4,7 +4,9 @@ import { lifeQueries } from "@/features/life/api/life-queries";
 import { kaplanMeierChart, mcfChart, weibullChart } from "@/features/life/charts/life-charts";
 import { FilterBar } from "@/features/filters/components/filter-bar";
 import { QueryView } from "@/features/filters/components/query-view";
-import { useFilters } from "@/features/filters/use-filters";
+import { readFilters, useFilters } from "@/features/filters/use-filters";
+import { readLifeParams } from "@/features/life/life-params";
+import type { PrimeCache } from "@/app/page-loader";
 import { ChartCard } from "@/components/chart-card";
 import { Card } from "@/components/ui/states";
 import { palette } from "@/lib/palette";
@@ -58,33 +60,26 @@ function FitTable({ d }: { d: WeibullResponse }) {
   );
 }
 
+// prefetched, not awaited: maximum-likelihood fits and curves, each of which the page shows as it arrives
+export const primeCache: PrimeCache = (qc, { url }) => {
+  const { lifeSearch, mcfSearch } = readLifeParams(url.searchParams, readFilters(url.searchParams).search);
+  void qc.prefetchQuery(lifeQueries.weibull(lifeSearch));
+  void qc.prefetchQuery(lifeQueries.kaplanMeier(lifeSearch));
+  void qc.prefetchQuery(lifeQueries.mcf(mcfSearch));
+};
+
 export function Component() {
   const { search } = useFilters();
   const [params, setParams] = useSearchParams();
-  const component = params.get("component") ?? "ENG-CSA-HPLUG";
-  const compareBy = params.get("compareBy") ?? "";
-  const compareValue = params.get("compareValue") ?? "";
-  const compareOther = params.get("compareOther") ?? "";
-  const mcfComponent = params.get("mcfComponent") ?? "HYD-LIN-HOSE";
+  const { component, compareBy, compareValue, compareOther, mcfComponent, lifeSearch, mcfSearch } = readLifeParams(params, search);
   const set = (next: Record<string, string>) => {
     const p2 = new URLSearchParams(params);
     for (const [k, v] of Object.entries(next)) (v ? p2.set(k, v) : p2.delete(k));
     setParams(p2, { replace: true });
   };
-  const life = new URLSearchParams(search);
-  life.delete("components");
-  life.set("component", component);
-  if (compareBy && compareValue) {
-    life.set("compareBy", compareBy);
-    life.set("compareValue", compareValue);
-    if (compareOther) life.set("compareOther", compareOther);
-  }
-  const mcf = new URLSearchParams(search);
-  mcf.delete("components");
-  mcf.set("component", mcfComponent);
-  const weibull = useQuery(lifeQueries.weibull(life.toString()));
-  const km = useQuery(lifeQueries.kaplanMeier(life.toString()));
-  const recurrences = useQuery(lifeQueries.mcf(mcf.toString()));
+  const weibull = useQuery(lifeQueries.weibull(lifeSearch));
+  const km = useQuery(lifeQueries.kaplanMeier(lifeSearch));
+  const recurrences = useQuery(lifeQueries.mcf(mcfSearch));
   const compName = components.find((c) => c.code === component)?.name ?? component;
 
   return (

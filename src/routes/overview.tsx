@@ -3,6 +3,7 @@ import { Link } from "react-router-dom";
 import { overviewQueries } from "@/features/overview/api/overview-queries";
 import { QueryView } from "@/features/filters/components/query-view";
 import { Card, EmptyState } from "@/components/ui/states";
+import type { PrimeCache } from "@/app/page-loader";
 import type { Overview } from "@shared/schemas/overview";
 
 const n = (v: number) => v.toLocaleString("en-US");
@@ -113,6 +114,11 @@ function Attention({ a }: { a: Overview["attention"] }) {
     </>
   );
 }
+
+// prefetched, not awaited: the overview includes the cluster scan, which can take seconds on a fresh server
+export const primeCache: PrimeCache = (qc) => {
+  void qc.prefetchQuery(overviewQueries.current());
+};
 
 export function Component() {
   const q = useQuery(overviewQueries.current());

@@ -3,7 +3,8 @@ import { rateQueries } from "@/features/rates/api/rate-queries";
 import { hourBandChart, monthlyChart, paretoChart, temperatureBandChart } from "@/features/rates/charts/rate-charts";
 import { FilterBar } from "@/features/filters/components/filter-bar";
 import { QueryView } from "@/features/filters/components/query-view";
-import { useFilters } from "@/features/filters/use-filters";
+import { readFilters, useFilters } from "@/features/filters/use-filters";
+import type { PrimeCache } from "@/app/page-loader";
 import { useTemperatureUnit } from "@/features/filters/hooks/use-temperature-unit";
 import { ChartCard } from "@/components/chart-card";
 import { palette } from "@/lib/palette";
@@ -11,6 +12,15 @@ import { hourBandLabel, temperatureBandLabel } from "@shared/bands";
 
 const num = (v: unknown) => (typeof v === "number" ? (Math.abs(v) >= 100 ? Math.round(v).toLocaleString("en-US") : v.toPrecision(3)) : String(v ?? ""));
 const noFailures = "No failures and no exposure match these filters. Widen the dates, shops or components.";
+
+// prefetched, not awaited: four rate analyses, each of which the page shows as it arrives
+export const primeCache: PrimeCache = (qc, { url }) => {
+  const { search } = readFilters(url.searchParams);
+  void qc.prefetchQuery(rateQueries.hourBands(search));
+  void qc.prefetchQuery(rateQueries.temperatureBands(search));
+  void qc.prefetchQuery(rateQueries.components(search));
+  void qc.prefetchQuery(rateQueries.monthly(search));
+};
 
 export function Component() {
   const { search } = useFilters();

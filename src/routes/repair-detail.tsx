@@ -7,6 +7,7 @@ import { celsiusToFahrenheit } from "@shared/bands";
 import { MeasurementPanels } from "@/features/repairs/components/measurement-panels";
 import { QueryView } from "@/features/filters/components/query-view";
 import { Card } from "@/components/ui/states";
+import type { PrimeCache } from "@/app/page-loader";
 import type { RepairDetail } from "@shared/schemas/repairs";
 
 const v = (x: string | number | null | undefined, unit = "") => (x === null || x === undefined || x === "" ? "—" : `${typeof x === "number" ? x.toLocaleString("en-US") : x}${unit}`);
@@ -129,6 +130,10 @@ function Detail({ d }: { d: RepairDetail }) {
     </div>
   );
 }
+
+// awaited: one repair line is a quick lookup, and a line that is missing or out of scope reaches the
+// repairs area's error boundary before the page renders
+export const primeCache: PrimeCache = (qc, { params }) => qc.ensureQueryData(repairQueries.detail(params.id ?? ""));
 
 export function Component() {
   const { id = "" } = useParams();

@@ -5,19 +5,21 @@ import { repairQueries } from "@/features/repairs/api/repair-queries";
 import { RepairTable } from "@/features/repairs/components/repair-table";
 import { FilterBar } from "@/features/filters/components/filter-bar";
 import { QueryView } from "@/features/filters/components/query-view";
-import { useFilters } from "@/features/filters/use-filters";
+import { readFilters, useFilters } from "@/features/filters/use-filters";
+import { readRepairListParams } from "@/features/repairs/repair-list-params";
+import type { PrimeCache } from "@/app/page-loader";
 import { apiPaths } from "@shared/api-paths";
-import { repairSortKeys, type RepairSortKey } from "@shared/schemas/repairs";
+
+// prefetched, not awaited: paging, sorting and searching change the URL, and the page keeps showing the
+// previous rows while the next ones load (keepPreviousData) instead of freezing until they arrive
+export const primeCache: PrimeCache = (qc, { url }) => {
+  void qc.prefetchQuery(repairQueries.list(readRepairListParams(url.searchParams, readFilters(url.searchParams).search).listSearch));
+};
 
 export function Component() {
   const { search } = useFilters();
   const [params, setParams] = useSearchParams();
-  const q = params.get("q") ?? "";
-  const page = Math.max(1, Number(params.get("page")) || 1);
-  const pageSize = [25, 50, 100, 200].includes(Number(params.get("pageSize"))) ? Number(params.get("pageSize")) : 25;
-  const sortParam = params.get("sort") as RepairSortKey | null;
-  const sort: RepairSortKey = sortParam && repairSortKeys.includes(sortParam) ? sortParam : "opened";
-  const dir = params.get("dir") === "asc" ? "asc" : "desc";
+  const { q, page, pageSize, sort, dir, listSearch, csvSearch } = readRepairListParams(params, search);
   const [text, setText] = useState(q);
 
   const set = (next: Record<string, string | number | undefined>) => {
@@ -25,14 +27,7 @@ export function Component() {
     for (const [k, v] of Object.entries(next)) (v === undefined || v === "" ? p.delete(k) : p.set(k, String(v)));
     setParams(p, { replace: true });
   };
-  const listSearch = new URLSearchParams(search);
-  if (q) listSearch.set("q", q);
-  listSearch.set("sort", sort);
-  listSearch.set("dir", dir);
-  const csvSearch = listSearch.toString();
-  listSearch.set("page", String(page));
-  listSearch.set("pageSize", String(pageSize));
-  const list = useQuery(repairQueries.list(listSearch.toString()));
+  const list = useQuery(repairQueries.list(listSearch));
 
   return (
     <div className="space-y-4">

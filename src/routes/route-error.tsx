@@ -1,7 +1,11 @@
 import { isRouteErrorResponse, useRouteError, Link } from "react-router-dom";
+import { ErrorPanel } from "@/components/ui/states";
 import { ApiError } from "@/lib/api-error";
 
-/** Root error boundary: says what went wrong in words and offers a way back. */
+/**
+ * Root error boundary: says what went wrong in words and offers a way back. The route areas' boundaries
+ * (area-error.tsx) explain signed-out, no-access and not-found answers and pass everything else up to here.
+ */
 export function RouteError() {
   const error = useRouteError();
   let title = "Something went wrong";
@@ -16,13 +20,16 @@ export function RouteError() {
     message = error.message;
   }
   return (
-    <div className="mx-auto mt-16 max-w-lg rounded-lg border border-line bg-card p-8" role="alert">
-      <h1 className="text-xl font-bold">{title}</h1>
-      <p className="mt-2 text-muted">{message}</p>
-      <div className="mt-4 flex gap-3">
-        <button type="button" onClick={() => window.location.reload()} className="rounded bg-accent px-3 py-1.5 text-white">Reload</button>
-        <Link to="/" className="rounded border border-line px-3 py-1.5">Overview</Link>
-      </div>
-    </div>
+    <ErrorPanel
+      title={title}
+      actions={
+        <>
+          <button type="button" onClick={() => window.location.reload()} className="rounded bg-accent px-3 py-1.5 text-white">Reload</button>
+          <Link to="/" className="rounded border border-line px-3 py-1.5">Overview</Link>
+        </>
+      }
+    >
+      <p>{message}</p>
+    </ErrorPanel>
   );
 }

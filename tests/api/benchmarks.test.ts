@@ -3,7 +3,8 @@ import request from "supertest";
 import { testApp, type TestApp } from "../helpers/test-app.js";
 import { apiPaths } from "../../shared/api-paths.js";
 import { shops as demoShops } from "../../etl/demo/scenario.js";
-import { peerBands, peerLetters } from "../../server/routes/benchmarks.js";
+import { peerBands } from "../../server/analytics/benchmark-bands.js";
+import { peerLetters } from "../../server/services/benchmarks/peer-letters.js";
 import {
   comebackPairsSchema,
   funnelSchema,

@@ -10,7 +10,7 @@ import { sql } from "kysely";
 import { freePort, startTestStack, type TestStack } from "../helpers/test-stack.js";
 import { loadOrCreateSecrets } from "../../server/secrets.js";
 import { startSmtpFake } from "../../server/dev/smtp-fake.js";
-import { parseMail } from "../../server/warranty/mime.js";
+import { parseMail } from "../helpers/read-mail.js";
 import type { Role } from "../../shared/roles.js";
 import type { ClaimDetail } from "../../shared/schemas/claims.js";
 
@@ -112,7 +112,7 @@ describe("claims on the whole stack with the SMTP fake", () => {
     expect(after.lastSend).toMatchObject({ status: "sent", attempts: 1, toAddress: after.warrantyEmail });
     const files = emlFiles(stack.mailDir!);
     expect(files).toHaveLength(1);
-    const mail = parseMail(readFileSync(path.join(stack.mailDir!, files[0])));
+    const mail = await parseMail(readFileSync(path.join(stack.mailDir!, files[0])));
     expect(mail.headers["to"]).toBe(after.warrantyEmail);
     expect(mail.subject).toContain(`Warranty claim ${claim.claimNumber}`);
     const pdf = mail.attachments.find((x) => x.filename === `${claim.claimNumber}.pdf`)!;
@@ -176,7 +176,7 @@ describe("a send while the mail server is down", () => {
     expect(last.attempts).toBeGreaterThanOrEqual(2);
     const files = emlFiles(mailDir);
     expect(files).toHaveLength(1);
-    const mail = parseMail(readFileSync(path.join(mailDir, files[0])));
+    const mail = await parseMail(readFileSync(path.join(mailDir, files[0])));
     expect(mail.attachments.find((a) => a.filename === `${claim.claimNumber}.pdf`)?.contentType).toBe("application/pdf");
     const sends = await stack.db.selectFrom("warranty_send").selectAll().where("claim_id", "=", claim.id).execute();
     expect(sends).toHaveLength(1);

@@ -2,13 +2,14 @@ import { sql } from "kysely";
 import type { Db } from "../database.js";
 import type { ShopScope } from "../../../shared/schemas/me.js";
 import type { RepairLineRecord } from "../../analytics/comebacks.js";
+import type { ClaimCount, MonthlyTotals, WaitCount } from "../../analytics/benchmark-ledger.js";
 import { scopedShopCodes } from "./scope.js";
 
 // Benchmarking compares a shop with the rest of the group, so these reads cover every shop by design: a peer's
 // rate cannot be computed without the peer's lines. The count queries (monthlyTotals, partsWaitCounts,
 // warrantyClaimCounts) return sums per shop code only; the line queries take the caller's scope and return, for a
-// shop outside it, pairing fields only (no RO number, no technician, no text). The route anonymises every shop
-// outside the scope before anything is sent.
+// shop outside it, pairing fields only (no RO number, no technician, no text). The benchmarks service anonymises
+// every shop outside the scope before anything is sent.
 
 const inScopeSql = (scope: ShopScope) => {
   const codes = scopedShopCodes(scope);
@@ -95,19 +96,6 @@ export async function technicianNames(db: Db, scope: ShopScope): Promise<Map<str
   return new Map(r.rows.map((x) => [x.tech_id, x.display_name]));
 }
 
-export interface MonthlyTotals {
-  shop: string;
-  /** month of the line's close, YYYY-MM */
-  month: string;
-  effLines: number;
-  standardHours: number;
-  actualHours: number;
-  partLines: number;
-  backOrdered: number;
-  coldStartJobs: number;
-  coldStartMeasured: number;
-}
-
 /**
  * Per shop and month of close, for lines closed on or before `countedThrough`: labour sums on lines with a
  * standard time and a booked actual time; part lines (a part was ordered) and how many were back-ordered;
@@ -153,13 +141,6 @@ export async function monthlyTotals(db: Db, countedThrough: string): Promise<Mon
   }));
 }
 
-export interface WaitCount {
-  shop: string;
-  month: string;
-  days: number;
-  lines: number;
-}
-
 /** Part lines by days from order to receipt, per shop and month of close (lines closed by `countedThrough`). */
 export async function partsWaitCounts(db: Db, countedThrough: string): Promise<WaitCount[]> {
   const r = await sql<{ shop_code: string; month: string; days: number; lines: string }>`
@@ -169,13 +150,6 @@ export async function partsWaitCounts(db: Db, countedThrough: string): Promise<W
     GROUP BY 1, 2, 3
   `.execute(db);
   return r.rows.map((x) => ({ shop: x.shop_code, month: x.month, days: Number(x.days), lines: Number(x.lines) }));
-}
-
-export interface ClaimCount {
-  shop: string;
-  month: string;
-  claims: number;
-  onTime: number;
 }
 
 /**

@@ -109,7 +109,7 @@ export async function repairLinesByKeys(db: Db, scope: ShopScope, keys: readonly
 /**
  * Closed failure lines whose hour meter and age are inside the machine's terms (registry terms, else the
  * defaults given) and that no repair claim holds yet: the clerk's unclaimed queue, newest close first
- * (nearest deadline). The eligibility shown is recomputed from these lines in server/warranty.
+ * (nearest deadline). The eligibility shown is recomputed from these lines in server/services/warranty.
  */
 export async function unclaimedCandidateKeys(
   db: Db,

@@ -37,6 +37,17 @@ export function ErrorNotice({ error, onRetry }: { error: unknown; onRetry?: () =
   );
 }
 
+/** A page-sized notice for a route error boundary: a heading, words, and the ways out. */
+export function ErrorPanel({ title, children, actions }: { title: string; children: ReactNode; actions: ReactNode }) {
+  return (
+    <div className="mx-auto mt-10 max-w-lg rounded-lg border border-line bg-card p-6 sm:p-8" role="alert">
+      <h1 className="text-xl font-bold">{title}</h1>
+      <div className="mt-2 space-y-1 text-muted">{children}</div>
+      <div className="mt-4 flex flex-wrap gap-3">{actions}</div>
+    </div>
+  );
+}
+
 export function Card({ title, children, actions }: { title?: string; children: ReactNode; actions?: ReactNode }) {
   return (
     <section className="rounded-lg border border-line bg-card p-4 shadow-sm">

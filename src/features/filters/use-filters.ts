@@ -5,17 +5,23 @@ import { analyticsFiltersSchema, filtersToSearchParams, type AnalyticsFilters } 
 const FILTER_KEYS = ["from", "to", "shops", "engineFamilies", "modelLines", "components", "buildFrom", "buildTo", "lots", "tempBands", "hourBands"] as const;
 
 /**
+ * The shared filters a URL's search params hold, and the query string the analytics API reads them from.
+ * Read by hand rather than with a URL-state library: the shared zod schema the server validates them with does the parsing.
+ */
+export function readFilters(params: URLSearchParams): { filters: AnalyticsFilters; search: string } {
+  const raw = Object.fromEntries(FILTER_KEYS.map((k) => [k, params.get(k) ?? undefined]));
+  const parsed = analyticsFiltersSchema.safeParse(raw);
+  const filters = parsed.success ? parsed.data : analyticsFiltersSchema.parse({});
+  return { filters, search: filtersToSearchParams(filters).toString() };
+}
+
+/**
  * The shared analytics filters live in the URL search params, so a link reproduces a view and the filters
  * carry across pages. Invalid params are dropped, not fatal.
  */
 export function useFilters(): { filters: AnalyticsFilters; search: string; setFilters: (next: Partial<AnalyticsFilters>) => void } {
   const [params, setParams] = useSearchParams();
-  const filters = useMemo(() => {
-    const raw = Object.fromEntries(FILTER_KEYS.map((k) => [k, params.get(k) ?? undefined]));
-    const parsed = analyticsFiltersSchema.safeParse(raw);
-    return parsed.success ? parsed.data : analyticsFiltersSchema.parse({});
-  }, [params]);
-  const search = filtersToSearchParams(filters).toString();
+  const { filters, search } = useMemo(() => readFilters(params), [params]);
   const setFilters = (next: Partial<AnalyticsFilters>) => {
     const merged = filtersToSearchParams({ ...filters, ...next });
     for (const [k, v] of params) if (!(FILTER_KEYS as readonly string[]).includes(k)) merged.set(k, v);

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { addDays, addMonths, addMonthsToMonth, daysBetween, monthEnd, monthsBetween } from "../../../shared/dates.js";
+import { addDays, addMonths, addMonthsToMonth, daysBetween, monthEnd, monthLabel, monthsBetween } from "../../../shared/dates.js";
 
 // Gregorian calendar facts (ISO 8601 dates): 2024 is a leap year, 2023 and 1900 are not, 2000 is.
 // POSIX time: 2000-01-01T00:00:00Z is 946,684,800 s after the epoch = 10,957 days (946684800 / 86400).
@@ -29,6 +29,12 @@ describe("calendar arithmetic", () => {
     expect(monthEnd("2000-02")).toBe("2000-02-29");
     expect(monthEnd("1900-02")).toBe("1900-02-28");
     expect(monthsBetween("2023-11", "2025-02")).toBe(15);
+  });
+
+  it("names months in English (ISO 8601: month 01 is January, 12 is December)", () => {
+    expect(monthLabel("2024-01")).toBe("January 2024");
+    expect(monthLabel("2000-02")).toBe("February 2000");
+    expect(monthLabel("1999-12")).toBe("December 1999");
   });
 
   it("refuses what is not an ISO date", () => {

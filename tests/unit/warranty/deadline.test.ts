@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { compareByDeadline, filingDeadline } from "../../../server/warranty/deadline.js";
+import { compareByDeadline, filingDeadline } from "../../../server/services/warranty/deadline.js";
 
 describe("filingDeadline(closed, days, today)", () => {
   // RO closed 2025-01-20; 2025-01-20 + 30 days = 2025-02-19 (11 days left in January + 19 in February)

@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
-import { coverageClassFor, eligibility, termsFor, DEFAULT_TERMS } from "../../../server/warranty/eligibility.js";
-import { addMonths } from "../../../server/warranty/dates.js";
+import { coverageClassFor, eligibility, termsFor, DEFAULT_TERMS } from "../../../server/services/warranty/eligibility.js";
+import { addMonths } from "../../../shared/dates.js";
 
 // Terms from the demo world (common practice, no source): engine 36 months / 3,000 h, base 24 months / 2,000 h.
 const engine = { months: 36, hours: 3000 };

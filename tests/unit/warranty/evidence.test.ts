@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { amountOf, interpretMeasurements, mainEngineFamily } from "../../../server/warranty/evidence.js";
+import { amountOf, interpretMeasurements, mainEngineFamily } from "../../../server/services/warranty/evidence.js";
 import type { MeasurementRow } from "../../../server/db/queries/claims.js";
 
 const m = (kind: string, position: number, attempt: number, value: number | null, raw = String(value), overRange = false): MeasurementRow => ({

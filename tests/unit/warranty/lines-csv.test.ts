@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { parse } from "csv-parse/sync";
-import { neutralise } from "../../../server/warranty/lines-csv.js";
+import { csvCell as neutralise } from "../../../shared/csv-cell.js";
 
 describe("neutralise(cell)", () => {
   it("prefixes an apostrophe to text that a spreadsheet would run as a formula", () => {

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { checkMove } from "../../../server/warranty/status.js";
+import { checkMove } from "../../../server/services/warranty/status.js";
 
 describe("checkMove(from, change)", () => {
   it("allows draft → submitted → accepted → credited", () => {

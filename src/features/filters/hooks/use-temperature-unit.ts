@@ -10,7 +10,10 @@ const read = (): "C" | "F" => {
   }
 };
 
-/** The user's temperature unit (°C or °F), kept in this browser's localStorage and shared by every page. */
+/**
+ * The user's temperature unit (°C or °F), kept in this browser's localStorage and shared by every page.
+ * Hand-written over useSyncExternalStore rather than a storage-hook library: one key with two values needs no dependency.
+ */
 export function useTemperatureUnit(): ["C" | "F", (u: "C" | "F") => void] {
   const unit = useSyncExternalStore(
     (cb) => {

@@ -1,11 +1,16 @@
+/**
+ * Sending claim packets by mail: the packet is rendered afresh and handed to the mail server; a send the
+ * server does not take is retried through pg-boss.
+ */
 import type PgBoss from "pg-boss";
-import type { Db } from "../db/database.js";
-import type { Mailer } from "../services/mailer.js";
-import type { Storage } from "../services/storage.js";
-import { logger } from "../logger.js";
-import { getSend, insertSend, recordSendAttempt, type Actor } from "../db/queries/claims.js";
-import { claimDetail, packetSnapshot } from "./claims-service.js";
-import { renderPacket } from "./packet.js";
+import type { Db } from "../../db/database.js";
+import type { Mailer } from "../mailer.js";
+import type { Storage } from "../storage.js";
+import { logger } from "../../logger.js";
+import { getSend, insertSend, recordSendAttempt, type Actor } from "../../db/queries/claims.js";
+import type { ClaimDetail } from "../../../shared/schemas/claims.js";
+import { HttpError } from "../../errors.js";
+import { claimDetail, packetPdf } from "./claims-service.js";
 import { claimLinesCsv } from "./lines-csv.js";
 
 export const SEND_QUEUE = "claim-packet-send";
@@ -37,7 +42,7 @@ export async function deliver(deps: SendDeps, sendId: string): Promise<string> {
   if (!s) throw new Error(`send ${sendId} does not exist`);
   // the send was authorised when it was requested; the worker reads the claim group-wide
   const detail = await claimDetail({ db: deps.db, storage: deps.storage, canSend: true }, { kind: "all" }, String(s.claim_id));
-  const pdf = await renderPacket(await packetSnapshot(deps, detail));
+  const pdf = await packetPdf(deps, detail);
   const csv = claimLinesCsv(detail.claimNumber, detail.lines);
   const info = await deps.mailer.transport.sendMail({
     from: deps.mailer.from,
@@ -78,6 +83,16 @@ export async function requestSend(deps: SendDeps, claimId: string, toAddress: st
       await recordSendAttempt(deps.db, sendId, { status: "failed", error: `${error} No retry queue is running here: send it again once mail works.` });
     }
   }
+}
+
+/** A send asked for on the claim page: refused in words without mail, or while the last send is still pending. */
+export async function sendPacket(deps: Omit<SendDeps, "mailer"> & { mailer?: Mailer }, claim: ClaimDetail, actor: Actor): Promise<void> {
+  const { mailer } = deps;
+  if (!mailer) throw new HttpError(503, "mail_unavailable", "Mail is not configured on this server, so the packet cannot be sent from here. Download it instead.");
+  const pending = claim.sends.at(-1);
+  if (pending && (pending.status === "queued" || pending.status === "sending"))
+    throw new HttpError(409, "send_pending", `This packet is already ${pending.status === "queued" ? "queued for a retry" : "being sent"} to ${pending.toAddress}; it will go once the mail server takes it.`);
+  await requestSend({ ...deps, mailer }, claim.id, claim.warrantyEmail, actor);
 }
 
 /**

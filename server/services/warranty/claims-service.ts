@@ -1,20 +1,25 @@
-import { GetObjectCommand } from "@aws-sdk/client-s3";
-import type { Db } from "../db/database.js";
-import type { ShopScope } from "../../shared/schemas/me.js";
-import type { ClaimCandidate, ClaimDetail, ClaimPreview, ClaimSend, ClaimSummary, ClusterSnapshot, CreateClaim, RepairLineEvidence } from "../../shared/schemas/claims.js";
-import { safetyCautions } from "../../shared/measurement-interpretation.js";
-import { HttpError, notFound } from "../errors.js";
-import type { Storage } from "../services/storage.js";
-import { clusterCaution, clusterMethod, findClusters, toCluster } from "../services/cluster-finder.js";
+/**
+ * Warranty claims: previews and drafts from a repair line or a cluster, the claim queue, and a claim with its
+ * evidence, audit trail, attachments and sends.
+ */
+import { buffer } from "node:stream/consumers";
+import type { Db } from "../../db/database.js";
+import type { ShopScope } from "../../../shared/schemas/me.js";
+import type { ClaimCandidate, ClaimDetail, ClaimPreview, ClaimSend, ClaimStatus, ClaimSummary, ClusterSnapshot, CreateClaim, RepairLineEvidence } from "../../../shared/schemas/claims.js";
+import { safetyCautions } from "../../../shared/measurement-interpretation.js";
+import { HttpError, notFound } from "../../errors.js";
+import type { Storage } from "../storage.js";
+import { clusterCaution, clusterMethod, findClusters, toCluster } from "../cluster-finder.js";
 import {
   claimAttachments, claimAudit, claimLineKeys, claimSends, claimsHoldingLines, getClaim, insertClaim, listClaims, policyFor,
-  hourTrail, repairLinesByKeys, unclaimedCandidateKeys, type Actor,
-} from "../db/queries/claims.js";
+  hourTrail, repairLinesByKeys, unclaimedCandidateKeys, type Actor, type ClaimRow,
+} from "../../db/queries/claims.js";
 import { amountOf, eligibilityCounts, mainEngineFamily, toEvidence } from "./evidence.js";
 import { DEFAULT_TERMS } from "./eligibility.js";
 import { compareByDeadline, filingDeadline } from "./deadline.js";
-import { allowedMoves, type ClaimStatus } from "./status.js";
-import { todayIso } from "./dates.js";
+import { allowedMoves } from "./status.js";
+import { todayIso } from "../../../shared/dates.js";
+import { renderPacket } from "./packet.js";
 import type { ClaimSnapshotForPacket, PacketAttachment } from "./packet-types.js";
 
 const iso = (d: Date | string | null) => (d === null ? null : d instanceof Date ? d.toISOString() : new Date(d).toISOString());
@@ -184,8 +189,7 @@ const toSend = (s: SendRow): ClaimSend => ({
   sentAt: iso(s.sent_at),
 });
 
-type ClaimRowT = NonNullable<Awaited<ReturnType<typeof getClaim>>>;
-function toSummary(c: ClaimRowT, lineCount: number, lastSend: ClaimSend | null, today: string): ClaimSummary {
+function toSummary(c: ClaimRow, lineCount: number, lastSend: ClaimSend | null, today: string): ClaimSummary {
   return {
     id: String(c.claim_id),
     claimNumber: c.claim_number,
@@ -218,6 +222,13 @@ export async function claimQueue(db: Db, scope: ShopScope): Promise<{ today: str
   return { today, claims: [...open, ...filed] };
 }
 
+/** The claim's row when it is in the caller's scope; 404 otherwise. */
+export async function claimInScope(db: Db, scope: ShopScope, id: string): Promise<ClaimRow> {
+  const c = await getClaim(db, scope, id);
+  if (!c) throw notFound(`Claim ${id}`);
+  return c;
+}
+
 export interface DetailDeps {
   db: Db;
   storage?: Storage;
@@ -228,8 +239,7 @@ export interface DetailDeps {
 export async function claimDetail(deps: DetailDeps, scope: ShopScope, id: string): Promise<ClaimDetail> {
   const { db } = deps;
   const today = todayIso();
-  const c = await getClaim(db, scope, id);
-  if (!c) throw notFound(`Claim ${id}`);
+  const c = await claimInScope(db, scope, id);
   const keys = await claimLineKeys(db, id);
   // the claim's own scope was checked above; its lines are read group-wide so a campaign case stays whole
   const lines = await evidenceFor(db, { kind: "all" }, keys, today);
@@ -265,18 +275,13 @@ export async function claimDetail(deps: DetailDeps, scope: ShopScope, id: string
   };
 }
 
-export async function readObject(storage: Storage, key: string): Promise<Buffer> {
-  const out = await storage.client.send(new GetObjectCommand({ Bucket: storage.bucket, Key: key }));
-  return Buffer.from(await out.Body!.transformToByteArray());
-}
-
-/** Everything the packet needs, with the attachments' bytes read from object storage. */
-export async function packetSnapshot(deps: { db: Db; storage?: Storage }, detail: ClaimDetail): Promise<ClaimSnapshotForPacket> {
+/** Everything the packet needs, with the embeddable images' bytes read from object storage. */
+async function packetSnapshot(deps: { db: Db; storage?: Storage }, detail: ClaimDetail): Promise<ClaimSnapshotForPacket> {
   const rows = await claimAttachments(deps.db, detail.id);
   const attachments: PacketAttachment[] = [];
   for (const a of rows) {
     let data: Buffer | null = null;
-    if (deps.storage && (a.content_type === "image/png" || a.content_type === "image/jpeg")) data = await readObject(deps.storage, a.s3_key);
+    if (deps.storage && (a.content_type === "image/png" || a.content_type === "image/jpeg")) data = await buffer((await deps.storage.getObject(a.s3_key)).body);
     attachments.push({ originalName: a.original_name, contentType: a.content_type, sizeBytes: a.size_bytes, uploadedAt: iso(a.uploaded_at)!, uploadedBy: a.uploaded_by, data });
   }
   return {
@@ -300,4 +305,9 @@ export async function packetSnapshot(deps: { db: Db; storage?: Storage }, detail
     cautions: detail.cautions,
     generatedAt: new Date().toISOString(),
   };
+}
+
+/** The claim packet as a PDF, rendered afresh from the claim as it stands. */
+export async function packetPdf(deps: { db: Db; storage?: Storage }, detail: ClaimDetail): Promise<Buffer> {
+  return await renderPacket(await packetSnapshot(deps, detail));
 }

@@ -1,5 +1,5 @@
-export const claimStatuses = ["draft", "submitted", "accepted", "rejected", "credited"] as const;
-export type ClaimStatus = (typeof claimStatuses)[number];
+/** A claim's states and the moves between them, with the reason in words when a move is refused. */
+import type { ClaimStatus } from "../../../shared/schemas/claims.js";
 
 export const statusLabels: Record<ClaimStatus, string> = {
   draft: "Draft",

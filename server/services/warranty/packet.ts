@@ -1,8 +1,9 @@
+/** The claim packet rendered as a PDF (pdfkit) from a snapshot gathered beforehand; no I/O here. */
 import PDFDocument from "pdfkit";
 import { createRequire } from "node:module";
 import type { ClaimSnapshotForPacket, PacketAttachment } from "./packet-types.js";
-import type { RepairLineEvidence } from "../../shared/schemas/claims.js";
-import { claimStatusLabels } from "../../shared/schemas/claims.js";
+import type { RepairLineEvidence } from "../../../shared/schemas/claims.js";
+import { claimStatusLabels } from "../../../shared/schemas/claims.js";
 
 const require = createRequire(import.meta.url);
 const FONT_REGULAR = require.resolve("@fontsource/inter-tight/files/inter-tight-latin-400-normal.woff");
@@ -76,6 +77,7 @@ function paragraph(doc: Doc, label: string, text: string) {
   doc.moveDown(0.4);
 }
 
+// Drawn by hand: pdfkit has no tables, and a few fixed-column tables do not justify a table plug-in.
 function table(doc: Doc, cols: Col[], rows: string[][], opts: { highlight?: (i: number) => boolean } = {}) {
   const total = cols.reduce((s, c) => s + c.width, 0);
   const scale = pageWidth(doc) / total;

@@ -1,6 +1,7 @@
-import { classifyPlug, classifyRailVoltage, summariseCompression } from "../../shared/measurement-interpretation.js";
-import type { EligibilityView, Interpretation, RepairLineEvidence } from "../../shared/schemas/claims.js";
-import type { FaultCodeRow, HourReadingRow, MeasurementRow, RepairLineRow } from "../db/queries/claims.js";
+/** A repair line as warranty evidence: its readings interpreted, its eligibility and filing deadline, and sums over lines. */
+import { classifyPlug, classifyRailVoltage, summariseCompression } from "../../../shared/measurement-interpretation.js";
+import type { EligibilityView, Interpretation, RepairLineEvidence } from "../../../shared/schemas/claims.js";
+import type { FaultCodeRow, HourReadingRow, MeasurementRow, RepairLineRow } from "../../db/queries/claims.js";
 import { coverageClassFor, eligibility, termsFor } from "./eligibility.js";
 import { filingDeadline } from "./deadline.js";
 

@@ -1,4 +1,6 @@
-import { addDays, daysBetween, plural } from "./dates.js";
+/** The filing deadline of a claim and the order of the claim queue. */
+import { addDays, daysBetween } from "../../../shared/dates.js";
+import { plural } from "../../../shared/text.js";
 
 /** Filing days after the repair order closed when no policy says otherwise (common practice, no source). */
 export const DEFAULT_CLAIM_DAYS = 30;

@@ -1,4 +1,5 @@
-import type { ClaimKind, ClaimStatus, ClusterSnapshot, RepairLineEvidence } from "../../shared/schemas/claims.js";
+/** The data the claim packet is rendered from. */
+import type { ClaimKind, ClaimStatus, ClusterSnapshot, RepairLineEvidence } from "../../../shared/schemas/claims.js";
 
 export interface PacketAttachment {
   originalName: string;

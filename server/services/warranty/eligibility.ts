@@ -1,4 +1,6 @@
-import { addMonths, daysBetween, plural } from "./dates.js";
+/** Warranty coverage of a failure: the coverage class, the terms, and the months and hours checks. */
+import { addMonths, daysBetween } from "../../../shared/dates.js";
+import { plural } from "../../../shared/text.js";
 
 export type CoverageClass = "base" | "engine";
 

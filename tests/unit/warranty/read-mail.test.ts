@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import nodemailer, { type SendMailOptions } from "nodemailer";
-import { decodeWords, parseMail } from "../../../server/warranty/mime.js";
+import { decodeWords, parseMail } from "../../helpers/read-mail.js";
 
 /** The raw message nodemailer would put on the wire, built without a server (stream transport). */
 async function build(message: SendMailOptions): Promise<Buffer> {
@@ -22,7 +22,7 @@ describe("parseMail(raw)", () => {
         { filename: "IL-26C00001-lines.csv", content: "a,b\r\n1,2\r\n", contentType: "text/csv" },
       ],
     });
-    const m = parseMail(raw);
+    const m = await parseMail(raw);
     expect(m.subject).toBe("Warranty claim IL-26C00001: lot BT-2109 – 85 failures at −18 °C");
     expect(m.text.trim()).toBe("The packet is attached.");
     expect(m.attachments.map((a) => [a.filename, a.contentType])).toEqual([
@@ -35,8 +35,8 @@ describe("parseMail(raw)", () => {
 });
 
 describe("decodeWords(header)", () => {
-  it("decodes base64 and quoted-printable encoded words and joins adjacent ones", () => {
-    expect(decodeWords("=?UTF-8?B?wrBG?=")).toBe("°F");
-    expect(decodeWords("=?UTF-8?Q?caf=C3=A9_au?= =?UTF-8?Q?_lait?=")).toBe("café au lait");
+  it("decodes base64 and quoted-printable encoded words and joins adjacent ones", async () => {
+    expect(await decodeWords("=?UTF-8?B?wrBG?=")).toBe("°F");
+    expect(await decodeWords("=?UTF-8?Q?caf=C3=A9_au?= =?UTF-8?Q?_lait?=")).toBe("café au lait");
   });
 });

@@ -1,16 +1,7 @@
+/** A claim's repair lines as a CSV file, the attachment sent with the packet and the claim page's download. */
 import { stringify } from "csv-stringify/sync";
-import type { RepairLineEvidence } from "../../shared/schemas/claims.js";
-
-/**
- * A cell a spreadsheet would read as a formula (it starts with = + - @, or a tab or carriage return) gets
- * a leading apostrophe, so the text shows as typed and nothing runs.
- */
-export function neutralise(v: string | number | null | undefined): string {
-  if (v === null || v === undefined) return "";
-  const s = typeof v === "number" ? String(v) : v;
-  if (typeof v === "number") return s;
-  return /^[=+\-@\t\r]/.test(s) ? `'${s}` : s;
-}
+import type { RepairLineEvidence } from "../../../shared/schemas/claims.js";
+import { csvCell } from "../../../shared/csv-cell.js";
 
 export const lineCsvColumns = [
   "claim_number", "shop", "ro_number", "line_no", "opened", "closed", "serial", "model_line", "engine_family", "delivery_date",
@@ -25,7 +16,7 @@ export function claimLinesCsv(claimNumber: string, lines: readonly RepairLineEvi
       claimNumber, l.shopCode, l.roNumber, l.lineNo, l.openedDate, l.closedDate, l.machine.serial, l.machine.modelLine, l.machine.engineFamily,
       l.machine.deliveryDate, l.hourMeter, l.component.name, l.complaint, l.cause, l.correction, l.partNumber, l.supplierLot, l.laborOp,
       l.standardHours, l.laborHours, l.partsCost, l.laborCost, l.eligibility.verdict, l.eligibility.summary, l.deadline?.deadline ?? null,
-    ].map(neutralise),
+    ].map(csvCell),
   );
   return stringify([[...lineCsvColumns], ...rows], { record_delimiter: "\r\n" });
 }

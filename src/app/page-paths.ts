@@ -1,0 +1,19 @@
+/**
+ * Where each page lives. The router mounts its pages at these patterns, and a page that links to another
+ * page reads the path from here: a page never imports the router (that would be an import cycle).
+ */
+export const pagePaths = {
+  overview: "/",
+  clusters: "/clusters",
+  cluster: "/clusters/:id",
+  rates: "/rates",
+  life: "/life",
+  repairs: "/repairs",
+  repair: "/repairs/:id",
+  benchmarks: "/benchmarks",
+  claims: "/claims",
+  claimNew: "/claims/new",
+  claim: "/claims/:id",
+  adminUsers: "/admin/users",
+  adminMail: "/admin/mail",
+} as const;
