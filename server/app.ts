@@ -1,9 +1,12 @@
 import express from "express";
+import compression from "compression";
 import { createHmac } from "node:crypto";
 import helmet from "helmet";
 import { pinoHttp } from "pino-http";
 import path from "node:path";
 import { existsSync } from "node:fs";
+import { dataEtag } from "./http/data-etag.js";
+import { serveClient } from "./http/static-files.js";
 import type pg from "pg";
 import type { Db } from "./db/database.js";
 import { logger } from "./logger.js";
@@ -66,6 +69,8 @@ export function createApp(d: AppDeps): express.Express {
       strictTransportSecurity: secure,
     }),
   );
+  // brotli or gzip for JSON, CSV, JS and CSS when the client accepts it (responses under 1 kB go as they are)
+  app.use(compression({ threshold: 1024 }));
   app.use(express.json({ limit: "1mb" }));
   app.use(createSessionMiddleware(d.pool, d.sessionSecret, secure));
 
@@ -88,13 +93,13 @@ export function createApp(d: AppDeps): express.Express {
   app.use("/api/admin/mail", adminMailRoutes(d.mailArchive ?? null));
   // peer letters for managers are keyed by the configured secret, else one derived from the session secret (stable across restarts)
   const peerSecret = d.benchmarkPeerSecret ?? createHmac("sha256", d.sessionSecret).update("benchmark-peers").digest("hex");
+  // answers computed from the warehouse alone: 304 while the data has not changed since the client's copy
+  app.use(["/api/analytics", "/api/repairs"], dataEtag(d.db));
   app.use("/api", apiRoutes(d.db, { storage: d.storage, mailer: d.mailer, boss: d.boss }, peerSecret));
   app.use("/api", apiNotFound);
 
   if (d.staticDir && existsSync(path.join(d.staticDir, "index.html"))) {
-    const dir = d.staticDir;
-    app.use(express.static(dir, { index: false, maxAge: "1h" }));
-    app.get("/{*splat}", (_req, res) => res.sendFile(path.join(dir, "index.html")));
+    serveClient(app, d.staticDir);
   }
   app.use(errorHandler);
   return app;
