@@ -45,11 +45,11 @@ function visit(path: string) {
 
 const retryButtons = () => screen.queryAllByRole("button", { name: /retry|reload/i });
 
-describe("route area error boundaries", () => {
+describe("route area error boundaries", { timeout: 20_000 }, () => {
   it("says a missing claim was not found, inside the layout, with no retry", async () => {
     answers[apiPaths.claim("42")] = fail(404, "not_found", "Claim 42 was not found.");
     visit("/claims/42");
-    await screen.findByRole("heading", { name: /not found/i });
+    await screen.findByRole("heading", { name: /not found/i }, { timeout: 10_000 });
     expect(screen.getByText("Claim 42 was not found.")).toBeTruthy();
     expect(screen.getByRole("link", { name: "All claims" }).getAttribute("href")).toBe("/claims");
     expect(screen.getByRole("navigation", { name: "Main" })).toBeTruthy();
@@ -59,7 +59,7 @@ describe("route area error boundaries", () => {
   it("says a cluster the page itself could not find was not found (the error thrown while rendering)", async () => {
     answers[apiPaths.cluster("c0ffee")] = fail(404, "cluster_not_found", "That cluster is not in the current scan.");
     visit("/clusters/c0ffee");
-    await screen.findByRole("heading", { name: /not found/i });
+    await screen.findByRole("heading", { name: /not found/i }, { timeout: 10_000 });
     expect(screen.getByText("That cluster is not in the current scan.")).toBeTruthy();
     expect(screen.getByRole("link", { name: "All clusters" })).toBeTruthy();
     expect(retryButtons()).toEqual([]);
@@ -68,7 +68,7 @@ describe("route area error boundaries", () => {
   it("tells someone without the role that they do not have access, with no retry", async () => {
     answers[apiPaths.adminUsers()] = fail(403, "forbidden", "Your role does not allow access to this page.");
     visit("/admin/users");
-    await screen.findByText("You do not have access to the administration pages.");
+    await screen.findByText("You do not have access to the administration pages.", {}, { timeout: 10_000 });
     expect(screen.getByRole("navigation", { name: "Main" })).toBeTruthy();
     expect(within(screen.getByRole("alert")).getByRole("link", { name: "Overview" }).getAttribute("href")).toBe("/");
     expect(retryButtons()).toEqual([]);
@@ -77,7 +77,7 @@ describe("route area error boundaries", () => {
   it("offers sign-in when the session ended, returning to the same page", async () => {
     answers[apiPaths.claim("7")] = fail(401, "unauthorized", "Sign in to use Ironledger.");
     visit("/claims/7");
-    const link = await screen.findByRole("link", { name: "Sign in" });
+    const link = await screen.findByRole("link", { name: "Sign in" }, { timeout: 10_000 });
     expect(link.getAttribute("href")).toBe(apiPaths.login("/claims/7"));
     expect(retryButtons()).toEqual([]);
   });
@@ -94,12 +94,12 @@ describe("route area error boundaries", () => {
 
 });
 
-describe("route loaders", () => {
+describe("route loaders", { timeout: 20_000 }, () => {
   it("have the claim list in the cache before the page renders, so the page never shows its skeleton", async () => {
     answers[apiPaths.claims()] = { status: 200, body: { today: "2025-06-02", claims: [] }, delayMs: 300 };
     answers[apiPaths.claimCandidates()] = { status: 200, body: { candidates: [] } };
     visit("/claims");
-    await screen.findByRole("heading", { name: "Warranty claims", level: 1 }, { timeout: 3000, interval: 20 });
+    await screen.findByRole("heading", { name: "Warranty claims", level: 1 }, { timeout: 10_000, interval: 20 });
     expect(screen.queryByRole("status", { name: "Loading claims" })).toBeNull();
     expect(screen.getByText("No claims yet")).toBeTruthy();
   });
