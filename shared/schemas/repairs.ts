@@ -7,19 +7,29 @@ export const repairSortKeys = [
 ] as const;
 export type RepairSortKey = (typeof repairSortKeys)[number];
 
+/** How deep `page` may reach by number (rows skipped); further on, the list is followed by cursor. */
+export const REPAIR_PAGE_MAX_OFFSET = 10_000;
+
 /**
  * GET /api/repairs and /api/repairs.csv: the shared analytics filters (parsed separately with
- * analyticsFiltersSchema) plus these list parameters.
+ * analyticsFiltersSchema) plus these list parameters. `cursor` (a nextCursor or prevCursor the list handed
+ * out) takes the place of `page`; page numbers reach only the first REPAIR_PAGE_MAX_OFFSET rows.
  */
-export const repairListQuerySchema = z.object({
-  q: z.string().trim().max(100).optional().transform((s) => (s ? s : undefined)),
-  lineType: z.enum(lineTypes).optional(),
-  payType: z.enum(payTypes).optional(),
-  page: z.coerce.number().int().min(1).default(1),
-  pageSize: z.coerce.number().int().min(5).max(200).default(25),
-  sort: z.enum(repairSortKeys).default("opened"),
-  dir: z.enum(["asc", "desc"]).default("desc"),
-});
+export const repairListQuerySchema = z
+  .object({
+    q: z.string().trim().max(100).optional().transform((s) => (s ? s : undefined)),
+    lineType: z.enum(lineTypes).optional(),
+    payType: z.enum(payTypes).optional(),
+    page: z.coerce.number().int().min(1).default(1),
+    pageSize: z.coerce.number().int().min(5).max(200).default(25),
+    sort: z.enum(repairSortKeys).default("opened"),
+    dir: z.enum(["asc", "desc"]).default("desc"),
+    cursor: z.string().min(1).max(2000).optional(),
+  })
+  .refine((l) => l.cursor !== undefined || (l.page - 1) * l.pageSize <= REPAIR_PAGE_MAX_OFFSET, {
+    path: ["page"],
+    message: `page numbers reach the first ${REPAIR_PAGE_MAX_OFFSET.toLocaleString("en-US")} lines; follow nextCursor to go further`,
+  });
 export type RepairListQuery = z.infer<typeof repairListQuerySchema>;
 
 export const repairRowSchema = z.object({
@@ -47,12 +57,33 @@ export const repairRowSchema = z.object({
 });
 export type RepairRow = z.infer<typeof repairRowSchema>;
 
-/** GET /api/repairs */
+/**
+ * What a list cursor holds once decoded: the sort it belongs to, whether it leads forward (after) or back
+ * (before) from the row whose sort values it carries, the number of the page it leads to, and the total the
+ * first page found (both for display; the pages after the first do not count again).
+ */
+export const repairCursorSchema = z.object({
+  sort: z.enum(repairSortKeys),
+  dir: z.enum(["asc", "desc"]),
+  toward: z.enum(["after", "before"]),
+  page: z.number().int().min(1),
+  values: z.array(z.string().max(200)).min(2).max(6),
+  total: z.number().int().min(0),
+  totalIsEstimate: z.boolean(),
+});
+export type RepairCursor = z.infer<typeof repairCursorSchema>;
+
+/** GET /api/repairs: `total` is exact, or PostgreSQL's estimate when `totalIsEstimate` (broad filters). */
 export const repairListSchema = z.object({
   total: z.number(),
+  totalIsEstimate: z.boolean(),
   page: z.number(),
   pageSize: z.number(),
   rows: z.array(repairRowSchema),
+  /** the page after this one, or null on the last page */
+  nextCursor: z.string().nullable(),
+  /** the page before this one, or null on the first page */
+  prevCursor: z.string().nullable(),
 });
 export type RepairList = z.infer<typeof repairListSchema>;
 

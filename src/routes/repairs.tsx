@@ -3,6 +3,7 @@ import { useState } from "react";
 import { useSearchParams } from "react-router-dom";
 import { repairQueries } from "@/features/repairs/api/repair-queries";
 import { RepairTable } from "@/features/repairs/components/repair-table";
+import { RepairPager } from "@/features/repairs/components/repair-pager";
 import { FilterBar } from "@/features/filters/components/filter-bar";
 import { QueryView } from "@/features/filters/components/query-view";
 import { readFilters, useFilters } from "@/features/filters/use-filters";
@@ -11,7 +12,8 @@ import type { PrimeCache } from "@/app/page-loader";
 import { apiPaths } from "@shared/api-paths";
 
 // prefetched, not awaited: paging, sorting and searching change the URL, and the page keeps showing the
-// previous rows while the next ones load (keepPreviousData) instead of freezing until they arrive
+// previous rows while the next ones load (keepPreviousData) instead of freezing until they arrive.
+// Paging follows the cursors the API hands out (cursor + at in the URL), so a deep page costs what the first does.
 export const primeCache: PrimeCache = (qc, { url }) => {
   void qc.prefetchQuery(repairQueries.list(readRepairListParams(url.searchParams, readFilters(url.searchParams).search).listSearch));
 };
@@ -19,7 +21,7 @@ export const primeCache: PrimeCache = (qc, { url }) => {
 export function Component() {
   const { search } = useFilters();
   const [params, setParams] = useSearchParams();
-  const { q, page, pageSize, sort, dir, listSearch, csvSearch } = readRepairListParams(params, search);
+  const { q, pageSize, sort, dir, at, listSearch, csvSearch } = readRepairListParams(params, search);
   const [text, setText] = useState(q);
 
   const set = (next: Record<string, string | number | undefined>) => {
@@ -27,6 +29,8 @@ export function Component() {
     for (const [k, v] of Object.entries(next)) (v === undefined || v === "" ? p.delete(k) : p.set(k, String(v)));
     setParams(p, { replace: true });
   };
+  const moveTo = (cursor: string | null) => (cursor ? () => set({ cursor, at }) : null);
+  const fromTop = { cursor: undefined, at: undefined };
   const list = useQuery(repairQueries.list(listSearch));
 
   return (
@@ -41,7 +45,7 @@ export function Component() {
         className="flex flex-wrap items-center gap-2"
         onSubmit={(e) => {
           e.preventDefault();
-          set({ q: text.trim(), page: undefined });
+          set({ q: text.trim(), ...fromTop });
         }}
       >
         <label htmlFor="repair-search" className="text-sm font-semibold">Search</label>
@@ -63,10 +67,23 @@ export function Component() {
           <RepairTable
             rows={d.rows}
             total={d.total}
-            pagination={{ pageIndex: page - 1, pageSize }}
+            totalIsEstimate={d.totalIsEstimate}
+            loading={list.isPlaceholderData}
             sort={{ id: sort, desc: dir === "desc" }}
-            onPagination={(p) => set({ page: p.pageIndex + 1, pageSize: p.pageSize })}
-            onSort={(s) => set({ sort: s.id, dir: s.desc ? "desc" : "asc", page: undefined })}
+            onSort={(s) => set({ sort: s.id, dir: s.desc ? "desc" : "asc", ...fromTop })}
+            pager={
+              <RepairPager
+                page={d.page}
+                pageSize={pageSize}
+                total={d.total}
+                totalIsEstimate={d.totalIsEstimate}
+                loading={list.isPlaceholderData}
+                onFirst={d.prevCursor ? () => set(fromTop) : null}
+                onPrevious={moveTo(d.prevCursor)}
+                onNext={moveTo(d.nextCursor)}
+                onPageSize={(n) => set({ pageSize: n, ...fromTop })}
+              />
+            }
           />
         )}
       </QueryView>

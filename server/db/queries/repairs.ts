@@ -1,3 +1,9 @@
+/**
+ * Repair lines: one line in full, and the list behind the repairs page and its CSV. The list is read by
+ * keyset: every sort is a tuple of columns in one direction ending in the unique repair_line_key, matched by
+ * an index (migration 0042), and a page starts after (or before) the sort values of a row instead of counting
+ * rows off. Totals are counted only while that is cheap; past that they are PostgreSQL's estimate.
+ */
 import { sql, type RawBuilder } from "kysely";
 import type { Db } from "../database.js";
 import type { ShopScope } from "../../../shared/schemas/me.js";
@@ -14,6 +20,15 @@ export interface RepairFilter {
   ids?: readonly string[];
 }
 
+type Dir = "asc" | "desc";
+/** The tables of the list's join by alias: repair line, shop, machine, component, weather. */
+type Alias = "fl" | "s" | "m" | "c" | "w";
+/** One WHERE condition and the tables it reads. */
+interface Condition {
+  sql: RawBuilder<unknown>;
+  reads: readonly Alias[];
+}
+
 const emptyFilters: AnalyticsFilters = {
   shops: [], engineFamilies: [], modelLines: [], components: [], lots: [], tempBands: [], hourBands: [],
 };
@@ -26,33 +41,37 @@ const likeEscape = (s: string) => s.replace(/[\\%_]/g, (c) => `\\${c}`);
  * dim_component c and fact_weather_day w (that shop's weather on the day the order opened). The caller's
  * scope applies to the repairing shop: a manager sees the lines their shops wrote.
  */
-function conditions(scope: ShopScope, r: RepairFilter): RawBuilder<unknown> {
+function conditionList(scope: ShopScope, r: RepairFilter): Condition[] {
   const f = r.filters;
-  const parts: RawBuilder<unknown>[] = [];
+  const parts: Condition[] = [];
+  const on = (reads: readonly Alias[], cond: RawBuilder<unknown>) => parts.push({ sql: cond, reads });
   const scoped = scopedShopCodes(scope);
-  if (scoped) parts.push(scoped.length ? inList(sql.ref("s.shop_code"), scoped) : sql`FALSE`);
-  if (r.ids) parts.push(r.ids.length ? sql`fl.repair_line_key IN (${sql.join(r.ids.map((id) => sql`${id}::bigint`))})` : sql`FALSE`);
-  if (f.from) parts.push(sql`fl.opened_date >= ${f.from}::date`);
-  if (f.to) parts.push(sql`fl.opened_date <= ${f.to}::date`);
-  if (f.shops.length) parts.push(inList(sql.ref("s.shop_code"), f.shops.map((s) => s.toUpperCase())));
-  if (f.engineFamilies.length) parts.push(inList(sql.ref("m.engine_family"), f.engineFamilies));
-  if (f.modelLines.length) parts.push(inList(sql.ref("m.model_line"), f.modelLines));
-  if (f.components.length) parts.push(inList(sql.ref("c.component_code"), f.components));
-  if (f.lots.length) parts.push(sql`(${inList(sql.ref("m.heater_plug_lot"), f.lots)} OR ${inList(sql.ref("fl.supplier_lot"), f.lots)})`);
+  if (scoped) on(["s"], scoped.length ? inList(sql.ref("s.shop_code"), scoped) : sql`FALSE`);
+  if (r.ids) on(["fl"], r.ids.length ? sql`fl.repair_line_key IN (${sql.join(r.ids.map((id) => sql`${id}::bigint`))})` : sql`FALSE`);
+  if (f.from) on(["fl"], sql`fl.opened_date >= ${f.from}::date`);
+  if (f.to) on(["fl"], sql`fl.opened_date <= ${f.to}::date`);
+  if (f.shops.length) on(["s"], inList(sql.ref("s.shop_code"), f.shops.map((s) => s.toUpperCase())));
+  if (f.engineFamilies.length) on(["m"], inList(sql.ref("m.engine_family"), f.engineFamilies));
+  if (f.modelLines.length) on(["m"], inList(sql.ref("m.model_line"), f.modelLines));
+  if (f.components.length) on(["c"], inList(sql.ref("c.component_code"), f.components));
+  if (f.lots.length) on(["m", "fl"], sql`(${inList(sql.ref("m.heater_plug_lot"), f.lots)} OR ${inList(sql.ref("fl.supplier_lot"), f.lots)})`);
   const build = sql`date_trunc('month', coalesce(m.build_date, m.delivery_date))::date`;
-  if (f.buildFrom) parts.push(sql`${build} >= ${`${f.buildFrom}-01`}::date`);
-  if (f.buildTo) parts.push(sql`${build} <= ${`${f.buildTo}-01`}::date`);
-  if (f.tempBands.length) parts.push(inList(temperatureBandSql(sql`w.tmin_c`), f.tempBands));
-  if (f.hourBands.length) parts.push(inList(hourBandSql(sql`fl.hour_meter`), f.hourBands));
-  if (r.list.lineType) parts.push(sql`fl.line_type = ${r.list.lineType}`);
-  if (r.list.payType) parts.push(sql`fl.pay_type = ${r.list.payType}`);
+  if (f.buildFrom) on(["m"], sql`${build} >= ${`${f.buildFrom}-01`}::date`);
+  if (f.buildTo) on(["m"], sql`${build} <= ${`${f.buildTo}-01`}::date`);
+  if (f.tempBands.length) on(["w"], inList(temperatureBandSql(sql`w.tmin_c`), f.tempBands));
+  if (f.hourBands.length) on(["fl"], inList(hourBandSql(sql`fl.hour_meter`), f.hourBands));
+  if (r.list.lineType) on(["fl"], sql`fl.line_type = ${r.list.lineType}`);
+  if (r.list.payType) on(["fl"], sql`fl.pay_type = ${r.list.payType}`);
   if (r.list.q) {
     const like = `%${likeEscape(r.list.q)}%`;
-    parts.push(sql`(fl.ro_number ILIKE ${like} OR m.serial ILIKE ${like} OR fl.complaint ILIKE ${like} OR fl.cause ILIKE ${like}
+    on(["fl", "m", "c"], sql`(fl.ro_number ILIKE ${like} OR m.serial ILIKE ${like} OR fl.complaint ILIKE ${like} OR fl.cause ILIKE ${like}
       OR fl.correction ILIKE ${like} OR fl.part_number ILIKE ${like} OR fl.supplier_lot ILIKE ${like} OR c.name ILIKE ${like})`);
   }
-  return parts.length ? sql.join(parts, sql` AND `) : sql`TRUE`;
+  return parts;
 }
+
+const allOf = (parts: readonly Condition[]) => (parts.length ? sql.join(parts.map((p) => p.sql), sql` AND `) : sql`TRUE`);
+const conditions = (scope: ShopScope, r: RepairFilter) => allOf(conditionList(scope, r));
 
 const FROM = sql`
   FROM fact_repair_line fl
@@ -68,23 +87,101 @@ const SELECT = sql`
          fl.hour_meter, fl.labor_hours, fl.standard_hours, fl.complaint, fl.cause, fl.part_number, fl.supplier_lot,
          t.tech_id AS technician`;
 
-const sortColumns: Record<RepairSortKey, RawBuilder<unknown>> = {
-  opened: sql`fl.opened_date`,
-  closed: sql`fl.closed_date`,
-  shop: sql`s.shop_code`,
-  ro: sql`fl.ro_number`,
-  serial: sql`m.serial`,
-  model: sql`m.model_line`,
-  engineFamily: sql`m.engine_family`,
-  component: sql`c.name`,
-  hours: sql`fl.hour_meter`,
-  laborHours: sql`fl.labor_hours`,
-  payType: sql`fl.pay_type`,
-  lineType: sql`fl.line_type`,
+/** The type of one sort value, which says how a cursor's copy of it is checked and cast back. */
+type ValueKind = "date" | "numeric" | "text" | "int" | "bigint";
+interface OrderKey {
+  expr: RawBuilder<unknown>;
+  kind: ValueKind;
+}
+const orderKey = (expr: RawBuilder<unknown>, kind: ValueKind): OrderKey => ({ expr, kind });
+
+/**
+ * A list order: keys all sorted one way, the last one unique. A sort on a repair-line column has an index on
+ * its keys (migration 0042). A sort on a shop, machine or component column is led by groups: it walks those
+ * rows in order and reads each one's lines through the fact index that starts with the group's key, so its
+ * first keys are the group's and the rest are WITHIN_GROUP.
+ */
+interface ListOrder {
+  keys: OrderKey[];
+  groups?: {
+    /** the rows naming the groups, under the alias the list's conditions use for them */
+    source: RawBuilder<unknown>;
+    reads: Alias;
+    /** the leading keys of the order as the source names them */
+    keys: RawBuilder<unknown>[];
+    /** a group's id in the source and the fact column that holds it */
+    id: RawBuilder<unknown>;
+    factColumn: RawBuilder<unknown>;
+  };
+}
+
+const OPENED = orderKey(sql`fl.opened_date`, "date");
+const RO_LINE_ID = [orderKey(sql`fl.ro_number`, "text"), orderKey(sql`fl.line_no`, "int"), orderKey(sql`fl.repair_line_key`, "bigint")];
+const WITHIN_GROUP = [OPENED, ...RO_LINE_ID];
+
+/** A nullable column sorted with its empty cells last either way (as the index expressions of 0042 write it). */
+function nullsLast(column: RawBuilder<unknown>, kind: "date" | "numeric", dir: Dir): OrderKey {
+  const sentinel = { date: { asc: sql`'infinity'::date`, desc: sql`'-infinity'::date` }, numeric: { asc: sql`'Infinity'::numeric`, desc: sql`'-Infinity'::numeric` } }[kind][dir];
+  return orderKey(sql`coalesce(${column}, ${sentinel})`, kind);
+}
+
+/** Machines in the order of one of their columns (serial is unique; the others are followed by the machine's key). */
+const machineGroups = (column: "serial" | "model_line" | "engine_family"): ListOrder => {
+  const byColumn = column === "serial" ? [sql.ref(`m.${column}`)] : [sql.ref(`m.${column}`), sql`m.machine_key`];
+  return {
+    keys: [...byColumn.map((e, i) => orderKey(e, i ? "bigint" : "text")), ...WITHIN_GROUP],
+    groups: { source: sql`dim_machine m`, reads: "m", keys: byColumn, id: sql`m.machine_key`, factColumn: sql`fl.machine_key` },
+  };
 };
 
-const orderBy = (sort: RepairSortKey, dir: "asc" | "desc") =>
-  sql`ORDER BY ${sortColumns[sort]} ${sql.raw(dir === "asc" ? "ASC NULLS LAST" : "DESC NULLS LAST")}, fl.ro_number, fl.line_no, fl.repair_line_key`;
+/** The order of a sort; `dir` only matters where it decides which end empty cells sort to. */
+function listOrder(sort: RepairSortKey, dir: Dir): ListOrder {
+  switch (sort) {
+    case "opened": return { keys: [OPENED, ...RO_LINE_ID] };
+    case "ro": return { keys: RO_LINE_ID };
+    case "closed": return { keys: [nullsLast(sql`fl.closed_date`, "date", dir), ...RO_LINE_ID] };
+    case "hours": return { keys: [nullsLast(sql`fl.hour_meter`, "numeric", dir), ...RO_LINE_ID] };
+    case "laborHours": return { keys: [nullsLast(sql`fl.labor_hours`, "numeric", dir), ...RO_LINE_ID] };
+    case "payType": return { keys: [orderKey(sql`fl.pay_type`, "text"), ...WITHIN_GROUP] };
+    case "lineType": return { keys: [orderKey(sql`fl.line_type`, "text"), ...WITHIN_GROUP] };
+    case "serial": return machineGroups("serial");
+    case "model": return machineGroups("model_line");
+    case "engineFamily": return machineGroups("engine_family");
+    case "shop":
+      return {
+        keys: [orderKey(sql`s.shop_code`, "text"), ...WITHIN_GROUP],
+        groups: { source: sql`dim_shop s`, reads: "s", keys: [sql`s.shop_code`], id: sql`s.shop_key`, factColumn: sql`fl.shop_key` },
+      };
+    case "component":
+      return {
+        keys: [orderKey(sql`c.name`, "text"), orderKey(sql`c.component_key`, "bigint"), ...WITHIN_GROUP],
+        groups: { source: sql`dim_component c`, reads: "c", keys: [sql`c.name`, sql`c.component_key`], id: sql`c.component_key`, factColumn: sql`fl.component_key` },
+      };
+  }
+}
+
+const castValue = (v: string, kind: ValueKind) =>
+  kind === "text" ? sql`${v}::text` : sql`${v}::${sql.raw(kind === "int" ? "integer" : kind)}`;
+const tuple = (exprs: readonly RawBuilder<unknown>[]) => sql`(${sql.join(exprs)})`;
+const valuesOf = (keys: readonly OrderKey[], values: readonly string[]) => tuple(keys.map((k, i) => castValue(values[i], k.kind)));
+const sorted = (exprs: readonly RawBuilder<unknown>[], dir: Dir) => sql.join(exprs.map((e) => sql`${e} ${sql.raw(dir === "asc" ? "ASC" : "DESC")}`));
+/** The sort values of a row as text, k0…kn: what a cursor carries. */
+const positionColumns = (exprs: readonly RawBuilder<unknown>[]) => sql.join(exprs.map((e, i) => sql`${e}::text AS ${sql.ref(`k${i}`)}`));
+
+/** What PostgreSQL accepts for each kind of sort value (a cursor that fails one is refused before any SQL). */
+const CHECKS: Record<ValueKind, (v: string) => boolean> = {
+  date: (v) => /^-?infinity$/.test(v) || (/^\d{4}-\d{2}-\d{2}$/.test(v) && !v.startsWith("0000") && new Date(`${v}T00:00:00Z`).toISOString().startsWith(v)),
+  numeric: (v) => /^-?(\d{1,15}(\.\d{1,6})?|Infinity)$/.test(v),
+  text: (v) => !v.includes("\u0000"),
+  int: (v) => /^-?\d{1,10}$/.test(v) && Math.abs(Number(v)) <= 2 ** 31 - 1,
+  bigint: (v) => /^-?\d{1,19}$/.test(v) && BigInt(v) >= -(2n ** 63n) && BigInt(v) < 2n ** 63n,
+};
+
+/** True when `values` could be the sort values of a row in this order (one per key, each of its key's type). */
+export function isListPosition(sort: RepairSortKey, dir: Dir, values: readonly string[]): boolean {
+  const { keys } = listOrder(sort, dir);
+  return values.length === keys.length && keys.every((k, i) => CHECKS[k.kind](values[i]));
+}
 
 interface RowRecord {
   id: string; shop_code: string; ro_number: string; line_no: number; opened_date: string; closed_date: string | null; serial: string;
@@ -92,6 +189,7 @@ interface RowRecord {
   hour_meter: string | null; labor_hours: string | null; standard_hours: string | null; complaint: string | null; cause: string | null;
   part_number: string | null; supplier_lot: string | null; technician: string | null;
 }
+type PositionedRecord = RowRecord & Record<`k${number}`, string>;
 
 const num = (v: string | number | null | undefined): number | null => (v === null || v === undefined ? null : Number(v));
 
@@ -121,7 +219,7 @@ function toRow(r: RowRecord): RepairRow {
   };
 }
 
-/** One page of repair lines and the total that match, sorted on the server. */
+/** All the lines (exact total) of a short, known set, one page in list order; for lists that are not paged further. */
 export async function listRepairs(
   db: Db,
   scope: ShopScope,
@@ -129,37 +227,192 @@ export async function listRepairs(
   page: Pick<RepairListQuery, "page" | "pageSize" | "sort" | "dir">,
 ): Promise<{ total: number; rows: RepairRow[] }> {
   const where = conditions(scope, r);
+  const { keys } = listOrder(page.sort, page.dir);
   const [count, rows] = await Promise.all([
     sql<{ n: string }>`SELECT count(*) AS n ${FROM} WHERE ${where}`.execute(db),
-    sql<RowRecord>`${SELECT} ${FROM} WHERE ${where} ${orderBy(page.sort, page.dir)}
+    sql<RowRecord>`${SELECT} ${FROM} WHERE ${where} ORDER BY ${sorted(keys.map((k) => k.expr), page.dir)}
       LIMIT ${page.pageSize} OFFSET ${(page.page - 1) * page.pageSize}`.execute(db),
   ]);
   return { total: Number(count.rows[0]?.n ?? 0), rows: rows.rows.map(toRow) };
 }
 
+/** Where a page of the list starts: after or before a row's sort values, or a number of rows from the top. */
+export type ListStart = { toward: "after" | "before"; values: readonly string[] } | { offset: number };
+
+/** A page of the list with the sort values of its first and last rows, and whether rows lie beyond it. */
+export interface ListPage extends ListTotal {
+  rows: RepairRow[];
+  first: string[] | null;
+  last: string[] | null;
+  /** rows lie beyond the page in the direction it was read (below it, or above it when read `before`) */
+  more: boolean;
+}
+
+/** Up to this many lines a page is cut from all of them, sorted; past it, the order's index is walked. */
+const NARROW_LIMIT = 10_000;
+
+/** How one page is read: in which direction from which start, and how many rows. */
+interface PageRead {
+  order: ListOrder;
+  reading: Dir;
+  after: readonly string[] | null;
+  offset: number;
+  limit: number;
+}
+
+/** The lines a filter matches: exact, or PostgreSQL's estimate. */
+export interface ListTotal {
+  total: number;
+  totalIsEstimate: boolean;
+}
+
 /**
- * Every matching repair line in list order, handed over in batches from one consistent snapshot
- * (REPEATABLE READ), so a CSV can be streamed without holding the whole result in memory.
+ * One page of the list in the order `sort`/`dir`, read from `start`, and the total (counted unless `known`,
+ * as a cursor carries it from the first page). A filter that matches few lines has them all sorted; a broad
+ * one walks the order's index, so a page costs the same at any depth. A page `before` a row is read
+ * backwards and turned round. One row beyond the page is read, to know whether there is more.
  */
-export async function eachRepairBatch(
+export async function listRepairPage(
+  db: Db,
+  scope: ShopScope,
+  r: RepairFilter,
+  page: Pick<RepairListQuery, "pageSize" | "sort" | "dir">,
+  start: ListStart,
+  known?: ListTotal,
+): Promise<ListPage> {
+  const read: PageRead = {
+    order: listOrder(page.sort, page.dir),
+    reading: "toward" in start && start.toward === "before" ? (page.dir === "asc" ? "desc" : "asc") : page.dir,
+    after: "values" in start ? start.values : null,
+    offset: "offset" in start ? start.offset : 0,
+    limit: page.pageSize + 1,
+  };
+  const parts = conditionList(scope, r);
+  const count = known ?? (await countRepairs(db, parts));
+  const narrow = !count.totalIsEstimate && count.total <= NARROW_LIMIT;
+  const query = narrow || !read.order.groups ? keysetPage(read, allOf(parts), narrow) : groupedPage(read, parts);
+  const found = (await query.execute(db)).rows;
+  const records = found.slice(0, page.pageSize);
+  if (read.reading !== page.dir) records.reverse();
+  const position = (rec: PositionedRecord | undefined) => (rec ? read.order.keys.map((_, i) => rec[`k${i}`]) : null);
+  return {
+    rows: records.map(toRow),
+    first: position(records[0]),
+    last: position(records.at(-1)),
+    more: found.length > page.pageSize,
+    ...count,
+  };
+}
+
+/**
+ * A page by one row comparison on the order's keys. Broad: the comparison is an index condition on the
+ * order's own index. Narrow: the matching lines are gathered first (MATERIALIZED keeps the planner from
+ * walking an index past millions of lines that do not match) and sorted.
+ */
+function keysetPage({ order, reading, after, offset, limit }: PageRead, where: RawBuilder<unknown>, narrow: boolean) {
+  const exprs = order.keys.map((k) => k.expr);
+  const keys = narrow ? order.keys.map((_, i) => sql.ref(`hits.o${i}`)) : exprs;
+  const keyset = after ? sql`AND ${tuple(keys)} ${sql.raw(reading === "asc" ? ">" : "<")} ${valuesOf(order.keys, after)}` : sql``;
+  const tail = sql`${keyset} ORDER BY ${sorted(keys, reading)} LIMIT ${limit} OFFSET ${offset}`;
+  if (!narrow) return sql<PositionedRecord>`${SELECT}, ${positionColumns(exprs)} ${FROM} WHERE ${where} ${tail}`;
+  return sql<PositionedRecord>`
+    WITH hits AS MATERIALIZED (
+      ${SELECT}, ${positionColumns(exprs)}, ${sql.join(exprs.map((e, i) => sql`${e} AS ${sql.ref(`o${i}`)}`))} ${FROM} WHERE ${where}
+    )
+    SELECT * FROM hits WHERE TRUE ${tail}`;
+}
+
+/**
+ * A page of an order led by groups: the groups in order (from the cursor's group on), and for each, through
+ * the fact index (group key, opened_date), its first `offset + limit` lines; the cursor's own group starts at
+ * the cursor's opened_date (the other groups at ∓infinity), so no group is read from its start to find it.
+ */
+function groupedPage({ order, reading, after, offset, limit }: PageRead, parts: readonly Condition[]) {
+  const g = order.groups!;
+  const lead = order.keys.slice(0, g.keys.length);
+  const within = order.keys.slice(g.keys.length).map((k) => k.expr);
+  const cmp = sql.raw(reading === "asc" ? ">" : "<");
+  const groupNames = g.keys.map((_, i) => sql.ref(`grp.g${i}`));
+  const groupCond = after ? sql`AND ${tuple(g.keys)} ${sql.raw(reading === "asc" ? ">=" : "<=")} ${valuesOf(lead, after)}` : sql``;
+  const startCol = after
+    ? sql`, CASE WHEN ${tuple(g.keys)} = ${valuesOf(lead, after)} THEN ${after[lead.length]}::date ELSE ${reading === "asc" ? "-infinity" : "infinity"}::date END AS start`
+    : sql``;
+  const rest = after ? order.keys.slice(lead.length + 1) : [];
+  const withinCond = after
+    ? sql`AND ${tuple(within)} ${cmp} (grp.start, ${sql.join(rest.map((k, i) => castValue(after[lead.length + 1 + i], k.kind)))})`
+    : sql``;
+  return sql<PositionedRecord>`
+    SELECT x.* FROM (
+      SELECT ${sql.join(g.keys.map((e, i) => sql`${e} AS ${sql.ref(`g${i}`)}`))}, ${g.id} AS gid ${startCol}
+      FROM ${g.source} WHERE ${allOf(parts.filter((p) => p.reads.length === 1 && p.reads[0] === g.reads))} ${groupCond}
+    ) grp CROSS JOIN LATERAL (
+      ${SELECT}, ${positionColumns([...groupNames, ...within])}, ${sql.join(within.map((e, i) => sql`${e} AS ${sql.ref(`w${i}`)}`))}
+      ${FROM} WHERE ${g.factColumn} = grp.gid AND ${allOf(parts)} ${withinCond}
+      ORDER BY ${sorted(within, reading)} LIMIT ${offset + limit}
+    ) x
+    ORDER BY ${sorted([...groupNames, ...within.map((_, i) => sql.ref(`x.w${i}`))], reading)} LIMIT ${limit} OFFSET ${offset}`;
+}
+
+/** Above this many lines a total is estimated; up to it, lines are counted (the count stops one past it). */
+const EXACT_TOTAL_LIMIT = 50_000;
+
+/** The tables a count needs: the repair lines and the dimensions its conditions read (the loader keeps every line's dimension rows). */
+function countFrom(parts: readonly Condition[]) {
+  const reads = new Set(parts.flatMap((p) => p.reads));
+  return sql`FROM fact_repair_line fl
+    ${reads.has("s") ? sql`JOIN dim_shop s ON s.shop_key = fl.shop_key` : sql``}
+    ${reads.has("m") ? sql`JOIN dim_machine m ON m.machine_key = fl.machine_key` : sql``}
+    ${reads.has("c") ? sql`JOIN dim_component c ON c.component_key = fl.component_key` : sql``}
+    ${reads.has("w") ? sql`LEFT JOIN fact_weather_day w ON w.shop_key = fl.shop_key AND w.date = fl.opened_date` : sql``}`;
+}
+
+/**
+ * How many lines the filter matches: counted when PostgreSQL's planner expects at most twice
+ * EXACT_TOTAL_LIMIT and the count stays within it, otherwise the planner's estimate (from the
+ * statistics of the tables, as EXPLAIN reports it).
+ */
+async function countRepairs(db: Db, parts: readonly Condition[]): Promise<ListTotal> {
+  const from = sql`${countFrom(parts)} WHERE ${allOf(parts)}`;
+  const plan = await sql<{ "QUERY PLAN": [{ Plan: { "Plan Rows": number } }] }>`EXPLAIN (FORMAT JSON) SELECT 1 ${from}`.execute(db);
+  const estimate = Math.round(plan.rows[0]["QUERY PLAN"][0].Plan["Plan Rows"]);
+  if (estimate > 2 * EXACT_TOTAL_LIMIT) return { total: estimate, totalIsEstimate: true };
+  const counted = await sql<{ n: string }>`SELECT count(*) AS n FROM (SELECT 1 ${from} LIMIT ${EXACT_TOTAL_LIMIT + 1}) x`.execute(db);
+  const n = Number(counted.rows[0].n);
+  return n <= EXACT_TOTAL_LIMIT ? { total: n, totalIsEstimate: false } : { total: Math.max(estimate, n), totalIsEstimate: true };
+}
+
+/**
+ * Every matching line in list order, in batches, from one consistent snapshot (a read-only REPEATABLE READ
+ * transaction) through a server-side cursor; the next batch is FETCHed while this one is handed on, so memory
+ * holds about two batches however long the list. Stopping early (the consumer returns) closes the transaction.
+ */
+export async function* eachRepairBatch(
   db: Db,
   scope: ShopScope,
   r: RepairFilter,
   order: Pick<RepairListQuery, "sort" | "dir">,
-  onBatch: (rows: RepairRow[]) => Promise<void>,
-  batchSize = 2000,
-): Promise<number> {
-  const where = conditions(scope, r);
-  return await db.transaction().setIsolationLevel("repeatable read").execute(async (trx) => {
-    let offset = 0;
-    for (;;) {
-      const res = await sql<RowRecord>`${SELECT} ${FROM} WHERE ${where} ${orderBy(order.sort, order.dir)}
-        LIMIT ${batchSize} OFFSET ${offset}`.execute(trx);
-      if (res.rows.length) await onBatch(res.rows.map(toRow));
-      offset += res.rows.length;
-      if (res.rows.length < batchSize) return offset;
+  batchSize = 5000,
+): AsyncGenerator<RepairRow[]> {
+  const trx = await db.startTransaction().setIsolationLevel("repeatable read").setAccessMode("read only").execute();
+  let done = false;
+  try {
+    const { keys } = listOrder(order.sort, order.dir);
+    await sql`DECLARE repair_lines NO SCROLL CURSOR FOR ${SELECT} ${FROM} WHERE ${conditions(scope, r)}
+      ORDER BY ${sorted(keys.map((k) => k.expr), order.dir)}`.execute(trx);
+    const fetchBatch = () => sql<RowRecord>`FETCH ${sql.lit(batchSize)} FROM repair_lines`.execute(trx).then((res) => res.rows);
+    let next: Promise<RowRecord[]> | null = fetchBatch();
+    while (next) {
+      const rows: RowRecord[] = await next;
+      next = rows.length === batchSize ? fetchBatch() : null;
+      // awaited on the next turn; an early stop must not leave its failure unhandled
+      next?.catch(() => undefined);
+      if (rows.length) yield rows.map(toRow);
     }
-  });
+    await trx.commit().execute();
+    done = true;
+  } finally {
+    if (!done) await trx.rollback().execute();
+  }
 }
 
 /** True when the id has the shape of a repair-line key (a signed 64-bit integer). */

@@ -1,27 +1,36 @@
 import { repairSortKeys, type RepairSortKey } from "@shared/schemas/repairs";
 
 /**
- * The repair list's text search, page, page size and sort as the URL holds them (invalid values fall back to
- * the defaults), and the query strings the repairs API reads: one page of the list, and the CSV of all of it.
+ * The repair list's text search, page size, sort and position as the URL holds them (invalid values fall back
+ * to the defaults), and the query strings the repairs API reads: one page of the list, and the CSV of all of it.
+ * The position is a cursor the API handed out, kept with `at`, a fingerprint of the list it belongs to: once
+ * the filters, search, sort or page size change, the cursor no longer applies and the list starts at the top.
  */
 export interface RepairListParams {
   q: string;
-  page: number;
   pageSize: number;
   sort: RepairSortKey;
   dir: "asc" | "desc";
+  /** fingerprint of the list the URL names, without its position */
+  at: string;
   /** query string for one page of the list */
   listSearch: string;
   /** query string for the CSV download (the same lines, without paging) */
   csvSearch: string;
 }
 
-const PAGE_SIZES = [25, 50, 100, 200];
+export const PAGE_SIZES = [25, 50, 100, 200];
+
+/** FNV-1a of the text, base 36: short enough for the URL, and it changes whenever the text does in practice. */
+function fingerprint(text: string): string {
+  let h = 0x811c9dc5;
+  for (let i = 0; i < text.length; i++) h = Math.imul(h ^ text.charCodeAt(i), 0x01000193);
+  return (h >>> 0).toString(36);
+}
 
 /** `filterSearch` is the shared filters' query string (readFilters). */
 export function readRepairListParams(params: URLSearchParams, filterSearch: string): RepairListParams {
   const q = params.get("q") ?? "";
-  const page = Math.max(1, Number(params.get("page")) || 1);
   const pageSize = PAGE_SIZES.includes(Number(params.get("pageSize"))) ? Number(params.get("pageSize")) : 25;
   const sortParam = params.get("sort") as RepairSortKey | null;
   const sort: RepairSortKey = sortParam && repairSortKeys.includes(sortParam) ? sortParam : "opened";
@@ -31,7 +40,9 @@ export function readRepairListParams(params: URLSearchParams, filterSearch: stri
   search.set("sort", sort);
   search.set("dir", dir);
   const csvSearch = search.toString();
-  search.set("page", String(page));
   search.set("pageSize", String(pageSize));
-  return { q, page, pageSize, sort, dir, listSearch: search.toString(), csvSearch };
+  const at = fingerprint(search.toString());
+  const cursor = params.get("cursor");
+  if (cursor && params.get("at") === at) search.set("cursor", cursor);
+  return { q, pageSize, sort, dir, at, listSearch: search.toString(), csvSearch };
 }

@@ -1,19 +1,18 @@
-import { useState } from "react";
+import { useState, type ReactNode } from "react";
 import { Link } from "react-router-dom";
 import {
   columnVisibilityFeature,
   createColumnHelper,
-  rowPaginationFeature,
   rowSortingFeature,
   tableFeatures,
   useTable,
   type ColumnVisibilityState,
-  type PaginationState,
   type SortingState,
 } from "@tanstack/react-table";
 import type { RepairRow, RepairSortKey } from "@shared/schemas/repairs";
+import { linesInWords } from "../total-in-words";
 
-const features = tableFeatures({ rowSortingFeature, rowPaginationFeature, columnVisibilityFeature });
+const features = tableFeatures({ rowSortingFeature, columnVisibilityFeature });
 const col = createColumnHelper<typeof features, RepairRow>();
 const hours = (v: number | null) => (v === null ? "—" : v.toLocaleString("en-US"));
 
@@ -39,16 +38,18 @@ const columns = col.columns([
 const HIDDEN_BY_DEFAULT: ColumnVisibilityState = { engineFamily: false, laborHours: false, cause: false, lot: false, closed: false };
 
 /**
- * Repair lines paged, sorted and filtered on the server: the table only shows the page it is given and
- * reports sorting and paging changes back.
+ * Repair lines paged, sorted and filtered on the server: the table only shows the page it is given, with the
+ * total in words, and reports sorting changes back. While the next page loads (`loading`) the rows on screen
+ * stay, dimmed; `pager` goes below them.
  */
 export function RepairTable(props: {
   rows: RepairRow[];
   total: number;
-  pagination: PaginationState;
+  totalIsEstimate: boolean;
+  loading: boolean;
   sort: { id: RepairSortKey; desc: boolean };
-  onPagination: (p: PaginationState) => void;
   onSort: (s: { id: RepairSortKey; desc: boolean }) => void;
+  pager: ReactNode;
 }) {
   const [visibility, setVisibility] = useState<ColumnVisibilityState>(HIDDEN_BY_DEFAULT);
   const [chooser, setChooser] = useState(false);
@@ -59,22 +60,18 @@ export function RepairTable(props: {
     data: props.rows,
     getRowId: (r) => r.id,
     manualSorting: true,
-    manualPagination: true,
-    rowCount: props.total,
     enableSortingRemoval: false,
-    state: { sorting, pagination: props.pagination, columnVisibility: visibility },
+    state: { sorting, columnVisibility: visibility },
     onSortingChange: (u) => {
       const next = typeof u === "function" ? u(sorting) : u;
       if (next[0]) props.onSort({ id: next[0].id as RepairSortKey, desc: next[0].desc });
     },
-    onPaginationChange: (u) => props.onPagination(typeof u === "function" ? u(props.pagination) : u),
     onColumnVisibilityChange: (u) => setVisibility((v) => (typeof u === "function" ? u(v) : u)),
   });
-  const pages = Math.max(1, Math.ceil(props.total / props.pagination.pageSize));
   return (
     <div>
       <div className="mb-2 flex flex-wrap items-center justify-between gap-2 text-sm">
-        <p className="text-muted">{props.total.toLocaleString("en-US")} repair lines</p>
+        <p className="text-muted">{linesInWords(props.total, props.totalIsEstimate)}</p>
         <div className="relative">
           <button type="button" aria-expanded={chooser} onClick={() => setChooser((c) => !c)} className="rounded border border-line bg-white px-3 py-1">Columns</button>
           {chooser && (
@@ -90,7 +87,7 @@ export function RepairTable(props: {
           )}
         </div>
       </div>
-      <div className="overflow-x-auto rounded border border-line">
+      <div aria-busy={props.loading} className={`overflow-x-auto rounded border border-line transition-opacity ${props.loading ? "opacity-60" : ""}`}>
         <table className="w-full text-left text-sm">
           <thead className="bg-paper text-muted">
             {table.getHeaderGroups().map((g) => (
@@ -123,16 +120,7 @@ export function RepairTable(props: {
           </tbody>
         </table>
       </div>
-      <nav aria-label="Pages" className="mt-2 flex flex-wrap items-center gap-2 text-sm">
-        <button type="button" disabled={props.pagination.pageIndex === 0} onClick={() => props.onPagination({ ...props.pagination, pageIndex: props.pagination.pageIndex - 1 })} className="rounded border border-line bg-white px-3 py-1 disabled:opacity-40">Previous</button>
-        <span>Page {props.pagination.pageIndex + 1} of {pages.toLocaleString("en-US")}</span>
-        <button type="button" disabled={props.pagination.pageIndex + 1 >= pages} onClick={() => props.onPagination({ ...props.pagination, pageIndex: props.pagination.pageIndex + 1 })} className="rounded border border-line bg-white px-3 py-1 disabled:opacity-40">Next</button>
-        <label className="ml-auto">Rows per page{" "}
-          <select value={props.pagination.pageSize} onChange={(e) => props.onPagination({ pageIndex: 0, pageSize: Number(e.target.value) })} className="rounded border border-line bg-white px-1 py-0.5">
-            {[25, 50, 100, 200].map((n) => <option key={n} value={n}>{n}</option>)}
-          </select>
-        </label>
-      </nav>
+      {props.pager}
     </div>
   );
 }
