@@ -8,6 +8,8 @@ import { clusterCaution, clusterMethod, findClusters, toCluster } from "../servi
 import { clusterLineFacts, failureBandCounts } from "../db/queries/cluster-detail.js";
 import { listRepairs } from "../db/queries/repairs.js";
 import { analyticsRoles } from "../../shared/roles.js";
+import type { ShopScope } from "../../shared/schemas/me.js";
+import { AnswerCache } from "../services/answer-cache.js";
 
 /** Counts per band in the bands' order (unknown last), the cluster's beside everyone else's. */
 function profile(ids: readonly string[], inCluster: Map<string, number>, all: Map<string, number>): ClusterDetail["hourProfile"] {
@@ -26,49 +28,54 @@ const tally = <T,>(items: T[], key: (t: T) => string, n: (t: T) => number = () =
 
 /**
  * GET /api/analytics/clusters/:id: one cluster of the scan the list shows (same query parameters), with its
- * repair lines, machines, failures by month and its temperature and hour profile.
+ * repair lines, machines, failures by month and its temperature and hour profile. Each answer is kept per
+ * request until the next load (the background profile reads every failure line the filters select).
  */
 export function clusterDetailRoutes(db: Db): Router {
   const router = Router();
+  const answers = new AnswerCache(db, 100);
   router.get("/:id", allow(...analyticsRoles), async (req, res) => {
     const scope = requireScope(req);
-    const found = await findClusters(db, scope, req.query);
-    const signal = found.scan.signals.find((s) => toCluster(found.components, s).id === req.params.id);
-    if (!signal) {
-      throw new HttpError(404, "cluster_not_found", "That cluster is not in the current scan: the data, the filters or your shops may have changed. Open the cluster list again.");
-    }
-    const cluster = toCluster(found.components, signal);
-    const ids = cluster.repairLineIds;
-    const [facts, background, lines] = await Promise.all([
-      clusterLineFacts(db, scope, found.filters, ids),
-      failureBandCounts(db, scope, found.filters),
-      listRepairs(db, scope, { filters: { ...found.filters, components: [], from: undefined, to: undefined }, list: {}, ids }, { page: 1, pageSize: Math.max(ids.length, 1), sort: "opened", dir: "asc" }),
-    ]);
-    const machines = new Map<string, ClusterDetail["machines"][number]>();
-    for (const f of facts) {
-      const m = machines.get(f.serial);
-      if (m) {
-        m.failures += 1;
-        m.lastFailure = f.openedDate;
-      } else {
-        machines.set(f.serial, {
-          serial: f.serial, modelLine: f.modelLine, engineFamily: f.engineFamily, homeShop: f.homeShop, buildDate: f.buildDate, lot: f.lot,
-          failures: 1, firstFailure: f.openedDate, lastFailure: f.openedDate,
-        });
-      }
-    }
-    const body: ClusterDetail = {
-      cluster,
-      components: found.components,
-      method: clusterMethod(found.query.standardise),
-      caution: clusterCaution,
-      lines: lines.rows,
-      machines: [...machines.values()].sort((a, b) => b.failures - a.failures || a.serial.localeCompare(b.serial)),
-      timeline: [...tally(facts, (f) => f.month)].sort(([a], [b]) => a.localeCompare(b)).map(([month, failures]) => ({ month, failures })),
-      temperatureProfile: profile(temperatureBands.map((b) => b.id), tally(facts, (f) => f.tempBand), tally(background, (b) => b.tempBand, (b) => b.failures)),
-      hourProfile: profile(hourBands.map((b) => b.id), tally(facts, (f) => f.hourBand), tally(background, (b) => b.hourBand, (b) => b.failures)),
-    };
-    res.json(body);
+    res.json(await answers.forRequest(req, scope, () => clusterDetail(db, scope, String(req.params.id), req.query)));
   });
   return router;
+}
+
+async function clusterDetail(db: Db, scope: ShopScope, id: string, query: Record<string, unknown>): Promise<ClusterDetail> {
+  const found = await findClusters(db, scope, query);
+  const signal = found.scan.signals.find((s) => toCluster(found.components, s).id === id);
+  if (!signal) {
+    throw new HttpError(404, "cluster_not_found", "That cluster is not in the current scan: the data, the filters or your shops may have changed. Open the cluster list again.");
+  }
+  const cluster = toCluster(found.components, signal);
+  const ids = cluster.repairLineIds;
+  const [facts, background, lines] = await Promise.all([
+    clusterLineFacts(db, scope, found.filters, ids),
+    failureBandCounts(db, scope, found.filters),
+    listRepairs(db, scope, { filters: { ...found.filters, components: [], from: undefined, to: undefined }, list: {}, ids }, { page: 1, pageSize: Math.max(ids.length, 1), sort: "opened", dir: "asc" }),
+  ]);
+  const machines = new Map<string, ClusterDetail["machines"][number]>();
+  for (const f of facts) {
+    const m = machines.get(f.serial);
+    if (m) {
+      m.failures += 1;
+      m.lastFailure = f.openedDate;
+    } else {
+      machines.set(f.serial, {
+        serial: f.serial, modelLine: f.modelLine, engineFamily: f.engineFamily, homeShop: f.homeShop, buildDate: f.buildDate, lot: f.lot,
+        failures: 1, firstFailure: f.openedDate, lastFailure: f.openedDate,
+      });
+    }
+  }
+  return {
+    cluster,
+    components: found.components,
+    method: clusterMethod(found.query.standardise),
+    caution: clusterCaution,
+    lines: lines.rows,
+    machines: [...machines.values()].sort((a, b) => b.failures - a.failures || a.serial.localeCompare(b.serial)),
+    timeline: [...tally(facts, (f) => f.month)].sort(([a], [b]) => a.localeCompare(b)).map(([month, failures]) => ({ month, failures })),
+    temperatureProfile: profile(temperatureBands.map((b) => b.id), tally(facts, (f) => f.tempBand), tally(background, (b) => b.tempBand, (b) => b.failures)),
+    hourProfile: profile(hourBands.map((b) => b.id), tally(facts, (f) => f.hourBand), tally(background, (b) => b.hourBand, (b) => b.failures)),
+  };
 }

@@ -17,8 +17,7 @@ import { weibullLine } from "../analytics/weibull-band.js";
 import { kaplanMeier, logRankTest } from "../analytics/kaplan-meier.js";
 import { meanCumulativeFunction, mcfSlope } from "../analytics/mcf.js";
 import { analyticsRoles } from "../../shared/roles.js";
-import { ResultCache } from "../services/result-cache.js";
-import { dataVersion } from "../db/queries/data-version.js";
+import { AnswerCache } from "../services/answer-cache.js";
 
 type Grouped<T> = { label: string; items: T[] }[];
 
@@ -58,9 +57,7 @@ export function analyticsLifeRoutes(db: Db): Router {
   const router = Router();
   router.use(allow(...analyticsRoles));
   // Fits and curves change only when the warehouse does: cache each answer per request and data version.
-  const cache = new ResultCache<unknown>(200);
-  const cached = async <T,>(req: Request, compute: () => Promise<T>): Promise<T> =>
-    (await cache.get(JSON.stringify([req.path, requireScope(req), req.query]), await dataVersion(db), compute)) as T;
+  const answers = new AnswerCache(db, 200);
 
   const load = async (req: Request) => {
     const f = analyticsFiltersSchema.parse(req.query);
@@ -70,7 +67,7 @@ export function analyticsLifeRoutes(db: Db): Router {
   };
 
   router.get("/weibull", async (req, res) => {
-    res.json(await cached(req, () => weibull(req)));
+    res.json(await answers.forRequest(req, requireScope(req), () => weibull(req)));
   });
   const weibull = async (req: Request): Promise<WeibullResponse> => {
     const { f, q, cold } = await load(req);
@@ -108,7 +105,7 @@ export function analyticsLifeRoutes(db: Db): Router {
   };
 
   router.get("/kaplan-meier", async (req, res) => {
-    res.json(await cached(req, () => km(req)));
+    res.json(await answers.forRequest(req, requireScope(req), () => km(req)));
   });
   const km = async (req: Request): Promise<KaplanMeierResponse> => {
     const { f, q, cold } = await load(req);
@@ -136,7 +133,7 @@ export function analyticsLifeRoutes(db: Db): Router {
   };
 
   router.get("/mcf", async (req, res) => {
-    res.json(await cached(req, () => mcf(req)));
+    res.json(await answers.forRequest(req, requireScope(req), () => mcf(req)));
   });
   const mcf = async (req: Request): Promise<McfResponse> => {
     const f = analyticsFiltersSchema.parse(req.query);

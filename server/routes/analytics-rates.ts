@@ -1,4 +1,4 @@
-import { Router } from "express";
+import { Router, type Request } from "express";
 import { allow, requireScope } from "../auth/require-user.js";
 import type { Db } from "../db/database.js";
 import { analyticsFiltersSchema } from "../../shared/schemas/analytics-filters.js";
@@ -15,7 +15,7 @@ import { uChart } from "../analytics/control-chart.js";
 import { hourBands, temperatureBands } from "../../shared/bands.js";
 import { components } from "../../shared/catalog.js";
 import { analyticsRoles } from "../../shared/roles.js";
-
+import { AnswerCache } from "../services/answer-cache.js";
 
 const rate = (r: RateEstimate | null): Rate | null =>
   r ? { rate: r.rate, lower: r.lower, upper: r.upper, per: r.per, level: r.level } : null;
@@ -29,21 +29,28 @@ function inBandOrder<T extends { band: string }>(ids: readonly string[], rows: T
 export function analyticsRateRoutes(db: Db): Router {
   const router = Router();
   router.use(allow(...analyticsRoles));
+  // Each answer reads every failure line the filters select: keep it per request until the next load.
+  const answers = new AnswerCache(db, 200);
 
   router.get("/hour-bands", async (req, res) => {
+    res.json(await answers.forRequest(req, requireScope(req), () => hourBandRates(req)));
+  });
+  const hourBandRates = async (req: Request): Promise<HourBandRates> => {
     const f = analyticsFiltersSchema.parse(req.query);
     const rows = inBandOrder(hourBands.map((b) => b.id), await countsByHourBand(db, requireScope(req), f), (band) => ({ band, failures: 0, machineDays: 0, engineHours: 0 }));
-    const body: HourBandRates = {
+    return {
       method: "Failures (first visit for a fault; comebacks excluded) per 1,000 engine hours of exposure in the band; exact Poisson (Garwood) 95 % limits.",
       rows: rows.map((r) => ({ band: r.band, failures: r.failures, engineHours: r.engineHours, perThousandHours: rate(poissonRate(r.failures, r.engineHours)) })),
     };
-    res.json(body);
-  });
+  };
 
   router.get("/temperature-bands", async (req, res) => {
+    res.json(await answers.forRequest(req, requireScope(req), () => temperatureBandRates(req)));
+  });
+  const temperatureBandRates = async (req: Request): Promise<TemperatureBandRates> => {
     const f = analyticsFiltersSchema.parse(req.query);
     const rows = inBandOrder(temperatureBands.map((b) => b.id), await countsByTemperatureBand(db, requireScope(req), f), (band) => ({ band, failures: 0, machineDays: 0, engineHours: 0 }));
-    const body: TemperatureBandRates = {
+    return {
       method: "Failures counted on the day the repair order opened, by the home shop's daily minimum temperature; exposure is machine-days in service at that shop (and their estimated engine hours); exact Poisson 95 % limits.",
       caution: "The first cold snap of a season flushes out failures that had built up, so the coldest band can sit below the next one.",
       rows: rows.map((r) => ({
@@ -55,15 +62,17 @@ export function analyticsRateRoutes(db: Db): Router {
         perThousandHours: rate(poissonRate(r.failures, r.engineHours)),
       })),
     };
-    res.json(body);
-  });
+  };
 
   router.get("/components", async (req, res) => {
+    res.json(await answers.forRequest(req, requireScope(req), () => componentRates(req)));
+  });
+  const componentRates = async (req: Request): Promise<ComponentRates> => {
     const f = analyticsFiltersSchema.parse(req.query);
     const { engineHours, rows } = await countsByComponent(db, requireScope(req), f);
     const total = rows.reduce((s, r) => s + r.failures, 0);
     let cum = 0;
-    const body: ComponentRates = {
+    return {
       engineHours,
       rows: rows.map((r) => {
         cum += r.failures;
@@ -79,14 +88,16 @@ export function analyticsRateRoutes(db: Db): Router {
         };
       }),
     };
-    res.json(body);
-  });
+  };
 
   router.get("/monthly", async (req, res) => {
+    res.json(await answers.forRequest(req, requireScope(req), () => monthlyRates(req)));
+  });
+  const monthlyRates = async (req: Request): Promise<MonthlyRates> => {
     const f = analyticsFiltersSchema.parse(req.query);
     const rows = (await countsByMonth(db, requireScope(req), f)).filter((r) => r.engineHours > 0);
     const chart = uChart(rows.map((r) => ({ failures: r.failures, exposure: r.engineHours })));
-    const body: MonthlyRates = {
+    return {
       method: "u-chart: centre = all failures ÷ all engine hours; limits = centre ± 3·√(centre ÷ month's hours) (NIST/SEMATECH e-Handbook 6.3.3.2).",
       centre: chart.centre,
       rows: rows.map((r, i) => ({
@@ -99,7 +110,6 @@ export function analyticsRateRoutes(db: Db): Router {
         outOfControl: chart.points[i].outOfControl,
       })),
     };
-    res.json(body);
-  });
+  };
   return router;
 }

@@ -4,12 +4,11 @@ import type { ShopScope } from "../../shared/schemas/me.js";
 import { analyticsFiltersSchema, type AnalyticsFilters } from "../../shared/schemas/analytics-filters.js";
 import { clusterQuerySchema, type Cluster, type ClusterQuery } from "../../shared/schemas/analytics-clusters.js";
 import { scanCells } from "../db/queries/analytics-clusters.js";
-import { buildScanCells } from "../analytics/cluster-cells.js";
-import { scanClusters, type ClusterScanResult, type ClusterSignal } from "../analytics/cluster-scan.js";
+import type { ClusterScanResult, ClusterSignal } from "../analytics/cluster-scan.js";
+import { scanOnWorker } from "./cluster-scan/scan-pool.js";
 import { ResultCache } from "./result-cache.js";
 import { dataVersion } from "../db/queries/data-version.js";
 import { components } from "../../shared/catalog.js";
-import { hourBandLabel, temperatureBandLabel } from "../../shared/bands.js";
 
 export const clusterMethod = (standardise: "hour" | "hour+temperature") =>
   standardise === "hour+temperature"
@@ -53,12 +52,8 @@ export async function findClusters(db: Db, scope: ShopScope, raw: Record<string,
   const key = JSON.stringify([scope, filters, query.standardise, query.q]);
   const scan = await cache.get(key, await dataVersion(db), async () => {
     const rows = await scanCells(db, scope, filters);
-    const cells = buildScanCells(rows, query.standardise);
-    return scanClusters(cells, {
-      subject: subjectFor(comps),
-      qThreshold: query.q,
-      labels: { temperatureBand: (id) => temperatureBandLabel(id, "F"), hourBand: hourBandLabel },
-    });
+    // the CPU-bound part on a worker thread, so other requests are answered meanwhile
+    return scanOnWorker({ rows, standardise: query.standardise, subject: subjectFor(comps), qThreshold: query.q });
   });
   return { components: comps, filters, query, scan };
 }

@@ -1,4 +1,5 @@
-import { sql, type RawBuilder } from "kysely";
+import { sql, type QueryResult, type RawBuilder } from "kysely";
+import type { Db } from "../database.js";
 import type { ShopScope } from "../../../shared/schemas/me.js";
 import type { AnalyticsFilters } from "../../../shared/schemas/analytics-filters.js";
 import { scopedShopCodes } from "./scope.js";
@@ -8,6 +9,19 @@ import { HEATER_PLUG } from "../../../shared/catalog.js";
 /** Comeback window used to keep repeat visits for one fault out of failure counts (DOMAIN.md, common practice). */
 export const COMEBACK_DAYS = 30;
 export const COMEBACK_HOURS = 100;
+
+/**
+ * Runs an analytics read in a transaction of its own with JIT compilation off. These plans carry long CASE
+ * expressions (the bands) through joins of large relations: once the planner's estimate passes
+ * jit_above_cost, compiling them took about a second (977 ms of the cluster scan's 6 s at the demo's scale 5)
+ * and saved far less. The ETL's merges and the exposure rebuild turn it off for the same reason.
+ */
+export async function analyticsRead<R>(db: Db, query: RawBuilder<R>): Promise<QueryResult<R>> {
+  return await db.transaction().execute(async (trx) => {
+    await sql`SET LOCAL jit = off`.execute(trx);
+    return await query.execute(trx);
+  });
+}
 
 const and = (parts: RawBuilder<unknown>[]) => (parts.length ? sql.join(parts, sql` AND `) : sql`TRUE`);
 const inList = (col: RawBuilder<unknown>, values: readonly string[]) => sql`${col} IN (${sql.join(values.map((v) => sql`${v}`))})`;
@@ -54,7 +68,8 @@ export function exposureRelation(scope: ShopScope, f: AnalyticsFilters, cube = f
  * minimum temperature band on the day the repair order opened, the engine-hour band of the hour meter,
  * and the heater-plug lot fitted at the time. Only line_type 'failure'; a line that begins within
  * COMEBACK_DAYS and COMEBACK_HOURS of an earlier line's close on the same machine and component is a
- * comeback for the same fault and is not counted again.
+ * comeback for the same fault and is not counted again. Failure lines are read from the partial failure
+ * index and the comeback test probes (component_key, machine_key, opened_date) (migration 0050).
  */
 export function failureRelation(scope: ShopScope, f: AnalyticsFilters): RawBuilder<unknown> {
   const window: RawBuilder<unknown>[] = [sql`fl.line_type = 'failure'`];
@@ -109,18 +124,24 @@ export function familiesCarrying(componentCodes: readonly string[]): RawBuilder<
 /**
  * Machines of the families that carry a component, with cohort labels and their engine-hour trail:
  * install hours (the delivery reading), first and last valid engine hours and the first reading date.
+ * Only machines that pass the machine-level filters (scope, shops, families, model lines, build window)
+ * are returned, so the caller's later filter on the same labels leaves them all.
  */
-export function machinesCarrying(component: string): RawBuilder<unknown> {
+export function machinesCarrying(component: string, scope: ShopScope, f: AnalyticsFilters): RawBuilder<unknown> {
+  const machineLevel: AnalyticsFilters = { ...f, lots: [], tempBands: [], hourBands: [] };
   return sql`(
-    SELECT m.machine_key, m.engine_family, m.model_line, s.shop_code, s.climate_zone, m.delivery_date,
-           date_trunc('month', coalesce(m.build_date, m.delivery_date))::date AS build_month,
-           coalesce(nullif(m.heater_plug_lot, ''), 'none') AS build_lot,
-           coalesce(m.delivery_hours::double precision, 0) AS install_h,
-           t.first_h, t.last_h, t.first_d
-    FROM dim_machine m
-    JOIN dim_shop s ON s.shop_key = m.home_shop_key
+    SELECT m.*, t.first_h, t.last_h, t.first_d
+    FROM (
+      SELECT m.machine_key, m.engine_family, m.model_line, s.shop_code, s.climate_zone, m.delivery_date,
+             date_trunc('month', coalesce(m.build_date, m.delivery_date))::date AS build_month,
+             coalesce(nullif(m.heater_plug_lot, ''), 'none') AS build_lot,
+             coalesce(m.delivery_hours::double precision, 0) AS install_h
+      FROM dim_machine m
+      JOIN dim_shop s ON s.shop_key = m.home_shop_key
+      WHERE m.engine_family IN ${familiesCarrying([component])}
+    ) m
     JOIN (SELECT machine_key, min(engine_hours) AS first_h, max(engine_hours) AS last_h, min(reading_date) AS first_d
           FROM v_engine_hours GROUP BY machine_key) t ON t.machine_key = m.machine_key
-    WHERE m.engine_family IN ${familiesCarrying([component])}
+    WHERE ${cohortConditions("m", scope, machineLevel)}
   )`;
 }

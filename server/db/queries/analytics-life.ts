@@ -2,7 +2,7 @@ import { sql } from "kysely";
 import type { Db } from "../database.js";
 import type { ShopScope } from "../../../shared/schemas/me.js";
 import type { AnalyticsFilters } from "../../../shared/schemas/analytics-filters.js";
-import { cohortConditions, failureRelation, machinesCarrying } from "./analytics-base.js";
+import { analyticsRead, cohortConditions, failureRelation, machinesCarrying } from "./analytics-base.js";
 
 export interface LifeUnit {
   machineKey: string;
@@ -25,15 +25,17 @@ export interface LifeUnit {
  * the lot written on that line. The last unit is right-censored at the machine's last valid engine hours.
  * A trail that starts more than 30 days after delivery gives the first unit a delayed entry.
  * Only machines that can carry the component (those of the filtered engine families) are units.
+ * Each machine's units are numbered 1 … failures + 1 by generate_series and matched to the failure that ends
+ * and the one that starts them by hash joins, one pass for all machines.
  */
 export async function lifeUnits(db: Db, scope: ShopScope, f: AnalyticsFilters, component: string): Promise<LifeUnit[]> {
   const ff: AnalyticsFilters = { ...f, components: [component], lots: [], tempBands: [], hourBands: [] };
   const unitFilter: AnalyticsFilters = { ...f, tempBands: [], hourBands: [] };
-  const res = await sql<{
+  const res = await analyticsRead(db, sql<{
     machine_key: string; start_h: number; end_h: number; entry_h: number; event: number; lot: string; shop_code: string;
     climate_zone: string | null; engine_family: string; model_line: string; build_month: string; repair_line_key: string | null;
   }>`
-    WITH mach AS ${machinesCarrying(component)}, fails AS (
+    WITH mach AS ${machinesCarrying(component, scope, unitFilter)}, fails AS (
       SELECT fr.machine_key, fr.repair_line_key, fr.hour_meter, coalesce(nullif(p.supplier_lot, ''), 'replacement') AS fitted_lot,
              row_number() OVER (PARTITION BY fr.machine_key ORDER BY fr.hour_meter, fr.opened_date) AS k
       FROM ${failureRelation(scope, ff)} fr
@@ -48,10 +50,8 @@ export async function lifeUnits(db: Db, scope: ShopScope, f: AnalyticsFilters, c
              CASE WHEN prev.k IS NULL AND m.first_d > m.delivery_date + 30 THEN greatest(m.first_h - m.install_h, 0) ELSE 0 END AS entry_h,
              cur.repair_line_key
       FROM mach m
-      CROSS JOIN LATERAL (
-        SELECT k FROM fails WHERE fails.machine_key = m.machine_key
-        UNION ALL SELECT coalesce(max(k), 0) + 1 FROM fails WHERE fails.machine_key = m.machine_key
-      ) seq
+      LEFT JOIN (SELECT machine_key, max(k) AS n FROM fails GROUP BY 1) c ON c.machine_key = m.machine_key
+      CROSS JOIN LATERAL generate_series(1, coalesce(c.n, 0) + 1) AS seq(k)
       LEFT JOIN fails cur ON cur.machine_key = m.machine_key AND cur.k = seq.k
       LEFT JOIN fails prev ON prev.machine_key = m.machine_key AND prev.k = seq.k - 1
     )
@@ -59,7 +59,7 @@ export async function lifeUnits(db: Db, scope: ShopScope, f: AnalyticsFilters, c
            u.model_line, to_char(u.build_month, 'YYYY-MM') AS build_month, u.repair_line_key
     FROM units u
     WHERE u.end_h > u.start_h AND ${cohortConditions("u", scope, unitFilter)}
-  `.execute(db);
+  `);
   return res.rows
     .map((r) => ({
       machineKey: String(r.machine_key),
@@ -96,11 +96,11 @@ export interface RecurrenceRow {
  */
 export async function recurrences(db: Db, scope: ShopScope, f: AnalyticsFilters, component: string): Promise<RecurrenceRow[]> {
   const unitFilter: AnalyticsFilters = { ...f, tempBands: [], hourBands: [], lots: [] };
-  const res = await sql<{
+  const res = await analyticsRead(db, sql<{
     machine_key: string; ages: number[] | null; start_age: number; end_age: number; lot: string; shop_code: string;
     climate_zone: string | null; engine_family: string;
   }>`
-    WITH mach AS ${machinesCarrying(component)}
+    WITH mach AS ${machinesCarrying(component, scope, unitFilter)}
     SELECT m.machine_key, m.build_lot AS lot, m.shop_code, m.climate_zone, m.engine_family,
            greatest(m.first_h - m.install_h, 0) AS start_age, m.last_h - m.install_h AS end_age,
            (SELECT array_agg(fl.hour_meter::double precision - m.install_h ORDER BY fl.hour_meter)
@@ -110,8 +110,8 @@ export async function recurrences(db: Db, scope: ShopScope, f: AnalyticsFilters,
                ${f.from ? sql`AND fl.opened_date >= ${f.from}::date` : sql``}
                ${f.to ? sql`AND fl.opened_date <= ${f.to}::date` : sql``}) AS ages
     FROM mach m
-    WHERE m.last_h > m.install_h AND ${cohortConditions("m", scope, unitFilter)}
-  `.execute(db);
+    WHERE m.last_h > m.install_h
+  `);
   return res.rows
     .filter((r) => Number(r.end_age) > Number(r.start_age)) // a machine seen at one age only has no observation window
     .map((r) => {

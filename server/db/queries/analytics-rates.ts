@@ -2,7 +2,7 @@ import { sql } from "kysely";
 import type { Db } from "../database.js";
 import type { ShopScope } from "../../../shared/schemas/me.js";
 import type { AnalyticsFilters } from "../../../shared/schemas/analytics-filters.js";
-import { exposureRelation, failureRelation } from "./analytics-base.js";
+import { analyticsRead, exposureRelation, failureRelation } from "./analytics-base.js";
 
 export interface BandCount {
   band: string;
@@ -14,7 +14,7 @@ export interface BandCount {
 /** Failures and exposure grouped by one label column shared by both relations (hour_band, temp_band, month). */
 async function countsBy(db: Db, scope: ShopScope, f: AnalyticsFilters, column: "hour_band" | "temp_band" | "month"): Promise<BandCount[]> {
   const col = sql.ref(column);
-  const res = await sql<{ band: string; failures: number; machine_days: number; engine_hours: number }>`
+  const res = await analyticsRead(db, sql<{ band: string; failures: number; machine_days: number; engine_hours: number }>`
     WITH e AS (SELECT ${col}::text AS band, sum(machine_days)::bigint AS machine_days, sum(engine_hours) AS engine_hours
                FROM ${exposureRelation(scope, f)} ex GROUP BY 1),
          fl AS (SELECT ${col}::text AS band, count(*)::bigint AS failures FROM ${failureRelation(scope, f)} fr GROUP BY 1)
@@ -22,7 +22,7 @@ async function countsBy(db: Db, scope: ShopScope, f: AnalyticsFilters, column: "
            coalesce(e.machine_days, 0) AS machine_days, coalesce(e.engine_hours, 0) AS engine_hours
     FROM e FULL JOIN fl ON fl.band = e.band
     ORDER BY 1
-  `.execute(db);
+  `);
   return res.rows.map((r) => ({ band: r.band, failures: Number(r.failures), machineDays: Number(r.machine_days), engineHours: Number(r.engine_hours) }));
 }
 
@@ -33,10 +33,10 @@ export const countsByMonth = (db: Db, scope: ShopScope, f: AnalyticsFilters) => 
 /** Failures by component and the total engine hours of the filtered fleet. */
 export async function countsByComponent(db: Db, scope: ShopScope, f: AnalyticsFilters) {
   const [fails, exp] = await Promise.all([
-    sql<{ component_code: string; failures: number }>`
+    analyticsRead(db, sql<{ component_code: string; failures: number }>`
       SELECT component_code, count(*)::bigint AS failures FROM ${failureRelation(scope, f)} fr GROUP BY 1 ORDER BY 2 DESC, 1
-    `.execute(db),
-    sql<{ engine_hours: number | null }>`SELECT sum(engine_hours) AS engine_hours FROM ${exposureRelation(scope, f)} ex`.execute(db),
+    `),
+    analyticsRead(db, sql<{ engine_hours: number | null }>`SELECT sum(engine_hours) AS engine_hours FROM ${exposureRelation(scope, f)} ex`),
   ]);
   return {
     engineHours: Number(exp.rows[0]?.engine_hours ?? 0),
