@@ -1,7 +1,7 @@
 /**
  * Grows a loaded warehouse to a target number of job lines by copying its fleet: copy i of every machine gets
- * the key wh_key(key || '~i') and the serial 'serial~i', and every repair line, hour reading, measurement and
- * fault code of that machine comes along under keys derived the same way (repair orders 'RO~i'). Dates,
+ * the serial 'serialCi' and every repair line of it the repair order 'RO-Ci', keyed as the ETL keys them, and
+ * its hour readings, measurements and fault codes come along. Dates,
  * shops, components, lots and weather stay as they are, so every distribution of the loaded world (failure
  * rates, life curves, planted clusters) is kept at a larger volume. For benchmarks only: far faster than
  * generating and loading the same volume through the ETL, which bench:etl measures on its own.
@@ -46,27 +46,41 @@ export async function amplifyWarehouse(pool: pg.Pool, copies: number, log: (line
     await client.query("SET maintenance_work_mem = '512MB'");
     await client.query("SET jit = off");
     if (copies > 1) {
-      const mapped = (col: string) => `wh_key(t.${col}::text || '~' || g.i)`;
-      const mcols = await columnsOf(client, "dim_machine");
-      const msel = mcols.map((c) => (c === "machine_key" ? mapped(c) : c === "serial" ? `t.serial || '~' || g.i` : `t.${c}`));
       const t0 = Date.now();
-      await client.query(
-        `INSERT INTO dim_machine (${mcols.join(", ")}) SELECT ${msel.join(", ")} FROM dim_machine t CROSS JOIN generate_series(1, $1) AS g(i)`,
-        [copies - 1],
-      );
+      // machines and repair lines keyed as the ETL keys them (etl/load/keys.ts), so later loads find them
+      await client.query(`
+        CREATE TEMP TABLE machine_map AS
+        SELECT m.machine_key AS old_key, g.i, m.serial || 'C' || g.i AS serial, wh_key('machine|' || m.serial || 'C' || g.i) AS new_key
+        FROM dim_machine m CROSS JOIN generate_series(1, $1) AS g(i)`, [copies - 1]);
+      await client.query(`
+        CREATE TEMP TABLE line_map AS
+        SELECT f.repair_line_key AS old_key, g.i, f.ro_number || 'C' || g.i AS ro_number,
+               wh_key('repair_line|' || s.shop_code || '|' || f.ro_number || 'C' || g.i || '|' || f.line_no) AS new_key
+        FROM fact_repair_line f JOIN dim_shop s USING (shop_key) CROSS JOIN generate_series(1, $1) AS g(i)`, [copies - 1]);
+      await client.query("CREATE INDEX ON machine_map (old_key, i); CREATE INDEX ON line_map (old_key, i); ANALYZE machine_map; ANALYZE line_map");
+      const mcols = await columnsOf(client, "dim_machine");
+      const msel = mcols.map((c) => (c === "machine_key" ? "mm.new_key" : c === "serial" ? "mm.serial" : `t.${c}`));
+      await client.query(`INSERT INTO dim_machine (${mcols.join(", ")}) SELECT ${msel.join(", ")} FROM dim_machine t JOIN machine_map mm ON mm.old_key = t.machine_key`);
       log(`  machines copied ×${copies} in ${((Date.now() - t0) / 1000).toFixed(1)} s`);
       await withoutSecondaryIndexes(client, FACTS.map((f) => f.table), async () => {
         for (const f of FACTS) {
           const t1 = Date.now();
           const cols = await columnsOf(client, f.table);
+          // copy i of a row: its machine and line through the maps, its own key hashed from the old one and i
+          const anchor = f.machine ? "mm" : "lm";
+          const joins = f.table === "fact_repair_line"
+            ? `JOIN line_map lm ON lm.old_key = t.repair_line_key JOIN machine_map mm ON mm.old_key = t.machine_key AND mm.i = lm.i`
+            : f.machine
+              ? `JOIN machine_map mm ON mm.old_key = t.${f.machine} LEFT JOIN line_map lm ON lm.old_key = t.${f.line} AND lm.i = mm.i`
+              : `JOIN line_map lm ON lm.old_key = t.${f.line}`;
           const sel = cols.map((c) =>
-            c === f.key || c === f.machine || c === f.line ? `CASE WHEN t.${c} IS NULL THEN NULL ELSE ${mapped(c)} END`
-            : f.ro && c === "ro_number" ? `t.ro_number || '~' || g.i` : `t.${c}`,
+            f.table === "fact_repair_line" && c === f.key ? "lm.new_key"
+            : c === f.key ? `wh_key(t.${c}::text || '-C' || ${anchor}.i)`
+            : c === f.machine ? "mm.new_key"
+            : c === f.line ? "lm.new_key"
+            : f.ro && c === "ro_number" ? "lm.ro_number" : `t.${c}`,
           );
-          const r = await client.query(
-            `INSERT INTO ${f.table} (${cols.join(", ")}) SELECT ${sel.join(", ")} FROM ${f.table} t CROSS JOIN generate_series(1, $1) AS g(i)`,
-            [copies - 1],
-          );
+          const r = await client.query(`INSERT INTO ${f.table} (${cols.join(", ")}) SELECT ${sel.join(", ")} FROM ${f.table} t ${joins}`);
           log(`  ${f.table}: ${r.rowCount?.toLocaleString("en-US")} rows in ${((Date.now() - t1) / 1000).toFixed(1)} s`);
         }
       });

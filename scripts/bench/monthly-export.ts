@@ -21,7 +21,8 @@ export async function writeMonthlyExport(pool: pg.Pool, file: string, lines: num
     `SELECT s.shop_code, f.ro_number || '-next' AS ro_number, f.line_no, m.serial,
             to_char(f.opened_date + interval '1 month', 'YYYY-MM-DD') AS opened_date,
             to_char(f.closed_date + interval '1 month', 'YYYY-MM-DD') AS closed_date,
-            round(coalesce((SELECT max(r.hours) FROM fact_meter_reading r WHERE r.machine_key = f.machine_key), 0) + 60, 1) AS hour_meter,
+            round(coalesce((SELECT r.hours FROM fact_hour_reading r WHERE r.machine_key = f.machine_key AND r.valid
+                             ORDER BY r.reading_date DESC, r.hours DESC LIMIT 1), 0) + 60, 1) AS hour_meter,
             NULL AS meter_note, f.complaint, f.cause, f.correction, c.component_code, fm.failure_mode_code AS failure_mode, f.labor_op,
             f.standard_hours, f.labor_hours, f.parts_cost, f.labor_cost, f.pay_type, f.line_type, t.tech_id, f.part_number,
             f.part_description, f.part_qty, f.supplier_lot,
