@@ -66,13 +66,16 @@ async function load(files: string[], o: { kind?: ExportKind; profile?: string; s
     }
     return 0;
   } finally {
-    // The analytics read exposure from a derived table: rebuild it once after the files that changed something.
+    // The analytics read exposure from a derived table: fold in what the files changed, once after them.
     // Kysely<any>: the ETL writes raw SQL and does not import the server's schema types.
     const db = new Kysely<any>({ dialect: new PostgresDialect({ pool }) });
     if (changed) {
       const r = await refreshExposure(db);
-      if (o.json) process.stdout.write(JSON.stringify({ event: "exposure_rebuilt", rows: r.rows, seconds: r.seconds }) + "\n");
-      else process.stderr.write(`Exposure rebuilt: ${r.rows} rows in ${r.seconds.toFixed(1)} s\n`);
+      if (o.json) {
+        process.stdout.write(JSON.stringify({ event: "exposure_rebuilt", mode: r.mode, machines: r.machines, rows: r.rows, seconds: r.seconds }) + "\n");
+      } else {
+        process.stderr.write(`Exposure ${r.mode === "full" ? "rebuilt" : `brought up to date (${r.machines} machines)`}: ${r.rows} rows in ${r.seconds.toFixed(1)} s\n`);
+      }
     }
     await db.destroy();
   }

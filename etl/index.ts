@@ -1,6 +1,6 @@
 /**
  * The ETL's public seam: the one module of etl/ that the server (and scripts) may import. Loading a file,
- * the shop register, the derived tables a load leaves stale, and the invented demo world.
+ * the shop register, the derived tables a load leaves stale (kept up to date incrementally), and the invented demo world.
  * The ETL imports nothing of the server (.dependency-cruiser.cjs keeps both directions).
  */
 export { loadFile, type BatchSummary, type LoadFileOptions, type LoadProgress } from "./load/load-file.js";
@@ -8,6 +8,6 @@ export { EtlFatalError } from "./errors.js";
 export { layouts } from "./layouts.js";
 export { upsertShops, type ShopInput } from "./shops/upsert-shops.js";
 export { readShopRegister } from "./shops/read-register.js";
-export { refreshExposure } from "./derived/refresh-exposure.js";
+export { refreshExposure, type ExposureRefresh } from "./derived/refresh-exposure.js";
 export { generateDemo, type Manifest } from "./demo/generate.js";
 export { shops as demoShops } from "./demo/scenario.js";

@@ -275,6 +275,41 @@ export interface AggRefreshTable {
   seconds: number;
 }
 
+/** Derived: one machine's share of agg_exposure (etl/derived/refresh-exposure.ts keeps the aggregate by difference). */
+export interface AggExposureMachineTable {
+  machine_key: Bigint;
+  month: string;
+  lot: string;
+  temp_band: string;
+  hour_band: string;
+  machine_days: number;
+  engine_hours: number;
+}
+
+/** Derived: the cohort and home shop a machine's share of agg_exposure was counted under. */
+export interface AggExposureCohortTable {
+  machine_key: Bigint;
+  engine_family: string;
+  model_line: string;
+  build_month: string;
+  shop_key: Bigint;
+}
+
+/** Derived: per shop and day, weather days so far in each temperature band (shared/bands.ts order). */
+export interface AggWeatherBandDaysTable {
+  shop_key: Bigint;
+  date: string;
+  days_through: number[];
+}
+
+/** Derived: repair lines whose hour-meter verdict was unusual at the last exposure refresh. */
+export interface AggExposureNotableReadingTable {
+  repair_line_key: Bigint;
+  machine_key: Bigint;
+  meter_generation: number;
+  hour_valid: boolean;
+}
+
 /** View: interpolated engine hours per machine and reading date, continuous across meter generations. */
 export interface VEngineHoursView {
   machine_key: Bigint;
@@ -286,6 +321,10 @@ export interface WarehouseTables {
   agg_exposure: AggExposureTable;
   agg_exposure_fleet: AggExposureFleetTable;
   agg_refresh: AggRefreshTable;
+  agg_exposure_machine: AggExposureMachineTable;
+  agg_exposure_cohort: AggExposureCohortTable;
+  agg_weather_band_days: AggWeatherBandDaysTable;
+  agg_exposure_notable_reading: AggExposureNotableReadingTable;
   v_engine_hours: VEngineHoursView;
   etl_batch: EtlBatchTable;
   etl_reject: EtlRejectTable;
