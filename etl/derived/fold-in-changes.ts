@@ -41,7 +41,7 @@ export async function foldInChanges(db: Kysely<any>, since: number): Promise<Cha
       IS DISTINCT FROM (o.machine_days, o.engine_hours, o.engine_family, o.model_line, o.build_month, o.shop_key)
   `.execute(db);
   await sql`SET LOCAL enable_mergejoin TO DEFAULT`.execute(db);
-  // the statements below join these small tables to large ones: by index, given their row counts
+  // joined to agg_exposure_machine next: by index, given its row count
   await sql`ANALYZE exposure_diff`.execute(db);
   await sql`
     DELETE FROM agg_exposure_machine c USING exposure_diff d
@@ -62,6 +62,5 @@ export async function foldInChanges(db: Kysely<any>, since: number): Promise<Cha
     WHERE v.days IS NOT NULL
     GROUP BY v.engine_family, v.model_line, v.build_month, d.lot, v.shop_key, d.month, d.temp_band, d.hour_band
   `.execute(db);
-  await sql`ANALYZE exposure_delta`.execute(db);
   return { ...scope, rowChange: await applyDelta(db) };
 }

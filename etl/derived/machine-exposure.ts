@@ -22,8 +22,8 @@ import { splitByTemperatureBand } from "./weather-band-days.js";
  *   expression h(k) above, so the cut falls on the same day as a day-by-day test would put it;
  * - the lot changes once, on the replacement day; months are cut at their first day;
  * - a run's engine hours are its days × (h1 − h0) / n (the day-by-day sum of the same value, up to rounding).
- * A segment costs a few rows instead of one per day (3.7 million days at the demo's scale 1 are about
- * 0.2 million runs).
+ * A segment costs a few rows instead of one per day (the demo's 3.7 million machine-days at scale 1 are
+ * about a quarter of a million runs).
  *
  * Machines counted: those with a home shop and a build (or else delivery) month, listed with that cohort in
  * agg_exposure_cohort. (A machine with neither date used to make the whole rebuild fail; it is left out.)

@@ -3,6 +3,7 @@ import { recordNotableReadings } from "./exposure-changes.js";
 import { rollUpAll } from "./exposure-rollup.js";
 import { foldInChanges } from "./fold-in-changes.js";
 import { machineExposureSql, refreshCohorts } from "./machine-exposure.js";
+import { reloadTable } from "./reload-table.js";
 import { rebuildBandDays } from "./weather-band-days.js";
 
 /**
@@ -19,15 +20,22 @@ import { rebuildBandDays } from "./weather-band-days.js";
  * 1. finds what the batches since agg_refresh.last_batch touched (exposure-changes.ts): machines whose master
  *    row, readings, meter verdicts or heater-plug lines changed, computed again whole; shops whose weather
  *    changed, whose machines are computed again for the months concerned;
- * 2. computes those machines' shares (machine-exposure.ts) and keeps the rows that differ from the stored ones;
- * 3. adds the difference to agg_exposure (groups reaching zero days are dropped) and sums the fleet groups
- *    it touched again (exposure-rollup.ts).
- * A full rebuild computes every share and sums them: the two agree row for row (machine-days exactly,
- * engine hours up to floating-point rounding; tests/etl/exposure-incremental.test.ts).
+ * 2. computes those machines' shares (machine-exposure.ts) and keeps the rows that differ from the stored ones
+ *    (a new reading at the end of a trail changes a month or two of it; the rest is neither written nor
+ *    added up again, so groups nothing touched keep their exact figures);
+ * 3. adds the difference to agg_exposure and agg_exposure_fleet through their unique grain indexes (groups
+ *    reaching zero days are dropped; exposure-rollup.ts).
+ * Its cost follows the machines touched, not the warehouse: at the demo's scale 5 a 5,000-line export
+ * touches a quarter of the fleet and is folded in in about a quarter of the time of a rebuild; at 10 million
+ * lines the same export touches well under 1 %. (At scale 1 it touches 83 %, and folding in costs about as
+ * much as rebuilding.) A full rebuild computes every share and sums them, building the tables' indexes after
+ * the rows (reload-table.ts): the two agree row for row (machine-days exactly, engine hours up to
+ * floating-point rounding, which additions and subtractions accumulate until the next full rebuild;
+ * tests/etl/exposure-incremental.test.ts).
  *
  * Why per segment. The shares are computed per reading segment cut into runs of one month, lot and hour band,
  * whose days fall in temperature bands by running counts of the shop's weather days (weather-band-days.ts),
- * instead of one row per machine-day: the full rebuild is much cheaper too.
+ * instead of one row per machine-day: rows grow with readings and months rather than with days.
  *
  * Batches. A load writes its batch row and its facts in one transaction, and batch ids are handed out when a
  * load starts, not when it commits: a refresh that ran beside a load could record a later batch as its high
@@ -80,11 +88,12 @@ export async function refreshExposure(db: Kysely<any>, options: { full?: boolean
 async function rebuildAll(db: Kysely<any>): Promise<{ rows: number; machines: number }> {
   await refreshCohorts(db, false);
   await rebuildBandDays(db, "all");
-  await sql`TRUNCATE agg_exposure_machine`.execute(db);
-  await sql`
-    INSERT INTO agg_exposure_machine (machine_key, month, lot, temp_band, hour_band, machine_days, engine_hours)
-    ${machineExposureSql(false)}
-  `.execute(db);
+  await reloadTable(db, "agg_exposure_machine", () =>
+    sql`
+      INSERT INTO agg_exposure_machine (machine_key, month, lot, temp_band, hour_band, machine_days, engine_hours)
+      ${machineExposureSql(false)}
+    `.execute(db),
+  );
   await recordNotableReadings(db);
   const machines = await sql<{ n: number }>`SELECT count(*)::integer AS n FROM agg_exposure_cohort`.execute(db);
   return { rows: await rollUpAll(db), machines: machines.rows[0].n };

@@ -10,6 +10,8 @@ import { temperatureBands } from "../../shared/bands.js";
  * are then days_through(b − 1)[i] − days_through(a − 1)[i], each day clamped to the shop's rows (before the
  * first row nothing is counted yet, after the last everything is), and the days of [a, b) with no weather
  * row are what the bands leave over: band "unknown". A shop without any weather has no rows: all unknown.
+ * Kept by the exposure refresh: rebuilt whole with the aggregates (so a change of bands takes effect with
+ * the next full rebuild), and for a shop whenever a batch changes its weather (a few thousand rows a shop).
  */
 
 const bandIds = temperatureBands.map((b) => b.id);

@@ -251,7 +251,13 @@ describe("exposure aggregates kept by difference", () => {
     expect([...seen("temp_band")].sort()).toEqual(["0-20F", "20-32F", "32-45F", "45F-up", "below-0F", UNKNOWN_BAND].sort());
     expect(seen("hour_band")).toEqual(new Set(["0-500", "500-1k", "1k-2k", "2k-3k", "3k-4k", "4k-6k"]));
     expect(seen("lot")).toEqual(new Set(["BT-2109", "BT-2301", "QL-2201", "QL-9090", "QL-2299"]));
-    const set = await sql<{ n: number }>`SELECT count(*)::integer AS n FROM fact_repair_line WHERE NOT hour_valid`.execute(inc.db);
-    expect(set.rows[0].n).toBeGreaterThan(0);
+    const lines = await sql<{ ro_number: string; serial: string; hour_valid: boolean; meter_generation: number }>`
+      SELECT f.ro_number, m.serial, f.hour_valid, f.meter_generation FROM fact_repair_line f JOIN dim_machine m USING (machine_key)
+      WHERE f.ro_number IN ('R-103', 'R-104', 'R-7') ORDER BY f.ro_number`.execute(inc.db);
+    expect(lines.rows).toEqual([
+      { ro_number: "R-103", serial: "KL7020002", hour_valid: true, meter_generation: 0 }, // moved from KT18-20003
+      { ro_number: "R-104", serial: "KL7020002", hour_valid: false, meter_generation: 0 }, // set aside when judged again
+      { ro_number: "R-7", serial: "KT3520001", hour_valid: true, meter_generation: 1 }, // the replaced meter's first reading
+    ]);
   });
 });
