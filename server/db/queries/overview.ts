@@ -190,11 +190,15 @@ export const VISIT_GAP_MINUTES = 30;
  */
 export async function recordVisit(db: Db, sub: string, clusterIds: string[], now = new Date()): Promise<{ previousVisitAt: Date | null; previousClusterIds: string[] | null }> {
   return await db.transaction().execute(async (trx) => {
-    const row = await trx.selectFrom("app_user_visit").selectAll().where("sub", "=", sub).forUpdate().executeTakeFirst();
-    if (!row) {
-      await trx.insertInto("app_user_visit").values({ sub, last_request_at: now, current_cluster_ids: clusterIds, previous_visit_at: null, previous_cluster_ids: null }).execute();
-      return { previousVisitAt: null, previousClusterIds: null };
-    }
+    // a first visit inserts; two first requests at once (a loader and a page) must not both try: the loser reads the winner's row
+    const first = await trx
+      .insertInto("app_user_visit")
+      .values({ sub, last_request_at: now, current_cluster_ids: clusterIds, previous_visit_at: null, previous_cluster_ids: null })
+      .onConflict((oc) => oc.column("sub").doNothing())
+      .returning("sub")
+      .executeTakeFirst();
+    if (first) return { previousVisitAt: null, previousClusterIds: null };
+    const row = await trx.selectFrom("app_user_visit").selectAll().where("sub", "=", sub).forUpdate().executeTakeFirstOrThrow();
     const newVisit = now.getTime() - row.last_request_at.getTime() > VISIT_GAP_MINUTES * 60_000;
     const previousVisitAt = newVisit ? row.last_request_at : row.previous_visit_at;
     const previousClusterIds = newVisit ? row.current_cluster_ids : row.previous_cluster_ids;
