@@ -48,6 +48,9 @@ interface Acc {
   families: number;
 }
 
+const cellKey = (d: CellDimensions): string =>
+  [d.engineFamily, d.build === ALL ? ALL : `${d.build.from}~${d.build.to}`, d.supplierLot, d.shop, d.temperatureBand, d.hourBand].join("\u0001");
+
 /** Value dictionaries per dimension, so a cell key is one integer (mixed radix, ALL = 0). */
 function dictionaries(rows: readonly CubeRow[]) {
   return DIMS.map((d) => {
@@ -64,7 +67,11 @@ function dictionaries(rows: readonly CubeRow[]) {
  * precisely); cells that then coincide are kept once. Single build months that stand out are also
  * merged into consecutive build windows by {@link collapseBuildWindows}.
  */
-export function buildScanCells(rows: readonly CubeRow[], by: Standardisation = "hour+temperature"): ScanCell[] {
+export function buildScanCells(
+  rows: readonly CubeRow[],
+  by: Standardisation = "hour+temperature",
+  { withIds = true }: { withIds?: boolean } = {},
+): ScanCell[] {
   const rates = referenceRates(rows, by);
   const dicts = dictionaries(rows);
   const radix = dicts.map((d) => d.values.length + 1);
@@ -94,7 +101,7 @@ export function buildScanCells(rows: readonly CubeRow[], by: Standardisation = "
       }
       a.observed += r.failures;
       a.expected += expected;
-      if (r.repairLineIds.length) for (const id of r.repairLineIds) a.ids.push(id);
+      if (withIds && r.repairLineIds.length) for (const id of r.repairLineIds) a.ids.push(id);
       if (counts) {
         a.months[month >>> 5] |= 1 << (month & 31);
         a.families |= familyBit;
@@ -124,7 +131,7 @@ export function buildScanCells(rows: readonly CubeRow[], by: Standardisation = "
         d.build = { from: allMonths[present[0]], to: allMonths[present[present.length - 1]] };
       }
     }
-    const key = JSON.stringify(d);
+    const key = cellKey(d);
     if (seen.has(key)) continue;
     seen.add(key);
     const cell: ScanCell = { dimensions: d, observed: a.observed, expected: a.expected, repairLineIds: a.ids };
@@ -134,10 +141,31 @@ export function buildScanCells(rows: readonly CubeRow[], by: Standardisation = "
   for (const w of collapseBuildWindows(singleMonth)) {
     const b = w.dimensions.build;
     if (b === ALL || b.from === b.to) continue;
-    const key = JSON.stringify(w.dimensions);
+    const key = cellKey(w.dimensions);
     if (seen.has(key)) continue;
     seen.add(key);
     out.push(w);
+  }
+  return out;
+}
+
+/**
+ * The repair lines of the cube rows that fall in a cell (every fixed dimension equal, the build month inside
+ * the window), in cube order. Lets a scan build its cells without carrying every failure's key through every
+ * one of them, and name the lines of the few cells it keeps afterwards.
+ */
+export function failureIdsIn(rows: readonly CubeRow[], d: CellDimensions): string[] {
+  const out: string[] = [];
+  const b = d.build;
+  for (const r of rows) {
+    if (!r.repairLineIds.length) continue;
+    if (d.engineFamily !== ALL && d.engineFamily !== r.engineFamily) continue;
+    if (d.supplierLot !== ALL && d.supplierLot !== r.lot) continue;
+    if (d.shop !== ALL && d.shop !== r.shopCode) continue;
+    if (d.temperatureBand !== ALL && d.temperatureBand !== r.tempBand) continue;
+    if (d.hourBand !== ALL && d.hourBand !== r.hourBand) continue;
+    if (b !== ALL && (r.buildMonth < b.from || r.buildMonth > b.to)) continue;
+    for (const id of r.repairLineIds) out.push(id);
   }
   return out;
 }

@@ -1,5 +1,5 @@
 import { benjaminiHochberg } from "./fdr.js";
-import { poissonExcessPValue, standardisedRatio, type StandardisedRatio } from "./poisson.js";
+import { poissonExactInterval, poissonExcessPValue, type StandardisedRatio } from "./poisson.js";
 import { monthIndex } from "../../shared/dates.js";
 
 /** Marks a dimension that a cell does not restrict. */
@@ -154,12 +154,16 @@ function validateCell(cell: ScanCell): void {
 }
 
 /** True when the part of `broad` outside `specific` shows no excess: its exact lower ratio limit is ≤ 1. */
-function remainderHasExcess(broad: ScannedCell, specific: ScannedCell, level: number): boolean | null {
+function remainderHasExcess(
+  broad: ScannedCell,
+  specific: ScannedCell,
+  ratioOf: (observed: number, expected: number) => StandardisedRatio,
+): boolean | null {
   const observed = broad.observed - specific.observed;
   const expected = broad.expected - specific.expected;
   if (observed < 0 || expected < -1e-9) return null; // not nested in the data: the rule does not apply
   if (expected <= 1e-9) return observed > 0;
-  return standardisedRatio(observed, expected, level)!.lower > 1;
+  return ratioOf(observed, expected).lower > 1;
 }
 
 /**
@@ -184,10 +188,17 @@ export function scanClusters(cells: readonly ScanCell[], options: ClusterScanOpt
   const testable = cells.filter((c) => c.expected > 0);
   const untested = cells.filter((c) => !(c.expected > 0));
   const pValues = testable.map((c) => poissonExcessPValue(c.observed, c.expected));
+  // the Garwood limits depend on the count alone: one interval per distinct count (a large scan tests ~10⁵ cells)
+  const intervals = new Map<number, { lower: number; upper: number }>();
+  const ratioOf = (observed: number, expected: number): StandardisedRatio => {
+    let i = intervals.get(observed);
+    if (!i) intervals.set(observed, (i = poissonExactInterval(observed, level)));
+    return { observed, expected, ratio: observed / expected, lower: i.lower / expected, upper: i.upper / expected, level };
+  };
   const { adjusted } = benjaminiHochberg(pValues);
   const tested: ScannedCell[] = testable.map((c, i) => ({
     ...c,
-    ratio: standardisedRatio(c.observed, c.expected, level)!,
+    ratio: ratioOf(c.observed, c.expected),
     pValue: pValues[i],
     qValue: adjusted[i],
   }));
@@ -196,25 +207,65 @@ export function scanClusters(cells: readonly ScanCell[], options: ClusterScanOpt
   const significant = tested.filter((c) => c.qValue < qThreshold).sort(byRank);
 
   const dropped = new Map<ScannedCell, DroppedCell>();
+  const within = containedIn(significant);
   for (const broad of significant) {
-    for (const specific of significant) {
-      if (!containsCell(broad.dimensions, specific.dimensions)) continue;
+    for (const specific of within(broad)) {
       if (specific.ratio.lower <= broad.ratio.ratio) {
         if (!dropped.has(specific)) dropped.set(specific, { cell: specific, reason: "no-extra-signal", by: broad.dimensions });
-      } else if (remainderHasExcess(broad, specific, level) === false && !dropped.has(broad)) {
+      } else if (!dropped.has(broad) && remainderHasExcess(broad, specific, ratioOf) === false) {
         dropped.set(broad, { cell: broad, reason: "explained-by-contained-cell", by: specific.dimensions });
       }
     }
   }
   const kept = significant.filter((c) => !dropped.has(c));
   const droppedList = [...dropped.values()];
+  const absorbedBy = new Map<CellDimensions, CellDimensions[]>();
+  for (const d of droppedList) {
+    const list = absorbedBy.get(d.by);
+    if (list) list.push(d.cell.dimensions);
+    else absorbedBy.set(d.by, [d.cell.dimensions]);
+  }
   const signals: ClusterSignal[] = kept.map((c, i) => ({
     ...c,
     rank: i + 1,
     description: describeCell(c, options.subject, options.labels),
-    absorbed: droppedList.filter((d) => d.by === c.dimensions).map((d) => d.cell.dimensions),
+    absorbed: absorbedBy.get(c.dimensions) ?? [],
   }));
   return { tested, untested, signals, dropped: droppedList, qThreshold, level };
+}
+
+/**
+ * For each cell of `cells`, the cells of the same list it contains ({@link containsCell}), in list order.
+ * Cells are indexed once under each of the 2⁵ generalisations of their scalar dimensions, so a broad cell
+ * finds its candidates by one look-up instead of a pass over every cell (the scan's significant cells
+ * number in the thousands on a large warehouse); build windows are then compared as month numbers.
+ */
+export function containedIn<C extends ScanCell>(cells: readonly C[]): (broad: C) => C[] {
+  const months = new Map<C, [number, number] | null>();
+  const buckets = new Map<string, C[]>();
+  const keyOf = (d: CellDimensions, mask: number) =>
+    `${mask}\u0001${SCALAR_DIMENSIONS.map((k, i) => (mask & (1 << i) ? ALL : d[k])).join("\u0001")}`;
+  for (const c of cells) {
+    const b = c.dimensions.build;
+    months.set(c, b === ALL ? null : [monthIndex(b.from), monthIndex(b.to)]);
+    for (let mask = 0; mask < 1 << SCALAR_DIMENSIONS.length; mask++) {
+      const k = keyOf(c.dimensions, mask);
+      const list = buckets.get(k);
+      if (list) list.push(c);
+      else buckets.set(k, [c]);
+    }
+  }
+  return (broad) => {
+    const mask = SCALAR_DIMENSIONS.reduce((m, k, i) => (broad.dimensions[k] === ALL ? m | (1 << i) : m), 0);
+    const wide = months.get(broad) ?? (broad.dimensions.build === ALL ? null : [monthIndex(broad.dimensions.build.from), monthIndex(broad.dimensions.build.to)]);
+    return (buckets.get(keyOf(broad.dimensions, mask)) ?? []).filter((s) => {
+      const narrow = months.get(s)!;
+      if (wide === null) return narrow !== null || !sameDimensions(broad.dimensions, s.dimensions);
+      if (narrow === null) return false;
+      if (wide[0] === narrow[0] && wide[1] === narrow[1]) return !sameDimensions(broad.dimensions, s.dimensions);
+      return wide[0] <= narrow[0] && narrow[1] <= wide[1];
+    });
+  };
 }
 
 /**

@@ -14,7 +14,7 @@ export function analyticsClusterRoutes(db: Db): Router {
       components: comps,
       method: clusterMethod(q.standardise),
       caution: clusterCaution,
-      cellsTested: scan.tested.length,
+      cellsTested: scan.cellsTested,
       qThreshold: scan.qThreshold,
       clusters: scan.signals.slice(0, q.limit).map((s) => toCluster(comps, s)),
     };

@@ -4,8 +4,9 @@ import type { ShopScope } from "../../shared/schemas/me.js";
 import { analyticsFiltersSchema, type AnalyticsFilters } from "../../shared/schemas/analytics-filters.js";
 import { clusterQuerySchema, type Cluster, type ClusterQuery } from "../../shared/schemas/analytics-clusters.js";
 import { scanCells } from "../db/queries/analytics-clusters.js";
-import type { ClusterScanResult, ClusterSignal } from "../analytics/cluster-scan.js";
+import type { ClusterSignal } from "../analytics/cluster-scan.js";
 import { scanOnWorker } from "./cluster-scan/scan-pool.js";
+import type { ScanSummary } from "./cluster-scan/scan-task.js";
 import { ResultCache } from "./result-cache.js";
 import { dataVersion } from "../db/queries/data-version.js";
 import { components } from "../../shared/catalog.js";
@@ -33,11 +34,11 @@ export interface ClusterFinding {
   components: string[];
   filters: AnalyticsFilters;
   query: ClusterQuery;
-  scan: ClusterScanResult;
+  scan: ScanSummary;
 }
 
 // one cache per database handle, so apps over different databases never share results
-const caches = new WeakMap<Db, ResultCache<ClusterScanResult>>();
+const caches = new WeakMap<Db, ResultCache<ScanSummary>>();
 
 /**
  * The cluster scan for a caller's scope and the query-string parameters (cluster options plus the shared
@@ -48,7 +49,7 @@ export async function findClusters(db: Db, scope: ShopScope, raw: Record<string,
   const comps = query.components ?? COLD_START_AIDS;
   const filters = analyticsFiltersSchema.parse({ ...raw, components: comps.join(",") });
   let cache = caches.get(db);
-  if (!cache) caches.set(db, (cache = new ResultCache<ClusterScanResult>(50)));
+  if (!cache) caches.set(db, (cache = new ResultCache<ScanSummary>(50)));
   const key = JSON.stringify([scope, filters, query.standardise, query.q]);
   const scan = await cache.get(key, await dataVersion(db), async () => {
     const rows = await scanCells(db, scope, filters);

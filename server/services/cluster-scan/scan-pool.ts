@@ -6,8 +6,7 @@
  */
 import path from "node:path";
 import { Piscina } from "piscina";
-import type { ClusterScanResult } from "../../analytics/cluster-scan.js";
-import type { ScanTask } from "./scan-task.js";
+import type { ScanSummary, ScanTask } from "./scan-task.js";
 
 let pool: Piscina | null = null;
 
@@ -22,6 +21,6 @@ function scanPool(): Piscina {
   return pool;
 }
 
-export function scanOnWorker(task: ScanTask): Promise<ClusterScanResult> {
-  return scanPool().run(task) as Promise<ClusterScanResult>;
+export function scanOnWorker(task: ScanTask): Promise<ScanSummary> {
+  return scanPool().run(task) as Promise<ScanSummary>;
 }
