@@ -1,5 +1,5 @@
 /**
- * npm run bench:scale [-- --lines N] [--connections C] [--seconds S] [--fresh]
+ * npm run bench:scale [-- --lines N] [--connections C] [--seconds S] [--fresh] [--build-only]
  *
  * A warehouse of N job lines (default 10,000,000): the demo world at scale 1 loaded through the ETL, its fleet
  * then copied in SQL until it holds N lines (scripts/bench/amplify.ts: same distributions, far faster than
@@ -33,8 +33,9 @@ const o = new Command()
   .option("--connections <n>", "concurrent connections per route", (v) => Number(v), 20)
   .option("--seconds <n>", "seconds of load per route", (v) => Number(v), 10)
   .option("--fresh", "drop and build the warehouse again")
+  .option("--build-only", "build the warehouse (if missing) and stop before the measurements")
   .parse()
-  .opts<{ lines: number; connections: number; seconds: number; fresh?: boolean }>();
+  .opts<{ lines: number; connections: number; seconds: number; fresh?: boolean; buildOnly?: boolean }>();
 
 const config = loadConfig();
 const base = new URL(process.env.BENCH_PG_URL ?? config.databaseUrl);
@@ -131,6 +132,10 @@ async function main() {
     }
     const lines = Number((await pool.query<{ n: string }>("SELECT count(*)::text AS n FROM fact_repair_line")).rows[0].n);
     figures.unshift(["job lines in the warehouse", lines.toLocaleString("en-US")]);
+    if (o.buildOnly) {
+      log(`${lines.toLocaleString("en-US")} job lines in ${dbName}; measurements skipped (--build-only).`);
+      return;
+    }
 
     const secret = randomBytes(16).toString("hex");
     const analyst = await sessionCookie(pool, secret, ["analyst"], []);
