@@ -3,6 +3,7 @@ import { scopeChanges, type ChangeScope } from "./exposure-changes.js";
 import { applyDelta } from "./exposure-rollup.js";
 import { machineExposureSql, refreshCohorts } from "./machine-exposure.js";
 import { rebuildBandDays } from "./weather-band-days.js";
+import { refreshMachineTrail } from "./machine-trail.js";
 
 /**
  * The incremental refresh: the machines the batches after `since` touched are computed again (for the days
@@ -22,6 +23,7 @@ export async function foldInChanges(db: Kysely<any>, since: number): Promise<Cha
     JOIN agg_exposure_cohort k ON k.machine_key = c.machine_key
   `.execute(db);
   await refreshCohorts(db, true);
+  await refreshMachineTrail(db, "scoped");
   await sql`
     CREATE TEMP TABLE exposure_new ON COMMIT DROP AS
     SELECT k.engine_family, k.model_line, k.build_month, k.shop_key, x.*

@@ -5,6 +5,7 @@ import { foldInChanges } from "./fold-in-changes.js";
 import { machineExposureSql, refreshCohorts } from "./machine-exposure.js";
 import { reloadTable } from "./reload-table.js";
 import { rebuildBandDays } from "./weather-band-days.js";
+import { refreshMachineTrail } from "./machine-trail.js";
 
 /**
  * Keeps agg_exposure and agg_exposure_fleet current after loads: machine-days and engine hours per cohort ×
@@ -87,6 +88,7 @@ export async function refreshExposure(db: Kysely<any>, options: { full?: boolean
 /** Every share computed and summed; the weather counts and the verdict snapshot rebuilt with them. */
 async function rebuildAll(db: Kysely<any>): Promise<{ rows: number; machines: number }> {
   await refreshCohorts(db, false);
+  await refreshMachineTrail(db, "all");
   await rebuildBandDays(db, "all");
   await reloadTable(db, "agg_exposure_machine", () =>
     sql`

@@ -295,6 +295,14 @@ export interface AggExposureCohortTable {
   shop_key: Bigint;
 }
 
+/** Derived: each machine's first and last valid engine hours and first reading date (from v_engine_hours). */
+export interface AggMachineTrailTable {
+  machine_key: Bigint;
+  first_h: number;
+  last_h: number;
+  first_d: string;
+}
+
 /** Derived: per shop and day, weather days so far in each temperature band (shared/bands.ts order). */
 export interface AggWeatherBandDaysTable {
   shop_key: Bigint;
@@ -323,6 +331,7 @@ export interface WarehouseTables {
   agg_refresh: AggRefreshTable;
   agg_exposure_machine: AggExposureMachineTable;
   agg_exposure_cohort: AggExposureCohortTable;
+  agg_machine_trail: AggMachineTrailTable;
   agg_weather_band_days: AggWeatherBandDaysTable;
   agg_exposure_notable_reading: AggExposureNotableReadingTable;
   v_engine_hours: VEngineHoursView;

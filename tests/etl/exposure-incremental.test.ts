@@ -240,6 +240,14 @@ describe("exposure aggregates kept by difference", () => {
       expect(differences(folded.fleet, rebuilt.fleet)).toEqual([]);
       const shares = (t: TestDb) => sql<AggRow>`SELECT * FROM agg_exposure_machine`.execute(t.db);
       expect(differences((await shares(inc)).rows, (await shares(full)).rows)).toEqual([]);
+      // the per-machine hour trails the life curves read: kept by machine, equal to a rebuild row for row
+      const trails = async (t: TestDb) =>
+        (await sql`SELECT * FROM agg_machine_trail ORDER BY machine_key`.execute(t.db)).rows;
+      expect(await trails(inc)).toEqual(await trails(full));
+      expect(await trails(full)).toEqual(
+        (await sql`SELECT machine_key, min(engine_hours) AS first_h, max(engine_hours) AS last_h, min(reading_date) AS first_d
+                   FROM v_engine_hours GROUP BY machine_key ORDER BY machine_key`.execute(full.db)).rows,
+      );
       const rows = await sql<{ rows: number }>`SELECT rows FROM agg_refresh WHERE name = 'exposure'`.execute(inc.db);
       expect(rows.rows[0].rows).toBe(folded.exposure.length);
     });

@@ -140,8 +140,7 @@ export function machinesCarrying(component: string, scope: ShopScope, f: Analyti
       JOIN dim_shop s ON s.shop_key = m.home_shop_key
       WHERE m.engine_family IN ${familiesCarrying([component])}
     ) m
-    JOIN (SELECT machine_key, min(engine_hours) AS first_h, max(engine_hours) AS last_h, min(reading_date) AS first_d
-          FROM v_engine_hours GROUP BY machine_key) t ON t.machine_key = m.machine_key
+    JOIN agg_machine_trail t ON t.machine_key = m.machine_key
     WHERE ${cohortConditions("m", scope, machineLevel)}
   )`;
 }
