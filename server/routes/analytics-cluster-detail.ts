@@ -4,7 +4,7 @@ import type { Db } from "../db/database.js";
 import { HttpError } from "../errors.js";
 import type { ClusterDetail } from "../../shared/schemas/analytics-clusters.js";
 import { hourBands, temperatureBands } from "../../shared/bands.js";
-import { clusterCaution, clusterMethod, findClusters, toCluster } from "../services/cluster-finder.js";
+import { clusterCaution, clusterMethod, clustersOf, findClusters } from "../services/cluster-finder.js";
 import { clusterLineFacts, failureBandCounts } from "../db/queries/cluster-detail.js";
 import { listRepairs } from "../db/queries/repairs.js";
 import { analyticsRoles } from "../../shared/roles.js";
@@ -36,18 +36,17 @@ export function clusterDetailRoutes(db: Db): Router {
   const answers = new AnswerCache(db, 100);
   router.get("/:id", allow(...analyticsRoles), async (req, res) => {
     const scope = requireScope(req);
-    res.json(await answers.forRequest(req, scope, () => clusterDetail(db, scope, String(req.params.id), req.query)));
+    await answers.send(req, res, scope, () => clusterDetail(db, scope, String(req.params.id), req.query));
   });
   return router;
 }
 
 async function clusterDetail(db: Db, scope: ShopScope, id: string, query: Record<string, unknown>): Promise<ClusterDetail> {
   const found = await findClusters(db, scope, query);
-  const signal = found.scan.signals.find((s) => toCluster(found.components, s).id === id);
-  if (!signal) {
+  const cluster = clustersOf(found).find((c) => c.id === id);
+  if (!cluster) {
     throw new HttpError(404, "cluster_not_found", "That cluster is not in the current scan: the data, the filters or your shops may have changed. Open the cluster list again.");
   }
-  const cluster = toCluster(found.components, signal);
   const ids = cluster.repairLineIds;
   const [facts, background, lines] = await Promise.all([
     clusterLineFacts(db, scope, found.filters, ids),

@@ -67,7 +67,7 @@ export function analyticsLifeRoutes(db: Db): Router {
   };
 
   router.get("/weibull", async (req, res) => {
-    res.json(await answers.forRequest(req, requireScope(req), () => weibull(req)));
+    await answers.send(req, res, requireScope(req), () => weibull(req));
   });
   const weibull = async (req: Request): Promise<WeibullResponse> => {
     const { f, q, cold } = await load(req);
@@ -105,7 +105,7 @@ export function analyticsLifeRoutes(db: Db): Router {
   };
 
   router.get("/kaplan-meier", async (req, res) => {
-    res.json(await answers.forRequest(req, requireScope(req), () => km(req)));
+    await answers.send(req, res, requireScope(req), () => km(req));
   });
   const km = async (req: Request): Promise<KaplanMeierResponse> => {
     const { f, q, cold } = await load(req);
@@ -133,7 +133,7 @@ export function analyticsLifeRoutes(db: Db): Router {
   };
 
   router.get("/mcf", async (req, res) => {
-    res.json(await answers.forRequest(req, requireScope(req), () => mcf(req)));
+    await answers.send(req, res, requireScope(req), () => mcf(req));
   });
   const mcf = async (req: Request): Promise<McfResponse> => {
     const f = analyticsFiltersSchema.parse(req.query);

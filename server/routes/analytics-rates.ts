@@ -33,7 +33,7 @@ export function analyticsRateRoutes(db: Db): Router {
   const answers = new AnswerCache(db, 200);
 
   router.get("/hour-bands", async (req, res) => {
-    res.json(await answers.forRequest(req, requireScope(req), () => hourBandRates(req)));
+    await answers.send(req, res, requireScope(req), () => hourBandRates(req));
   });
   const hourBandRates = async (req: Request): Promise<HourBandRates> => {
     const f = analyticsFiltersSchema.parse(req.query);
@@ -45,7 +45,7 @@ export function analyticsRateRoutes(db: Db): Router {
   };
 
   router.get("/temperature-bands", async (req, res) => {
-    res.json(await answers.forRequest(req, requireScope(req), () => temperatureBandRates(req)));
+    await answers.send(req, res, requireScope(req), () => temperatureBandRates(req));
   });
   const temperatureBandRates = async (req: Request): Promise<TemperatureBandRates> => {
     const f = analyticsFiltersSchema.parse(req.query);
@@ -65,7 +65,7 @@ export function analyticsRateRoutes(db: Db): Router {
   };
 
   router.get("/components", async (req, res) => {
-    res.json(await answers.forRequest(req, requireScope(req), () => componentRates(req)));
+    await answers.send(req, res, requireScope(req), () => componentRates(req));
   });
   const componentRates = async (req: Request): Promise<ComponentRates> => {
     const f = analyticsFiltersSchema.parse(req.query);
@@ -91,7 +91,7 @@ export function analyticsRateRoutes(db: Db): Router {
   };
 
   router.get("/monthly", async (req, res) => {
-    res.json(await answers.forRequest(req, requireScope(req), () => monthlyRates(req)));
+    await answers.send(req, res, requireScope(req), () => monthlyRates(req));
   });
   const monthlyRates = async (req: Request): Promise<MonthlyRates> => {
     const f = analyticsFiltersSchema.parse(req.query);

@@ -2,12 +2,17 @@
  * /api/benchmarks: shop benchmarks, funnel, trend and the comeback pairs behind a figure, computed by the
  * benchmarks service. Parses the query, checks role and scope, and answers.
  */
-import { Router } from "express";
+import { createHash } from "node:crypto";
+import { Router, type Request, type Response } from "express";
 import { allow, requireScope } from "../auth/require-user.js";
 import type { Db } from "../db/database.js";
 import { scopeIncludes } from "../db/queries/scope.js";
 import { forbidden, notFound } from "../errors.js";
 import { benchmarkService } from "../services/benchmarks/service.js";
+import { AnswerCache } from "../services/answer-cache.js";
+import { warrantyClaimCounts } from "../db/queries/benchmarks.js";
+import { todayIso } from "../../shared/dates.js";
+import type { ShopScope } from "../../shared/schemas/me.js";
 import { benchmarkQuerySchema, comebackPairsQuerySchema, trendQuerySchema } from "../../shared/schemas/benchmarks.js";
 
 const BENCHMARK_ROLES = ["director", "analyst", "manager", "admin"] as const;
@@ -18,17 +23,18 @@ export function benchmarkRoutes(db: Db, peerSecret: string): Router {
   const benchmarks = benchmarkService(db, peerSecret);
   router.use(allow(...BENCHMARK_ROLES));
 
-  router.get("/shops", async (req, res) => {
-    res.json(await benchmarks.shops(requireScope(req), benchmarkQuerySchema.parse(req.query)));
-  });
+  // answers change with the data, the day (claims fall due) and the claims filed: all three are in the key
+  const answers = new AnswerCache(db, 50);
+  const answer = async (req: Request, res: Response, compute: (scope: ShopScope) => Promise<unknown>) => {
+    const scope = requireScope(req);
+    const today = todayIso();
+    const claims = createHash("sha256").update(JSON.stringify(await warrantyClaimCounts(db, today))).digest("base64url");
+    await (await answers.answer([req.path, scope, req.query, today, claims], () => compute(scope))).send(req, res);
+  };
 
-  router.get("/funnel", async (req, res) => {
-    res.json(await benchmarks.funnel(requireScope(req), benchmarkQuerySchema.parse(req.query)));
-  });
-
-  router.get("/trend", async (req, res) => {
-    res.json(await benchmarks.trend(requireScope(req), trendQuerySchema.parse(req.query)));
-  });
+  router.get("/shops", (req, res) => answer(req, res, (scope) => benchmarks.shops(scope, benchmarkQuerySchema.parse(req.query))));
+  router.get("/funnel", (req, res) => answer(req, res, (scope) => benchmarks.funnel(scope, benchmarkQuerySchema.parse(req.query))));
+  router.get("/trend", (req, res) => answer(req, res, (scope) => benchmarks.trend(scope, trendQuerySchema.parse(req.query))));
 
   router.get("/comebacks", async (req, res) => {
     const scope = requireScope(req);

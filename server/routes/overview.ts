@@ -1,10 +1,10 @@
 import { Router } from "express";
 import { allow, requireScope, requireUser } from "../auth/require-user.js";
 import type { Db } from "../db/database.js";
-import type { Overview } from "../../shared/schemas/overview.js";
+import { NEW_CLUSTERS_SHOWN, type Overview } from "../../shared/schemas/overview.js";
 import { recordVisit, type LoadRow } from "../db/queries/overview.js";
 import { listShops } from "../db/queries/shops.js";
-import { findClusters, toCluster } from "../services/cluster-finder.js";
+import { clustersOf, findClusters } from "../services/cluster-finder.js";
 import { overviewSummary } from "../services/overview-summary.js";
 import { AnswerCache } from "../services/answer-cache.js";
 import { analyticsRoles } from "../../shared/roles.js";
@@ -46,9 +46,10 @@ export function overviewRoutes(db: Db): Router {
       listShops(db, scope),
       findClusters(db, scope, {}),
     ]);
-    const clusters = found.scan.signals.map((s) => toCluster(found.components, s));
+    const clusters = clustersOf(found);
     const visit = await recordVisit(db, user.sub, clusters.map((c) => c.id));
     const seen = new Set(visit.previousClusterIds ?? []);
+    const fresh = clusters.filter((c) => !seen.has(c.id));
     const body: Overview = {
       loads: loadsByShop(loads, new Map(shops.map((s) => [s.code, s.name]))),
       headlines,
@@ -56,7 +57,8 @@ export function overviewRoutes(db: Db): Router {
         firstVisit: visit.previousClusterIds === null,
         previousVisitAt: visit.previousVisitAt?.toISOString() ?? null,
         total: clusters.length,
-        newSinceLastVisit: clusters.filter((c) => !seen.has(c.id)).map(({ repairLineIds: _ids, ...c }) => c),
+        newCount: fresh.length,
+        newSinceLastVisit: fresh.slice(0, NEW_CLUSTERS_SHOWN).map(({ repairLineIds: _ids, ...c }) => c),
       },
       attention: { windowEnd: attention.windowEnd, definition: ATTENTION_DEFINITION, machines: attention.rows },
     };

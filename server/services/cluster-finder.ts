@@ -75,3 +75,12 @@ export const toCluster = (comps: string[], s: ClusterSignal): Cluster => ({
   repairLineIds: [...s.repairLineIds],
   absorbed: s.absorbed.length,
 });
+
+const listed = new WeakMap<ScanSummary, Cluster[]>();
+
+/** Every signal of a scan as the API shows it, worked out once per scan (ids are hashes; lists are long). */
+export function clustersOf(found: Pick<ClusterFinding, "components" | "scan">): Cluster[] {
+  let list = listed.get(found.scan);
+  if (!list) listed.set(found.scan, (list = found.scan.signals.map((s) => toCluster(found.components, s))));
+  return list;
+}

@@ -26,6 +26,9 @@ const headlineSchema = z.object({
 export type Headline = z.infer<typeof headlineSchema>;
 
 /** GET /api/overview */
+/** New clusters the Overview lists by name; the rest are counted and reached through the Clusters page. */
+export const NEW_CLUSTERS_SHOWN = 10;
+
 export const overviewSchema = z.object({
   loads: z.array(
     z.object({
@@ -49,7 +52,9 @@ export const overviewSchema = z.object({
     firstVisit: z.boolean(),
     previousVisitAt: z.string().nullable(),
     total: z.number(),
-    /** clusters in the current scan that the previous visit did not show (every cluster on a first visit) */
+    /** how many clusters in the current scan the previous visit did not show (every cluster on a first visit) */
+    newCount: z.number(),
+    /** the highest-ranked of those new clusters, at most NEW_CLUSTERS_SHOWN */
     newSinceLastVisit: z.array(clusterSchema.omit({ repairLineIds: true })),
   }),
   attention: z.object({

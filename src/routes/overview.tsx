@@ -66,8 +66,8 @@ function Headlines({ h }: { h: Overview["headlines"] }) {
 function NewClusters({ c }: { c: Overview["clusters"] }) {
   const intro = c.firstVisit
     ? `Your first visit: all ${c.total} clusters the finder reports are new to you.`
-    : c.newSinceLastVisit.length
-      ? `${c.newSinceLastVisit.length} of ${c.total} clusters were not there at your last visit (${when(c.previousVisitAt)}).`
+    : c.newCount
+      ? `${c.newCount} of ${c.total} clusters were not there at your last visit (${when(c.previousVisitAt)}).`
       : `Nothing new since your last visit (${when(c.previousVisitAt)}); ${c.total} clusters in all.`;
   return (
     <>

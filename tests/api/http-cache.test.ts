@@ -1,11 +1,14 @@
 import { mkdirSync, mkdtempSync, rmSync, writeFileSync } from "node:fs";
 import os from "node:os";
 import path from "node:path";
+import express from "express";
 import request from "supertest";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { createApp } from "../../server/app.js";
 import { createOidcClient } from "../../server/auth/oidc-client.js";
 import { testApp, type TestApp } from "../helpers/test-app.js";
+import { PreparedJson } from "../../server/http/prepared-json.js";
+import { AnswerCache } from "../../server/services/answer-cache.js";
 
 // Conditional requests and caching as RFC 9110 §13.1.2 (If-None-Match → 304) and RFC 9111 §5.2.2
 // (no-cache, private, immutable: RFC 8246) define them; content coding as RFC 9110 §8.4 (br: RFC 7932).
@@ -58,6 +61,50 @@ describe("answers computed from the warehouse", () => {
     const good = await request(t.app).get(route).set("Cookie", analyst);
     const forbidden = await request(t.app).get(route).set("Cookie", await t.signInAs({ roles: [] })).set("If-None-Match", good.headers.etag as string);
     expect(forbidden.status).toBe(403);
+  });
+});
+
+describe("answers kept whole between loads", () => {
+  it("are the same JSON whether sent brotli-compressed, gzipped or as they are, and compressed answers are smaller", async () => {
+    // a large answer (about 60 KB) sent the way the analytics routes send theirs
+    const answer = new PreparedJson({ rows: Array.from({ length: 2000 }, (_, i) => ({ id: i, band: `band ${i % 7}` })) });
+    const app = express().get("/x", (req, res) => void answer.send(req, res));
+    const raw = (res: request.Response, cb: (err: Error | null, body: Buffer) => void) => {
+      const chunks: Buffer[] = [];
+      res.on("data", (c: Buffer) => chunks.push(c));
+      res.on("end", () => cb(null, Buffer.concat(chunks)));
+    };
+    const get = (encoding: string) => request(app).get("/x").set("Accept-Encoding", encoding).buffer(true).parse(raw);
+    const plain = await get("identity");
+    expect(plain.headers["content-encoding"]).toBeUndefined();
+    const body = plain.body as Buffer;
+    expect(Number(plain.headers["content-length"])).toBe(body.length);
+    const br = await get("br, gzip");
+    expect(br.headers["content-encoding"]).toBe("br");
+    expect(br.headers.vary).toMatch(/Accept-Encoding/i);
+    const gz = await get("gzip");
+    expect(gz.headers["content-encoding"]).toBe("gzip");
+    // the bytes on the wire are the compressed ones; the client (superagent) decodes them back to the body
+    expect(Number(br.headers["content-length"])).toBeLessThan(body.length / 4);
+    expect(Number(gz.headers["content-length"])).toBeLessThan(body.length / 4);
+    expect((br.body as Buffer).equals(body)).toBe(true);
+    expect((gz.body as Buffer).equals(body)).toBe(true);
+    expect(JSON.parse(body.toString("utf8")).rows).toHaveLength(2000);
+  });
+
+  it("are computed once per data version, however many ask at once, and again after a load", async () => {
+    const cache = new AnswerCache(t.db, 10);
+    let computed = 0;
+    const compute = async () => ({ n: ++computed });
+    const first = await Promise.all([1, 2, 3].map(() => cache.answer(["k"], compute)));
+    expect(computed).toBe(1);
+    expect(new Set(first).size).toBe(1);
+    expect(JSON.parse((await cache.answer(["k"], compute)).body.toString())).toEqual({ n: 1 });
+    await t.db
+      .insertInto("etl_batch")
+      .values({ file_name: "y.csv", sha256: "1".repeat(64), profile: "generic-jobs", kind: "jobs", shop_code: null, loaded_by: "test", status: "loaded", finished_at: new Date(), error_message: null })
+      .execute();
+    expect(JSON.parse((await cache.answer(["k"], compute)).body.toString())).toEqual({ n: 2 });
   });
 });
 

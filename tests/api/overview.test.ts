@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import request from "supertest";
 import { sql } from "kysely";
 import { testApp, type TestApp } from "../helpers/test-app.js";
-import type { Overview } from "../../shared/schemas/overview.js";
+import { NEW_CLUSTERS_SHOWN, type Overview } from "../../shared/schemas/overview.js";
 import type { ClusterDetail, ClusterList } from "../../shared/schemas/analytics-clusters.js";
 
 let t: TestApp;
@@ -63,18 +63,22 @@ describe("GET /api/overview", () => {
     const first = await overview(cookie);
     expect(first.clusters.firstVisit).toBe(true);
     expect(first.clusters.total).toBeGreaterThan(1);
-    expect(first.clusters.newSinceLastVisit).toHaveLength(first.clusters.total);
+    expect(first.clusters.newCount).toBe(first.clusters.total);
+    expect(first.clusters.newSinceLastVisit).toHaveLength(Math.min(first.clusters.total, NEW_CLUSTERS_SHOWN));
     expect((await overview(cookie)).clusters.firstVisit).toBe(true);
 
     // the next visit, two hours later, when the previous one had not shown the top cluster
     const top = first.clusters.newSinceLastVisit[0];
-    const ids = first.clusters.newSinceLastVisit.map((c) => c.id);
+    const stored = await sql<{ ids: string[] }>`SELECT current_cluster_ids AS ids FROM app_user_visit WHERE sub = ${sub}`.execute(t.db);
+    const ids = stored.rows[0].ids;
+    expect(ids).toHaveLength(first.clusters.total);
     await sql`UPDATE app_user_visit SET last_request_at = now() - interval '2 hours',
       current_cluster_ids = ${ids.filter((id) => id !== top.id)}::text[] WHERE sub = ${sub}`.execute(t.db);
     const next = await overview(cookie);
     expect(next.clusters.firstVisit).toBe(false);
     expect(next.clusters.previousVisitAt).not.toBeNull();
     expect(next.clusters.newSinceLastVisit.map((c) => c.id)).toEqual([top.id]);
+    expect(next.clusters.newCount).toBe(1);
   });
 
   it("shows a manager only their own shop's loads", async () => {

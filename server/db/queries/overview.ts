@@ -188,7 +188,20 @@ export const VISIT_GAP_MINUTES = 30;
  * the previous visit and when that was (null on a first visit). Within one visit the baseline stays put,
  * so a reload does not make the "new" clusters disappear.
  */
+const sameIds = (a: readonly string[] | null, b: readonly string[]) => a !== null && a.length === b.length && a.every((x, i) => x === b[i]);
+
 export async function recordVisit(db: Db, sub: string, clusterIds: string[], now = new Date()): Promise<{ previousVisitAt: Date | null; previousClusterIds: string[] | null }> {
+  // a request within a minute of the last one, with the same clusters, changes nothing worth a write: the
+  // visit goes on, so the answer is the row's (this keeps a busy page from queueing on the row's lock)
+  const recent = await db.selectFrom("app_user_visit").selectAll().where("sub", "=", sub).executeTakeFirst();
+  if (
+    recent &&
+    now.getTime() - recent.last_request_at.getTime() >= 0 &&
+    now.getTime() - recent.last_request_at.getTime() < 60_000 &&
+    sameIds(recent.current_cluster_ids, clusterIds)
+  ) {
+    return { previousVisitAt: recent.previous_visit_at, previousClusterIds: recent.previous_cluster_ids };
+  }
   return await db.transaction().execute(async (trx) => {
     // a first visit inserts; two first requests at once (a loader and a page) must not both try: the loser reads the winner's row
     const first = await trx

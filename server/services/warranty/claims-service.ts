@@ -9,7 +9,7 @@ import type { ClaimCandidate, ClaimDetail, ClaimPreview, ClaimSend, ClaimStatus,
 import { safetyCautions } from "../../../shared/measurement-interpretation.js";
 import { HttpError, notFound } from "../../errors.js";
 import type { Storage } from "../storage.js";
-import { clusterCaution, clusterMethod, findClusters, toCluster } from "../cluster-finder.js";
+import { clusterCaution, clusterMethod, clustersOf, findClusters } from "../cluster-finder.js";
 import {
   claimAttachments, claimAudit, claimLineKeys, claimSends, claimsHoldingLines, getClaim, insertClaim, listClaims, policyFor,
   hourTrail, repairLinesByKeys, unclaimedCandidateKeys, type Actor, type ClaimRow,
@@ -37,16 +37,17 @@ async function evidenceFor(db: Db, scope: ShopScope, keys: readonly string[], to
 
 /** The cluster with this id in the caller's scan (same scope and query parameters as the Clusters page), or 404. */
 async function clusterById(db: Db, scope: ShopScope, id: string, query: Record<string, string>): Promise<ClusterSnapshot> {
-  const { components, query: q, scan } = await findClusters(db, scope, query);
-  const signal = scan.signals.find((s) => toCluster(components, s).id === id);
-  if (!signal) {
+  const found = await findClusters(db, scope, query);
+  const { components, query: q } = found;
+  const cluster = clustersOf(found).find((c) => c.id === id);
+  if (!cluster) {
     throw new HttpError(
       404,
       "cluster_not_found",
       "No cluster with that id in the current scan: the data may have been reloaded since the link was made, or the scan's filters differ. Pick the cluster again from the list.",
     );
   }
-  return { cluster: toCluster(components, signal), components, method: clusterMethod(q.standardise), caution: clusterCaution, query, takenAt: new Date().toISOString() };
+  return { cluster: { ...cluster, repairLineIds: [...cluster.repairLineIds] }, components, method: clusterMethod(q.standardise), caution: clusterCaution, query, takenAt: new Date().toISOString() };
 }
 
 /** Campaign deadline: claim days after the newest RO close among its lines (the last line still in time). */
