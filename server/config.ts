@@ -32,6 +32,7 @@ const envSchema = z.object({
   S3_SECRET_ACCESS_KEY: z.string().optional(),
   LOCAL_S3_PORT: port.default(4569),
   LOAD_DEMO: bool.default(true),
+  WARM_ANSWERS: bool.default(true),
   BENCHMARK_PEER_SECRET: z.string().optional(),
 });
 
@@ -61,6 +62,8 @@ export interface Config {
     localPort: number;
   };
   loadDemo: boolean;
+  /** precompute the group-wide pages' answers after every load (server/services/answer-warmer.ts) */
+  warmAnswers: boolean;
   /** keys the benchmarks' peer letters; null (unset or empty) → derived from the session secret */
   benchmarkPeerSecret: string | null;
 }
@@ -98,6 +101,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
       localPort: e.LOCAL_S3_PORT,
     },
     loadDemo: e.LOAD_DEMO,
+    warmAnswers: e.WARM_ANSWERS,
     benchmarkPeerSecret: e.BENCHMARK_PEER_SECRET || null,
   };
 }

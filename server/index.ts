@@ -23,10 +23,6 @@ if (config.loadDemo && (await warehouseIsEmpty(stack.db))) {
   process.stdout.write(`Demo loaded: ${s.files} files, ${s.read.toLocaleString("en-US")} rows read, ${s.rejected.toLocaleString("en-US")} rejected with reasons, in ${s.seconds.toFixed(0)} s.\n`);
 }
 
-// Warm the group-wide cluster scan in the background so the analyst's first visit does not wait for it.
-const { findClusters } = await import("./services/cluster-finder.js");
-void findClusters(stack.db, { kind: "all" }, {}).catch((err: Error) => logger.warn({ err: err.message }, "cluster warm-up failed"));
-
 let stopping = false;
 const stop = async (signal: string) => {
   if (stopping) return;

@@ -1,5 +1,6 @@
 import path from "node:path";
 import type { Server } from "node:http";
+import type { AddressInfo } from "node:net";
 import type { Config } from "./config.js";
 import { projectRoot } from "./config.js";
 import { createDb, type Db } from "./db/database.js";
@@ -16,6 +17,9 @@ import type { MailArchive } from "./services/mail-archive.js";
 import { logger } from "./logger.js";
 import PgBoss from "pg-boss";
 import { startSendWorker } from "./services/warranty/send.js";
+import { startAnswerWarmer } from "./services/answer-warmer.js";
+import { serviceSessionCookie } from "./auth/service-session.js";
+import type { SessionUser } from "./auth/session.js";
 import type pg from "pg";
 
 export interface Stack {
@@ -39,6 +43,9 @@ const closeServer = (s: Server) =>
  * Starts everything the product needs on loopback: the local identity provider, SMTP and S3 fakes
  * (each only when no real service is configured), migrates the database and serves app + API.
  */
+/** Who the answer warm-up asks as: a group-wide analyst that exists only in this process. */
+const WARM_UP_USER: SessionUser = { sub: "ironledger-warm-up", name: "Answer warm-up", email: null, roles: ["analyst"], shops: [] };
+
 export async function startStack(config: Config, opts: { staticDir?: string } = {}): Promise<Stack> {
   const closers: (() => Promise<void>)[] = [];
   const closeAll = async () => {
@@ -119,6 +126,16 @@ export async function startStack(config: Config, opts: { staticDir?: string } = 
     });
     const server = await listen(app, config.port, config.host);
     closers.push(() => closeServer(server));
+    if (config.warmAnswers) {
+      const { port } = server.address() as AddressInfo;
+      const host = config.host === "0.0.0.0" || config.host === "::" ? "127.0.0.1" : config.host;
+      const warmer = startAnswerWarmer({
+        db,
+        origin: `http://${host.includes(":") ? `[${host}]` : host}:${port}`,
+        cookie: () => serviceSessionCookie(pool, secrets.sessionSecret, WARM_UP_USER),
+      });
+      closers.push(async () => warmer.stop());
+    }
 
     return { db, pool, url: config.publicUrl, issuer, storage, mailer, mailDir, close: closeAll };
   } catch (err) {

@@ -1,4 +1,5 @@
-import { createHmac, randomBytes } from "node:crypto";
+import { randomBytes } from "node:crypto";
+import { serviceSessionCookie } from "../../server/auth/service-session.js";
 import { createApp } from "../../server/app.js";
 import { createOidcClient } from "../../server/auth/oidc-client.js";
 import { freshDemoDb, freshTestDb, type TestDb } from "./test-db.js";
@@ -35,22 +36,14 @@ export async function testApp(o: { demo?: boolean } = {}): Promise<TestApp> {
     ...tdb,
     app,
     async signInAs(user) {
-      const sid = randomBytes(16).toString("hex");
-      const expires = new Date(Date.now() + 3600_000);
-      const sess = {
-        cookie: { originalMaxAge: 3600_000, expires: expires.toISOString(), httpOnly: true, path: "/", sameSite: "lax", secure: false },
-        user: {
-          sub: user.sub ?? `test-${sid.slice(0, 6)}`,
-          name: user.name ?? "Test User",
-          email: null,
-          roles: user.roles,
-          shops: user.shops ?? [],
-        },
-      };
-      await tdb.db.insertInto("app_session").values({ sid, sess: JSON.stringify(sess), expire: expires }).execute();
-      // cookie-signature's format: "s:" + value + "." + base64(HMAC-SHA256) without padding
-      const mac = createHmac("sha256", SESSION_SECRET).update(sid).digest("base64").replace(/=+$/, "");
-      return `ironledger.sid=${encodeURIComponent(`s:${sid}.${mac}`)}`;
+      // the server's own session minting (a stored session and express-session's signed cookie)
+      return serviceSessionCookie(tdb.pool, SESSION_SECRET, {
+        sub: user.sub ?? `test-${randomBytes(3).toString("hex")}`,
+        name: user.name ?? "Test User",
+        email: null,
+        roles: user.roles,
+        shops: user.shops ?? [],
+      }, 1);
     },
   };
 }

@@ -40,6 +40,7 @@ export async function startTestStack(env: Record<string, string> = {}, o: { demo
     DATABASE_URL: tdb.url,
     DATA_DIR: dataDir,
     LOAD_DEMO: "0",
+    WARM_ANSWERS: "0",
     ...env,
   });
   const stack = await startStack(config);
