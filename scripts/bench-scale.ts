@@ -27,6 +27,7 @@ import { loadDemo, warehouseIsEmpty } from "../server/demo/load-demo.js";
 import { amplifyWarehouse } from "./bench/amplify.js";
 import { loadRoute, timedGet, type RouteFigures } from "./bench/http-load.js";
 import { writeMonthlyExport } from "./bench/monthly-export.js";
+import { WARM_REQUESTS } from "../server/services/answer-warmer.js";
 
 const o = new Command()
   .option("--lines <n>", "job lines in the warehouse", (v) => Number(v), 10_000_000)
@@ -94,21 +95,9 @@ async function sessionCookie(pool: pg.Pool, secret: string, roles: string[], sho
   return `ironledger.sid=${encodeURIComponent(`s:${sid}.${createHmac("sha256", secret).update(sid).digest("base64").replace(/=+$/, "")}`)}`;
 }
 
-// the cluster list before the overview, which runs the same scan: its cold figure is the finder's own
-const routes = [
-  "/api/me",
-  "/api/analytics/clusters",
-  "/api/overview",
-  "/api/repairs",
-  "/api/analytics/rates/components",
-  "/api/analytics/rates/hour-bands?components=ENG-CSA-HPLUG",
-  "/api/analytics/rates/temperature-bands?components=ENG-CSA-HPLUG",
-  "/api/analytics/rates/monthly?components=ENG-CSA-HPLUG",
-  "/api/analytics/life/weibull?component=ENG-CSA-HPLUG",
-  "/api/analytics/life/kaplan-meier?component=ENG-CSA-HPLUG",
-  "/api/analytics/life/mcf?component=HYD-LIN-HOSE",
-  "/api/benchmarks/shops",
-];
+// the floor, the pages' answers the server precomputes after loads (the cluster list before the overview, which
+// runs the same scan: its cold figure is the finder's own), and the repairs list
+const routes = ["/api/me", ...WARM_REQUESTS, "/api/repairs"];
 
 async function main() {
   const started = Date.now();
