@@ -7,7 +7,7 @@ import { PreparedJson } from "../http/prepared-json.js";
 import { ResultCache } from "./result-cache.js";
 
 /** Bytes of prepared answers one cache keeps by default (each route has its own cache). */
-const DEFAULT_BYTES = 24 * 1024 * 1024;
+const DEFAULT_BYTES = 8 * 1024 * 1024;
 
 /**
  * Answers a route computes from the warehouse alone, kept per request and data version: the first call
