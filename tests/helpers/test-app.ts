@@ -6,12 +6,29 @@ import { freshDemoDb, freshTestDb, type TestDb } from "./test-db.js";
 import type { Role } from "../../shared/roles.js";
 import type { Db } from "../../server/db/database.js";
 
-const SESSION_SECRET = "test-session-secret";
+export const SESSION_SECRET = "test-session-secret";
 
 export interface TestApp extends TestDb {
   app: ReturnType<typeof createApp>;
   /** A session cookie for a user with these roles and shops, stored the way express-session stores it. */
   signInAs(user: { roles: Role[]; shops?: string[]; sub?: string; name?: string }): Promise<string>;
+}
+
+/** createApp over a database as the API tests make it: stored sessions, an OIDC issuer never contacted. */
+export function appOver(d: { db: Db; pool: TestDb["pool"] }, extra: { benchmarkPeerSecret?: string } = {}): ReturnType<typeof createApp> {
+  const issuer = "http://127.0.0.1:9"; // never contacted by API tests
+  return createApp({
+    db: d.db,
+    pool: d.pool,
+    publicUrl: "http://127.0.0.1:8080",
+    sessionSecret: SESSION_SECRET,
+    oidc: createOidcClient({ issuer, clientId: "test", clientSecret: "test" }),
+    issuer,
+    scopes: "openid",
+    rolesClaim: "roles",
+    shopsClaim: "shops",
+    ...extra,
+  });
 }
 
 /**
@@ -20,18 +37,7 @@ export interface TestApp extends TestDb {
  */
 export async function testApp(o: { demo?: boolean } = {}): Promise<TestApp> {
   const tdb = o.demo ? await freshDemoDb() : await freshTestDb();
-  const issuer = "http://127.0.0.1:9"; // never contacted by API tests
-  const app = createApp({
-    db: tdb.db,
-    pool: tdb.pool,
-    publicUrl: "http://127.0.0.1:8080",
-    sessionSecret: SESSION_SECRET,
-    oidc: createOidcClient({ issuer, clientId: "test", clientSecret: "test" }),
-    issuer,
-    scopes: "openid",
-    rolesClaim: "roles",
-    shopsClaim: "shops",
-  });
+  const app = appOver(tdb);
   return {
     ...tdb,
     app,

@@ -59,6 +59,7 @@ export async function lifeUnits(db: Db, scope: ShopScope, f: AnalyticsFilters, c
            u.model_line, to_char(u.build_month, 'YYYY-MM') AS build_month, u.repair_line_key
     FROM units u
     WHERE u.end_h > u.start_h AND ${cohortConditions("u", scope, unitFilter)}
+    ORDER BY u.machine_key, u.start_h -- a fixed order, so sums over units come out the same to the last digit
   `);
   return res.rows
     .map((r) => ({
@@ -111,6 +112,7 @@ export async function recurrences(db: Db, scope: ShopScope, f: AnalyticsFilters,
                ${f.to ? sql`AND fl.opened_date <= ${f.to}::date` : sql``}) AS ages
     FROM mach m
     WHERE m.last_h > m.install_h
+    ORDER BY m.machine_key -- a fixed order, so sums over machines come out the same to the last digit
   `);
   return res.rows
     .filter((r) => Number(r.end_age) > Number(r.start_age)) // a machine seen at one age only has no observation window
