@@ -1,6 +1,6 @@
 /**
  * A shop's next monthly export for the benchmarks: up to `lines` repair lines of the busiest shop's last
- * month of data, written in the generic jobs layout one month later, with new repair-order numbers and hour
+ * month of data, written in the generic jobs layout one month later, with new repair-order numbers (unique to the run) and hour
  * meters past each machine's last reading, so the ETL accepts them as new work on known machines.
  */
 import { createWriteStream } from "node:fs";
@@ -18,7 +18,7 @@ export async function writeMonthlyExport(pool: pg.Pool, file: string, lines: num
     GROUP BY 1, 2, 3 ORDER BY count(*) DESC LIMIT 1`);
   const { month, shop_key, shop_code } = last.rows[0];
   const rows = await pool.query(
-    `SELECT s.shop_code, f.ro_number || '-next' AS ro_number, f.line_no, m.serial,
+    `SELECT s.shop_code, f.ro_number || $4 AS ro_number, f.line_no, m.serial,
             to_char(f.opened_date + interval '1 month', 'YYYY-MM-DD') AS opened_date,
             to_char(f.closed_date + interval '1 month', 'YYYY-MM-DD') AS closed_date,
             round(coalesce((SELECT r.hours FROM fact_hour_reading r WHERE r.machine_key = f.machine_key AND r.valid
@@ -34,7 +34,8 @@ export async function writeMonthlyExport(pool: pg.Pool, file: string, lines: num
      LEFT JOIN dim_failure_mode fm USING (failure_mode_key) LEFT JOIN dim_technician t USING (technician_key)
      WHERE f.shop_key = $1 AND f.opened_date >= $2::date AND f.opened_date < $2::date + interval '1 month' AND f.closed_date IS NOT NULL
      ORDER BY f.repair_line_key LIMIT $3`,
-    [shop_key, month, lines],
+    // a suffix of this run's own, so a second run on the same warehouse loads new lines too
+    [shop_key, month, lines, `-n${Date.now().toString(36)}`],
   );
   const out = createWriteStream(file);
   const csv = stringify({ header: true, columns: [...layouts.jobs] });
