@@ -16,7 +16,7 @@ function scanPool(): Piscina {
     execArgv: ["--import", "tsx"],
     minThreads: 0,
     maxThreads: 1,
-    idleTimeout: 60_000,
+    idleTimeout: 5_000, // a scan leaves a large heap behind: the thread exits soon after, and its memory goes with it
   });
   return pool;
 }
