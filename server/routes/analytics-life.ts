@@ -2,57 +2,17 @@ import { Router, type Request } from "express";
 import { allow, requireScope } from "../auth/require-user.js";
 import type { Db } from "../db/database.js";
 import { analyticsFiltersSchema } from "../../shared/schemas/analytics-filters.js";
-import {
-  lifeQuerySchema,
-  type KaplanMeierResponse,
-  type LifeQuery,
-  type McfResponse,
-  type WeibullFitSummary,
-  type WeibullResponse,
-} from "../../shared/schemas/analytics-life.js";
-import { lifeUnits, recurrences, type LifeUnit, type RecurrenceRow } from "../db/queries/analytics-life.js";
+import { lifeQuerySchema } from "../../shared/schemas/analytics-life.js";
+import { lifeUnits, recurrences } from "../db/queries/analytics-life.js";
 import { coldShopCodes } from "../db/queries/shops.js";
-import { compareWeibull, fitWeibull, weibullPlotPoints, type WeibullFit, type WeibullInsufficient } from "../analytics/weibull.js";
-import { weibullLine } from "../analytics/weibull-band.js";
-import { kaplanMeier, logRankTest } from "../analytics/kaplan-meier.js";
-import { meanCumulativeFunction, mcfSlope } from "../analytics/mcf.js";
 import { analyticsRoles } from "../../shared/roles.js";
 import { AnswerCache } from "../services/answer-cache.js";
+import { lifeOnWorker } from "../services/life-curves/life-pool.js";
 
-type Grouped<T> = { label: string; items: T[] }[];
-
-/** Splits units into group A (attribute = value) and B (= other, or everything else); one group without compareBy. */
-function split<T extends { lot: string; engineFamily: string; shopCode: string }>(items: T[], q: LifeQuery, cold: Set<string>): Grouped<T> {
-  if (!q.compareBy || !q.compareValue) return [{ label: "All units", items }];
-  const attr = (u: T): string =>
-    q.compareBy === "lot" ? u.lot : q.compareBy === "engineFamily" ? u.engineFamily : q.compareBy === "shop" ? u.shopCode : cold.has(u.shopCode) ? "cold" : "mild";
-  const a = items.filter((u) => attr(u) === q.compareValue);
-  const b = items.filter((u) => (q.compareOther ? attr(u) === q.compareOther : attr(u) !== q.compareValue));
-  const names: Record<string, string> = { lot: "lot", engineFamily: "engine family", shop: "shop", climate: "shops" };
-  return [
-    { label: `${names[q.compareBy]} ${q.compareValue}`, items: a },
-    { label: q.compareOther ? `${names[q.compareBy]} ${q.compareOther}` : `all other ${names[q.compareBy] === "shops" ? "shops" : names[q.compareBy] + "s"}`, items: b },
-  ];
-}
-
-function summary(fit: WeibullFit | WeibullInsufficient, units: number): WeibullFitSummary {
-  if (fit.status !== "fitted") return { status: "insufficient", units, failures: fit.failures, reason: fit.reason === "too-few-failures" ? `a Weibull fit needs at least ${fit.minimumFailures} failures` : "the likelihood has no finite maximum" };
-  return {
-    status: "fitted",
-    units,
-    failures: fit.failures,
-    shape: fit.shape,
-    scale: fit.scale,
-    b10: fit.b10,
-    shapeInterval: fit.shapeInterval,
-    scaleInterval: fit.scaleInterval,
-    b10Interval: fit.b10Interval,
-    logLikelihood: fit.logLikelihood,
-  };
-}
-
-const thin = <T,>(rows: T[], max: number): T[] => (rows.length <= max ? rows : rows.filter((_, i) => i % Math.ceil(rows.length / max) === 0 || i === rows.length - 1));
-
+/**
+ * /api/analytics/life: Weibull, Kaplan–Meier and MCF for one component. The rows come from SQL here; the fits
+ * run on a worker thread (services/life-curves); each answer is kept per request and data version.
+ */
 export function analyticsLifeRoutes(db: Db): Router {
   const router = Router();
   router.use(allow(...analyticsRoles));
@@ -69,93 +29,27 @@ export function analyticsLifeRoutes(db: Db): Router {
   router.get("/weibull", async (req, res) => {
     await answers.send(req, res, requireScope(req), () => weibull(req));
   });
-  const weibull = async (req: Request): Promise<WeibullResponse> => {
+  const weibull = async (req: Request) => {
     const { f, q, cold } = await load(req);
-    const units = await lifeUnits(db, requireScope(req), f, q.component);
-    const groups = split<LifeUnit>(units, q, cold);
-    const body: WeibullResponse = {
-      component: q.component,
-      method: "Maximum likelihood with right censoring (survivors censored at their last valid reading) and delayed entry; 90 % profile-likelihood-ratio intervals; plot points by Johnson's adjusted ranks with Bernard's approximation; band: 90 % Fisher-matrix band on the plot scale.",
-      groups: groups.map((g) => {
-        const fit = fitWeibull(g.items);
-        const points = g.items.length ? weibullPlotPoints(g.items) : [];
-        const times = g.items.map((u) => u.time);
-        return {
-          label: g.label,
-          fit: summary(fit, g.items.length),
-          points: thin(points, 400).map((p) => ({ time: p.time, medianRank: p.medianRank })),
-          line: fit.status === "fitted" && times.length ? weibullLine(fit, Math.max(Math.min(...times), 1), Math.max(...times) * 1.5) : [],
-        };
-      }),
-      comparison: null,
-    };
-    if (groups.length === 2) {
-      const cmp = compareWeibull(groups[0].items, groups[1].items);
-      if (cmp.status === "compared") {
-        body.comparison = {
-          scaleRatio: cmp.scaleRatio,
-          hazardRatio: cmp.hazardRatio,
-          commonShape: cmp.commonShape.shape,
-          sameDistribution: cmp.sameDistribution,
-          sameShape: cmp.sameShape,
-        };
-      }
-    }
-    return body;
+    return lifeOnWorker({ kind: "weibull", units: await lifeUnits(db, requireScope(req), f, q.component), q, cold });
   };
 
   router.get("/kaplan-meier", async (req, res) => {
     await answers.send(req, res, requireScope(req), () => km(req));
   });
-  const km = async (req: Request): Promise<KaplanMeierResponse> => {
+  const km = async (req: Request) => {
     const { f, q, cold } = await load(req);
-    const groups = split<LifeUnit>(await lifeUnits(db, requireScope(req), f, q.component), q, cold);
-    let logRank: KaplanMeierResponse["logRank"] = null;
-    if (groups.length === 2 && groups[0].items.length && groups[1].items.length) {
-      const t = logRankTest(groups[0].items, groups[1].items);
-      logRank = { statistic: t.statistic, pValue: t.pValue };
-    }
-    const body: KaplanMeierResponse = {
-      component: q.component,
-      method: "Kaplan–Meier product-limit estimate; risk set counts units with entry < t ≤ exit; Greenwood variance, 95 % log-transformed limits; log-rank test between the groups.",
-      groups: groups.map((g) => {
-        const curve = g.items.length ? kaplanMeier(g.items) : null;
-        return {
-          label: g.label,
-          units: g.items.length,
-          failures: g.items.filter((u) => u.event === 1).length,
-          steps: thin(curve?.steps ?? [], 500).map((s) => ({ time: s.time, atRisk: s.atRisk, survival: s.survival, lower: s.lower, upper: s.upper })),
-        };
-      }),
-      logRank,
-    };
-    return body;
+    return lifeOnWorker({ kind: "kaplan-meier", units: await lifeUnits(db, requireScope(req), f, q.component), q, cold });
   };
 
   router.get("/mcf", async (req, res) => {
     await answers.send(req, res, requireScope(req), () => mcf(req));
   });
-  const mcf = async (req: Request): Promise<McfResponse> => {
+  const mcf = async (req: Request) => {
     const f = analyticsFiltersSchema.parse(req.query);
     const q = lifeQuerySchema.parse({ component: "HYD-LIN-HOSE", ...req.query });
     const cold = q.compareBy === "climate" ? await coldShopCodes(db) : new Set<string>();
-    const groups = split<RecurrenceRow>(await recurrences(db, requireScope(req), f, q.component), q, cold);
-    const body: McfResponse = {
-      component: q.component,
-      method: "Mean cumulative function (Nelson): M(t) = Σ repairs at tⱼ ÷ machines under observation at tⱼ, ages in engine hours since delivery; Lawless–Nadeau variance, 95 % limits; slope = repairs per 1,000 h over the observed range.",
-      groups: groups.map((g) => {
-        const units = g.items.map((r) => ({ id: String(r.machineKey), eventAges: r.ages, endAge: r.endAge, startAge: r.startAge }));
-        const curve = units.length ? meanCumulativeFunction(units) : null;
-        return {
-          label: g.label,
-          machines: g.items.length,
-          repairs: g.items.reduce((s, r) => s + r.ages.length, 0),
-          slopePerThousandHours: curve ? mcfSlope(curve, 0, Math.min(curve.lastAge, 6000)) : null,
-          steps: thin(curve?.steps ?? [], 500).map((s) => ({ age: s.age, mcf: s.mcf, lower: s.lower, upper: s.upper, atRisk: s.atRisk })),
-        };
-      }),
-    };
-    return body;
+    return lifeOnWorker({ kind: "mcf", rows: await recurrences(db, requireScope(req), f, q.component), q, cold });
   };
   return router;
 }
