@@ -6,6 +6,7 @@
 import type { KaplanMeierResponse, LifeQuery, McfResponse, WeibullFitSummary, WeibullResponse } from "../../../shared/schemas/analytics-life.js";
 import type { LifeUnit, RecurrenceRow } from "../../db/queries/analytics-life.js";
 import { compareWeibull, fitWeibull, weibullPlotPoints, type WeibullFit, type WeibullInsufficient } from "../../analytics/weibull.js";
+import { extent } from "d3-array";
 import { weibullLine } from "../../analytics/weibull-band.js";
 import { kaplanMeier, logRankTest } from "../../analytics/kaplan-meier.js";
 import { meanCumulativeFunction, mcfSlope } from "../../analytics/mcf.js";
@@ -58,12 +59,12 @@ export function weibullAnswer(units: LifeUnit[], q: LifeQuery, cold: Set<string>
     groups: groups.map((g) => {
       const fit = fitWeibull(g.items);
       const points = g.items.length ? weibullPlotPoints(g.items) : [];
-      const times = g.items.map((u) => u.time);
+      const [shortest, longest] = extent(g.items, (u) => u.time); // not Math.min(...): a million arguments overflow the stack
       return {
         label: g.label,
         fit: summary(fit, g.items.length),
         points: thin(points, 400).map((p) => ({ time: p.time, medianRank: p.medianRank })),
-        line: fit.status === "fitted" && times.length ? weibullLine(fit, Math.max(Math.min(...times), 1), Math.max(...times) * 1.5) : [],
+        line: fit.status === "fitted" && shortest !== undefined && longest !== undefined ? weibullLine(fit, Math.max(shortest, 1), longest * 1.5) : [],
       };
     }),
     comparison: null,
