@@ -3,16 +3,24 @@
  * Measures the repairs list and its CSV on a warehouse that is already loaded (BENCH_PG_URL, e.g. a database
  * `npm run bench:api` created). The app runs in a process of its own on a loopback port; a group-wide
  * analyst's session is stored directly. Per round it prints p50/p95 of `/api/me` (the floor), of page 1 of
- * the list and of a deep page, then streams the CSV of the whole warehouse and prints its rows/s and the
- * server's RSS before and at its peak during the download.
+ * the list and of a deep page, then streams the CSV of the whole warehouse twice, compressed (gzip, as a
+ * browser asks for some compression) and not, and prints its rows/s and the server's RSS before and
+ * at its peak during the downloads. Beside them the COPY floor, measured right after in the same run:
+ * PostgreSQL's COPY of as many repair lines (the fact table's own columns, nothing joined or sorted) through
+ * the same driver (pg, pg-copy-streams) to /dev/null.
  * The deep page lies `--deep` of the way through the list: reached by following nextCursor (200 rows a step)
  * when the API offers cursors, by page number otherwise. The last table holds the medians of the rounds.
  */
 import { Command } from "commander";
 import { spawn } from "node:child_process";
 import { createHmac, randomBytes } from "node:crypto";
+import { createWriteStream } from "node:fs";
+import { get, type IncomingMessage } from "node:http";
 import { readFile } from "node:fs/promises";
 import path from "node:path";
+import { pipeline } from "node:stream/promises";
+import { createGunzip } from "node:zlib";
+import * as copyStreams from "pg-copy-streams";
 import { median, quantile } from "d3-array";
 import { createDb, type Db } from "../server/db/database.js";
 
@@ -44,7 +52,7 @@ async function benchSession(db: Db, secret: string): Promise<string> {
 }
 
 // the app in a process of its own (scripts/bench/serve.ts), so its peak RSS is the server's alone
-const { db } = createDb(url);
+const { db, pool } = createDb(url);
 const secret = randomBytes(16).toString("hex");
 const server = spawn(process.execPath, ["--import", "tsx", path.join(import.meta.dirname, "bench/serve.ts")], {
   env: { ...process.env, BENCH_DB_URL: url, BENCH_SESSION_SECRET: secret },
@@ -99,26 +107,50 @@ async function deepRoute(depth: number): Promise<string> {
   return `/api/repairs?pageSize=${pageSize}&cursor=${page.nextCursor}`;
 }
 
-/** Streams the whole warehouse's CSV, counting records, while sampling the server's RSS. */
-async function csvRun(): Promise<{ rows: number; seconds: number; mb: number; rssBeforeMb: number; peakRssMb: number }> {
+/**
+ * Streams the whole warehouse's CSV, counting records, while sampling the server's RSS: compressed (asking for
+ * gzip, as a browser asks for some compression) or not. Read with node:http and node:zlib rather than fetch,
+ * whose decompression cost this process several times the server's CPU on the same two cores.
+ */
+async function csvRun(encoding: "gzip" | "identity"): Promise<{ rows: number; seconds: number; mb: number; rssBeforeMb: number; peakRssMb: number }> {
   const rssBeforeMb = await serverMemory("VmRSS");
   let peak = rssBeforeMb;
   const sampler = setInterval(() => void serverMemory("VmRSS").then((mb) => (peak = Math.max(peak, mb))), 25);
   const t0 = performance.now();
-  const res = await call("/api/repairs.csv");
+  const res = await new Promise<IncomingMessage>((resolve, reject) => {
+    get(`${origin}/api/repairs.csv`, { headers: { Cookie: cookie, "Accept-Encoding": encoding } }, resolve).on("error", reject);
+  });
+  if (res.statusCode !== 200) throw new Error(`/api/repairs.csv answered ${res.statusCode}`);
+  if ((res.headers["content-encoding"] ?? "identity") !== encoding) throw new Error(`asked for ${encoding}, got ${res.headers["content-encoding"]}`);
   let crlf = 0;
   let bytes = 0;
   let lastByte = 0;
-  for await (const chunk of res.body as AsyncIterable<Uint8Array>) {
+  for await (const chunk of (encoding === "gzip" ? res.pipe(createGunzip()) : res) as AsyncIterable<Buffer>) {
     bytes += chunk.length;
-    for (let i = 0; i < chunk.length; i++) {
-      if (chunk[i] === 10 && (i > 0 ? chunk[i - 1] : lastByte) === 13) crlf++;
+    for (let i = chunk.indexOf(10); i !== -1; i = chunk.indexOf(10, i + 1)) {
+      if ((i > 0 ? chunk[i - 1] : lastByte) === 13) crlf++;
     }
     lastByte = chunk[chunk.length - 1] ?? lastByte;
   }
   const seconds = (performance.now() - t0) / 1000;
   clearInterval(sampler);
   return { rows: crlf - 1, seconds, mb: bytes / 1e6, rssBeforeMb, peakRssMb: peak };
+}
+
+/** Seconds for PostgreSQL to COPY `rows` repair lines, the fact table's own columns in CSV, to /dev/null through pg-copy-streams. */
+async function floorRun(rows: number): Promise<number> {
+  const client = await pool.connect();
+  try {
+    const t0 = performance.now();
+    const copy = client.query(copyStreams.to(`COPY (
+      SELECT repair_line_key, ro_number, line_no, opened_date, closed_date, line_type, pay_type, hour_meter, labor_hours, standard_hours,
+             complaint, cause, part_number, supplier_lot
+      FROM fact_repair_line LIMIT ${Math.max(0, Math.floor(rows))}) TO STDOUT (FORMAT csv, HEADER true)`));
+    await pipeline(copy, createWriteStream("/dev/null"));
+    return (performance.now() - t0) / 1000;
+  } finally {
+    client.release();
+  }
 }
 
 const lines = Number((await db.selectFrom("fact_repair_line").select((eb) => eb.fn.countAll<string>().as("n")).executeTakeFirstOrThrow()).n);
@@ -137,8 +169,10 @@ const ms = (v: number) => `${v.toFixed(0)} ms`;
 const print = (label: string, r: Row) => {
   const parts = Object.keys(routes).map((k) => `${k} p50 ${ms(r[`${k} p50`])} p95 ${ms(r[`${k} p95`])}`);
   process.stdout.write(
-    `${label}: ${parts.join(" · ")} · CSV ${r.csvRows.toLocaleString("en-US")} rows ${r.csvMb.toFixed(0)} MB in ${r.csvSeconds.toFixed(1)} s = ` +
-      `${Math.round(r.csvRowsPerSecond).toLocaleString("en-US")} rows/s, server RSS ${r.rssBeforeMb.toFixed(0)} → peak ${r.peakRssMb.toFixed(0)} MB · deep p95/floor ` +
+    `${label}: ${parts.join(" · ")} · CSV ${r.csvRows.toLocaleString("en-US")} rows ${r.csvMb.toFixed(0)} MB: compressed (gzip) ${r.csvSeconds.toFixed(1)} s = ` +
+      `${Math.round(r.csvRowsPerSecond).toLocaleString("en-US")} rows/s, uncompressed ${r.plainSeconds.toFixed(1)} s = ${Math.round(r.plainRowsPerSecond).toLocaleString("en-US")} rows/s, ` +
+      `against a COPY floor of ${Math.round(r.floorRowsPerSecond).toLocaleString("en-US")} rows/s (${((100 * r.csvRowsPerSecond) / r.floorRowsPerSecond).toFixed(0)} % / ` +
+      `${((100 * r.plainRowsPerSecond) / r.floorRowsPerSecond).toFixed(0)} %), server RSS ${r.rssBeforeMb.toFixed(0)} → peak ${r.peakRssMb.toFixed(0)} MB · deep p95/floor ` +
       `${(r["deep page p95"] / r["/api/me (floor) p95"]).toFixed(1)}×, page 1 p95/floor ${(r["page 1 p95"] / r["/api/me (floor) p95"]).toFixed(1)}×\n`,
   );
 };
@@ -149,8 +183,14 @@ for (let round = 1; round <= Number(opts.rounds); round++) {
     row[`${label} p50`] = f.p50;
     row[`${label} p95`] = f.p95;
   }
-  const csv = await csvRun();
-  Object.assign(row, { csvRows: csv.rows, csvMb: csv.mb, csvSeconds: csv.seconds, csvRowsPerSecond: csv.rows / csv.seconds, rssBeforeMb: csv.rssBeforeMb, peakRssMb: csv.peakRssMb });
+  const csv = await csvRun("gzip");
+  const plain = await csvRun("identity");
+  const floorSeconds = await floorRun(csv.rows);
+  Object.assign(row, {
+    csvRows: csv.rows, csvMb: plain.mb, csvSeconds: csv.seconds, csvRowsPerSecond: csv.rows / csv.seconds,
+    plainSeconds: plain.seconds, plainRowsPerSecond: plain.rows / plain.seconds, floorRowsPerSecond: csv.rows / floorSeconds,
+    rssBeforeMb: Math.min(csv.rssBeforeMb, plain.rssBeforeMb), peakRssMb: Math.max(csv.peakRssMb, plain.peakRssMb),
+  });
   rounds.push(row);
   print(`round ${round}`, row);
 }

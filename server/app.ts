@@ -95,7 +95,7 @@ export function createApp(d: AppDeps): express.Express {
   const peerSecret = d.benchmarkPeerSecret ?? createHmac("sha256", d.sessionSecret).update("benchmark-peers").digest("hex");
   // answers computed from the warehouse alone: 304 while the data has not changed since the client's copy
   app.use(["/api/analytics", "/api/repairs"], dataEtag(d.db));
-  app.use("/api", apiRoutes(d.db, { storage: d.storage, mailer: d.mailer, boss: d.boss }, peerSecret));
+  app.use("/api", apiRoutes(d.db, d.pool, { storage: d.storage, mailer: d.mailer, boss: d.boss }, peerSecret));
   app.use("/api", apiNotFound);
 
   if (d.staticDir && existsSync(path.join(d.staticDir, "index.html"))) {

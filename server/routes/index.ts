@@ -1,4 +1,5 @@
 import { Router } from "express";
+import type pg from "pg";
 import type { Db } from "../db/database.js";
 import { shopRoutes } from "./shops.js";
 import { analyticsRateRoutes } from "./analytics-rates.js";
@@ -11,7 +12,7 @@ import { overviewRoutes } from "./overview.js";
 import { clusterDetailRoutes } from "./analytics-cluster-detail.js";
 
 /** Mounts the resource routers under /api. Each router declares its roles with allow(). */
-export function apiRoutes(db: Db, services: Omit<ClaimRouteDeps, "db">, peerSecret: string): Router {
+export function apiRoutes(db: Db, pool: pg.Pool, services: Omit<ClaimRouteDeps, "db">, peerSecret: string): Router {
   const router = Router();
   router.use("/shops", shopRoutes(db));
   router.use("/analytics/rates", analyticsRateRoutes(db));
@@ -20,7 +21,7 @@ export function apiRoutes(db: Db, services: Omit<ClaimRouteDeps, "db">, peerSecr
   router.use("/benchmarks", benchmarkRoutes(db, peerSecret));
   router.use("/claims", claimRoutes({ db, ...services }));
   router.use("/analytics/clusters", clusterDetailRoutes(db));
-  router.use("/repairs.csv", repairCsvRoutes(db));
+  router.use("/repairs.csv", repairCsvRoutes(db, pool));
   router.use("/repairs", repairRoutes(db));
   router.use("/overview", overviewRoutes(db));
   return router;

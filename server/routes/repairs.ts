@@ -3,19 +3,16 @@
  * CSV of a whole filter. Cursors are written and checked here; the SQL is in db/queries/repairs.
  */
 import { Router, type Request } from "express";
-import { stringify, type Options } from "csv-stringify/sync";
-import { Readable } from "node:stream";
+import type pg from "pg";
 import { pipeline } from "node:stream/promises";
 import { allow, requireScope } from "../auth/require-user.js";
 import type { Db } from "../db/database.js";
 import { HttpError } from "../errors.js";
 import { analyticsFiltersSchema } from "../../shared/schemas/analytics-filters.js";
-import {
-  repairCsvColumns, repairCursorSchema, repairListQuerySchema, type RepairCursor, type RepairList, type RepairListQuery, type RepairRow,
-} from "../../shared/schemas/repairs.js";
-import { eachRepairBatch, getRepair, isListPosition, listRepairPage, type ListStart, type RepairFilter } from "../db/queries/repairs.js";
+import { repairCursorSchema, repairListQuerySchema, type RepairCursor, type RepairList, type RepairListQuery } from "../../shared/schemas/repairs.js";
+import { getRepair, isListPosition, listRepairPage, type ListStart, type RepairFilter } from "../db/queries/repairs.js";
 import { analyticsRoles } from "../../shared/roles.js";
-import { neutraliseCell } from "../../shared/csv-cell.js";
+import { openRepairCsv } from "../db/queries/repairs-csv.js";
 
 function parse(req: Request) {
   const filters = analyticsFiltersSchema.parse(req.query);
@@ -84,32 +81,24 @@ export function repairRoutes(db: Db): Router {
   return router;
 }
 
-const csvOptions: Options = { bom: false, record_delimiter: "windows", cast: { string: neutraliseCell, number: (n) => String(n) } };
-
 /**
- * The CSV text of each batch of rows (csv-stringify), the header first: one write per batch. Rows go to the
- * stringifier as arrays in column order, which it writes without looking each column up by name.
+ * GET /api/repairs.csv: every line the same filter matches, in list order, from one snapshot, written by
+ * PostgreSQL (db/queries/repairs-csv) and sent as fast as the client takes it (the pipeline's backpressure
+ * reaches the COPY). A client that leaves ends the COPY and frees its connection.
  */
-async function* csvText(batches: AsyncIterable<RepairRow[]>): AsyncGenerator<string> {
-  yield stringify([repairCsvColumns.map((c) => c.label)], csvOptions);
-  for await (const rows of batches) yield stringify(rows.map((r) => repairCsvColumns.map((c) => r[c.key])), csvOptions);
-}
-
-/**
- * GET /api/repairs.csv: every line the same filter matches, in list order, streamed from one snapshot;
- * batches are read only as fast as the client takes the file (the pipeline's backpressure).
- */
-export function repairCsvRoutes(db: Db): Router {
+export function repairCsvRoutes(db: Db, pool: pg.Pool): Router {
   const router = Router();
   router.get("/", allow(...analyticsRoles), async (req, res) => {
     const { filter, list } = parse(req);
+    const csv = await openRepairCsv(db, pool, requireScope(req), filter, list);
     res.setHeader("content-type", "text/csv; charset=utf-8");
     res.attachment("repair-lines.csv");
     try {
-      await pipeline(Readable.from(csvText(eachRepairBatch(db, requireScope(req), filter, list))), res);
+      await pipeline(csv, res);
     } catch (err) {
       // the pipeline has destroyed the response: the download ends short rather than look complete
-      req.log?.error({ err }, "repair CSV export ended early");
+      if ((err as NodeJS.ErrnoException).code === "ERR_STREAM_PREMATURE_CLOSE") req.log?.info("the client left before the end of the repair CSV");
+      else req.log?.error({ err }, "repair CSV export ended early");
     }
   });
   return router;

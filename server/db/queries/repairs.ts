@@ -8,7 +8,7 @@ import { sql, type RawBuilder } from "kysely";
 import type { Db } from "../database.js";
 import type { ShopScope } from "../../../shared/schemas/me.js";
 import type { AnalyticsFilters } from "../../../shared/schemas/analytics-filters.js";
-import type { RepairDetail, RepairListQuery, RepairRow, RepairSortKey } from "../../../shared/schemas/repairs.js";
+import { repairCsvColumns, type RepairDetail, type RepairListQuery, type RepairRow, type RepairSortKey } from "../../../shared/schemas/repairs.js";
 import { scopedShopCodes } from "./scope.js";
 import { hourBandSql, temperatureBandSql } from "../../../shared/band-sql.js";
 
@@ -382,37 +382,59 @@ async function countRepairs(db: Db, parts: readonly Condition[]): Promise<ListTo
 }
 
 /**
- * Every matching line in list order, in batches, from one consistent snapshot (a read-only REPEATABLE READ
- * transaction) through a server-side cursor; the next batch is FETCHed while this one is handed on, so memory
- * holds about two batches however long the list. Stopping early (the consumer returns) closes the transaction.
+ * A date column's cell: the rule only ever changes '-infinity' (every other date's text starts with a digit,
+ * or is 'infinity'), so that one value is tested rather than the text of every date.
  */
-export async function* eachRepairBatch(
-  db: Db,
-  scope: ShopScope,
-  r: RepairFilter,
-  order: Pick<RepairListQuery, "sort" | "dir">,
-  batchSize = 5000,
-): AsyncGenerator<RepairRow[]> {
-  const trx = await db.startTransaction().setIsolationLevel("repeatable read").setAccessMode("read only").execute();
-  let done = false;
-  try {
-    const { keys } = listOrder(order.sort, order.dir);
-    await sql`DECLARE repair_lines NO SCROLL CURSOR FOR ${SELECT} ${FROM} WHERE ${conditions(scope, r)}
-      ORDER BY ${sorted(keys.map((k) => k.expr), order.dir)}`.execute(trx);
-    const fetchBatch = () => sql<RowRecord>`FETCH ${sql.lit(batchSize)} FROM repair_lines`.execute(trx).then((res) => res.rows);
-    let next: Promise<RowRecord[]> | null = fetchBatch();
-    while (next) {
-      const rows: RowRecord[] = await next;
-      next = rows.length === batchSize ? fetchBatch() : null;
-      // awaited on the next turn; an early stop must not leave its failure unhandled
-      next?.catch(() => undefined);
-      if (rows.length) yield rows.map(toRow);
-    }
-    await trx.commit().execute();
-    done = true;
-  } finally {
-    if (!done) await trx.rollback().execute();
-  }
+const csvDate = (column: RawBuilder<unknown>) => sql`CASE WHEN ${column} = '-infinity' THEN '''-infinity' ELSE ${column}::text END`;
+
+/**
+ * Each CSV column's cell as SQL over a row of the list (`x`), written as the rule of shared/csv-cell.ts writes
+ * the row's value: text through csv_cell (migration 0046); the id, a bigint's text, as it is (a plain integer,
+ * which the rule leaves alone); numbers as JavaScript's String(Number(v)) writes them, which for the numeric
+ * columns (at most 9 significant digits, migration 0002) is the value without trailing zeros: trim_scale
+ * ("12.50" → 12.5, "3.0" → 3).
+ */
+const csvCells: Record<keyof RepairRow, RawBuilder<unknown>> = {
+  id: sql`x.id`,
+  shopCode: sql`csv_cell(x.shop_code)`,
+  roNumber: sql`csv_cell(x.ro_number)`,
+  lineNo: sql`x.line_no`,
+  openedDate: csvDate(sql`x.opened_date`),
+  closedDate: csvDate(sql`x.closed_date`),
+  serial: sql`csv_cell(x.serial)`,
+  modelLine: sql`csv_cell(x.model_line)`,
+  engineFamily: sql`csv_cell(x.engine_family)`,
+  componentCode: sql`csv_cell(x.component_code)`,
+  componentName: sql`csv_cell(x.component_name)`,
+  lineType: sql`csv_cell(x.line_type)`,
+  payType: sql`csv_cell(x.pay_type)`,
+  hourMeter: sql`trim_scale(x.hour_meter)`,
+  laborHours: sql`trim_scale(x.labor_hours)`,
+  standardHours: sql`trim_scale(x.standard_hours)`,
+  complaint: sql`csv_cell(x.complaint)`,
+  cause: sql`csv_cell(x.cause)`,
+  partNumber: sql`csv_cell(x.part_number)`,
+  supplierLot: sql`csv_cell(x.supplier_lot)`,
+  technician: sql`csv_cell(x.technician)`,
+};
+
+/**
+ * The rows of the repairs CSV as SQL for COPY: every line the filter matches, in list order, one column per
+ * repairCsvColumns entry named by its header, each cell already as the CSV holds it. The list's own query
+ * sits in a subquery behind OFFSET 0 so the cells are computed after its sort: with them inside, the planner
+ * sorts rows three times as wide and prefers walking the order's index through nested loops, which took twice
+ * as long over a whole warehouse. The outer ORDER BY names the inner one's keys, so it costs no second sort.
+ */
+export function repairCsvSelect(scope: ShopScope, r: RepairFilter, order: Pick<RepairListQuery, "sort" | "dir">): RawBuilder<unknown> {
+  const exprs = listOrder(order.sort, order.dir).keys.map((k) => k.expr);
+  return sql`
+    SELECT ${sql.join(repairCsvColumns.map((c) => sql`${csvCells[c.key]} AS ${sql.id(c.label)}`))}
+    FROM (
+      ${SELECT}, ${sql.join(exprs.map((e, i) => sql`${e} AS ${sql.ref(`o${i}`)}`))}
+      ${FROM} WHERE ${conditions(scope, r)}
+      ORDER BY ${sorted(exprs, order.dir)} OFFSET 0
+    ) x
+    ORDER BY ${sorted(exprs.map((_, i) => sql.ref(`x.o${i}`)), order.dir)}`;
 }
 
 /** True when the id has the shape of a repair-line key (a signed 64-bit integer). */
