@@ -9,7 +9,7 @@ import { clusterLineFacts, failureBandCounts } from "../db/queries/cluster-detai
 import { listRepairs } from "../db/queries/repairs.js";
 import { analyticsRoles } from "../../shared/roles.js";
 import type { ShopScope } from "../../shared/schemas/me.js";
-import { AnswerCache } from "../services/answer-cache.js";
+import { AnswerCache, LARGE_ANSWERS } from "../services/answer-cache.js";
 
 /** Counts per band in the bands' order (unknown last), the cluster's beside everyone else's. */
 function profile(ids: readonly string[], inCluster: Map<string, number>, all: Map<string, number>): ClusterDetail["hourProfile"] {
@@ -33,7 +33,7 @@ const tally = <T,>(items: T[], key: (t: T) => string, n: (t: T) => number = () =
  */
 export function clusterDetailRoutes(db: Db): Router {
   const router = Router();
-  const answers = new AnswerCache(db, 100);
+  const answers = new AnswerCache(db, 100, LARGE_ANSWERS);
   router.get("/:id", allow(...analyticsRoles), async (req, res) => {
     const scope = requireScope(req);
     await answers.send(req, res, scope, () => clusterDetail(db, scope, String(req.params.id), req.query));

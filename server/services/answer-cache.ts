@@ -10,6 +10,13 @@ import { ResultCache } from "./result-cache.js";
 const DEFAULT_BYTES = 8 * 1024 * 1024;
 
 /**
+ * For routes whose single answer can pass 8 MB on a large warehouse: the cluster list and detail carry every
+ * repair line of their clusters (tens of MB at ten million lines), and an answer larger than its cache is
+ * never kept, so every request would build it again.
+ */
+export const LARGE_ANSWERS = 96 * 1024 * 1024;
+
+/**
  * Answers a route computes from the warehouse alone, kept per request and data version: the first call
  * after a load computes, later calls with the same key (path, caller's scope, query) get the same answer
  * until the next load or exposure rebuild.
