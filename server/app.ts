@@ -3,6 +3,7 @@ import compression from "compression";
 import { createHmac } from "node:crypto";
 import helmet from "helmet";
 import { pinoHttp } from "pino-http";
+import { sameOriginOnly } from "./http/same-origin.js";
 import path from "node:path";
 import { existsSync } from "node:fs";
 import { dataEtag } from "./http/data-etag.js";
@@ -67,10 +68,21 @@ export function createApp(d: AppDeps): express.Express {
         },
       },
       strictTransportSecurity: secure,
+      // the Origin of our own form posts stays our origin (under no-referrer browsers send "null"), and no
+      // address of ours leaves for another site
+      referrerPolicy: { policy: "same-origin" },
     }),
   );
   // brotli or gzip for JSON, CSV, JS and CSS when the client accepts it (responses under 1 kB go as they are)
   app.use(compression({ threshold: 1024 }));
+  // nothing a browser sends from another site changes anything (before the body parsers and every route)
+  app.use(sameOriginOnly(d.publicUrl));
+  // private answers are not kept by browsers or proxies; the warehouse answers that carry a data-version ETag
+  // say `private, no-cache` instead (server/http/data-etag.ts), so a browser may keep and revalidate them
+  app.use(["/api", "/auth"], (_req, res, next) => {
+    res.setHeader("Cache-Control", "no-store");
+    next();
+  });
   app.use(express.json({ limit: "1mb" }));
   app.use(createSessionMiddleware(d.pool, d.sessionSecret, secure));
 
