@@ -4,6 +4,7 @@ import { createHmac } from "node:crypto";
 import helmet from "helmet";
 import { pinoHttp } from "pino-http";
 import { sameOriginOnly } from "./http/same-origin.js";
+import { refuseNul } from "./http/no-nul.js";
 import path from "node:path";
 import { existsSync } from "node:fs";
 import { dataEtag } from "./http/data-etag.js";
@@ -84,6 +85,7 @@ export function createApp(d: AppDeps): express.Express {
     next();
   });
   app.use(express.json({ limit: "1mb" }));
+  app.use(refuseNul);
   app.use(createSessionMiddleware(d.pool, d.sessionSecret, secure));
 
   app.use(

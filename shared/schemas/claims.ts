@@ -1,5 +1,6 @@
 import { z } from "zod";
 import { clusterSchema } from "./analytics-clusters.js";
+import { isInt64 } from "../int64.js";
 
 export const claimStatusSchema = z.enum(["draft", "submitted", "accepted", "rejected", "credited"]);
 export type ClaimStatus = z.infer<typeof claimStatusSchema>;
@@ -15,7 +16,7 @@ export const claimStatusLabels: Record<ClaimStatus, string> = {
   credited: "Credited",
 };
 
-const keyString = z.string().regex(/^-?\d{1,20}$/, "must be a repair line id (digits)");
+const keyString = z.string().refine(isInt64, "must be a repair line id (digits, within a 64-bit integer)");
 
 /** POST /api/claims */
 export const createClaimSchema = z.discriminatedUnion("kind", [

@@ -4,6 +4,7 @@
  * an index (migration 0042), and a page starts after (or before) the sort values of a row instead of counting
  * rows off. Totals are counted only while that is cheap; past that they are PostgreSQL's estimate.
  */
+import { isInt64 } from "../../../shared/int64.js";
 import { sql, type RawBuilder } from "kysely";
 import type { Db } from "../database.js";
 import type { ShopScope } from "../../../shared/schemas/me.js";
@@ -438,7 +439,7 @@ export function repairCsvSelect(scope: ShopScope, r: RepairFilter, order: Pick<R
 }
 
 /** True when the id has the shape of a repair-line key (a signed 64-bit integer). */
-export const isRepairLineId = (id: string) => /^-?\d{1,19}$/.test(id);
+export const isRepairLineId = (id: string) => isInt64(id);
 
 /**
  * One repair line with its machine, hour-meter trail, fault codes and measurements, or null when it does
