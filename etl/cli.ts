@@ -26,6 +26,14 @@ function summaryLine(s: BatchSummary): string {
   return `${s.file}: ${s.kind} via ${s.profile}: read ${s.read}, inserted ${s.inserted}, updated ${s.updated}, unchanged ${s.unchanged}, rejected ${s.rejected}${note}`;
 }
 
+/** The header's report in sentences: columns ignored (and why), optional columns absent (stored values kept). */
+export function headerLines(h: BatchSummary["header"]): string[] {
+  const out = h.ignored.map((c) => `column ${c.position} "${c.column}" is ignored: ${c.reason}`);
+  if (h.encoding) out.push(h.encoding);
+  if (h.absent.length) out.push(`not in this file: ${h.absent.map((c) => c.replace(/_/g, " ")).join(", ")}; values already stored for them are left as they are`);
+  return out;
+}
+
 async function load(files: string[], o: { kind?: ExportKind; profile?: string; shop?: string; json?: boolean }): Promise<number> {
   const pool = new pg.Pool(etlPoolConfig(defaultUrl(), 2));
   const tty = !o.json && process.stderr.isTTY;
@@ -47,7 +55,12 @@ async function load(files: string[], o: { kind?: ExportKind; profile?: string; s
         }
       };
       try {
-        const s = await loadFile(pool, { path: file, kind: o.kind, profile: o.profile, shop: o.shop, loadedBy, onProgress });
+        // what the header means is said before the load starts, so a column read wrongly can be stopped (Ctrl-C loads nothing)
+        const onHeader = (h: BatchSummary["header"], p: { id: string }) => {
+          if (o.json) process.stdout.write(JSON.stringify({ event: "header", file, profile: p.id, ...h }) + "\n");
+          else for (const line of headerLines(h)) process.stderr.write(`${file}: ${line}\n`);
+        };
+        const s = await loadFile(pool, { path: file, kind: o.kind, profile: o.profile, shop: o.shop, loadedBy, onProgress, onHeader });
         bar?.stop();
         if (s.inserted + s.updated > 0) changed = true;
         if (o.json) {
@@ -55,6 +68,9 @@ async function load(files: string[], o: { kind?: ExportKind; profile?: string; s
           process.stdout.write(JSON.stringify({ event: "summary", file, kind, profile, read, inserted, updated, unchanged, rejected, ...rest }) + "\n");
         } else {
           process.stdout.write(summaryLine(s) + "\n");
+          for (const m of s.mergedLines) {
+            process.stdout.write(`${s.file}: lines ${m.first}–${m.last} ran together behind a quote left open; each was read on its own (see the rejects)\n`);
+          }
         }
       } catch (e) {
         bar?.stop();

@@ -1,10 +1,11 @@
 /**
- * A problem with a whole file (unreadable, unknown profile, wrong kind, header not recognised). Nothing of
+ * A problem with a whole file (unreadable, unknown profile, wrong kind, header not recognised, a column
+ * named twice, a shop that is not registered). Nothing of
  * the file is loaded; the message is one line a shop manager can act on.
  */
 export class EtlFatalError extends Error {
   constructor(
-    readonly code: "FILE_UNREADABLE" | "UNKNOWN_PROFILE" | "WRONG_KIND" | "HEADER_NOT_RECOGNISED" | "AMBIGUOUS_PROFILE" | "UNKNOWN_SHOP",
+    readonly code: "FILE_UNREADABLE" | "UNKNOWN_PROFILE" | "WRONG_KIND" | "HEADER_NOT_RECOGNISED" | "AMBIGUOUS_PROFILE" | "UNKNOWN_SHOP" | "DUPLICATE_COLUMN" | "UNBALANCED_QUOTE",
     message: string,
   ) {
     super(message);

@@ -32,12 +32,13 @@ import path from "node:path";
 import pg from "pg";
 import { EtlFatalError } from "../errors.js";
 import type { ExportKind, Profile } from "../profiles/profile-schema.js";
-import { detectProfile, getProfile, missingRequiredColumns } from "../profiles/registry.js";
-import { checkReadable, headerCells, readCsv, readHead } from "../sources/read-csv.js";
+import { detectProfile, getProfile, headerReport, missingRequiredColumns, type HeaderReport } from "../profiles/registry.js";
+import { checkReadable, headerCells, readCsv, readHead, sniffEncoding } from "../sources/read-csv.js";
 import { ensureDates, seedReference, storeRejects, type MergeCounts } from "./merge-common.js";
 import { finishJobs, jobsBlock, prepareJobs, type BlockTally, type FileFacts } from "./merge-jobs.js";
 import { mergeHours, mergeMachines, mergeMeasurements, mergeWeather } from "./merge-others.js";
-import { RowStager } from "./stage-row.js";
+import { freeTextColumns, RowStager, visibleText } from "./stage-row.js";
+import { normaliseCode } from "../transform/values.js";
 import { StagePipeline, StageTable } from "./staging.js";
 import { etlPoolConfig } from "./timed-client.js";
 
@@ -58,6 +59,8 @@ export interface LoadFileOptions {
   /** who loaded it (user name or "cli:<login>") */
   loadedBy: string;
   onProgress?: (p: LoadProgress) => void;
+  /** called before anything is loaded with what the header means to the profile (columns ignored and why, columns absent) */
+  onHeader?: (report: HeaderNotes, profile: Profile) => void;
   /** 'YYYY-MM-DD'; dates after it are rejected as future. Defaults to the current UTC date. */
   today?: string;
   /** rows per staging block (default 25,000); a test seam, so small files can be merged in several blocks */
@@ -71,6 +74,9 @@ export interface LoadFileOptions {
   };
 }
 
+/** What the header and the first bytes meant, said before the load: columns ignored and why, optional columns absent, the encoding read in when not the profile's. */
+export type HeaderNotes = Pick<HeaderReport, "ignored" | "absent"> & { encoding: string | null };
+
 export interface BatchSummary {
   batchId: number;
   file: string;
@@ -79,6 +85,10 @@ export interface BatchSummary {
   profile: string;
   shop: string | null;
   status: "loaded" | "already_loaded";
+  /** header cells the profile does not read (and why), and its optional columns the file lacks */
+  header: HeaderNotes;
+  /** lines that a quote left open ran together, each then read on its own (see etl/sources/read-csv.ts) */
+  mergedLines: { first: number; last: number }[];
   read: number;
   inserted: number;
   updated: number;
@@ -93,7 +103,7 @@ export interface BatchSummary {
  */
 interface KindMerge {
   prepare?: (c: pg.PoolClient) => Promise<void>;
-  block?: (c: pg.PoolClient, batchId: number, first: number, last: number, repeats: boolean) => Promise<BlockTally>;
+  block?: (c: pg.PoolClient, batchId: number, first: number, last: number, repeats: boolean, kept: readonly string[]) => Promise<BlockTally>;
   finish: (c: pg.PoolClient, batchId: number, blocks: BlockTally, file: FileFacts) => Promise<MergeCounts>;
 }
 
@@ -115,10 +125,15 @@ async function fileSha256(filePath: string): Promise<string> {
 }
 
 /** Profile and header for a file, or a fatal error that names the problem. */
-export function resolveProfile(filePath: string, opts: Pick<LoadFileOptions, "kind" | "profile" | "shop">): { profile: Profile; header: string[] } {
+export function resolveProfile(
+  filePath: string,
+  opts: Pick<LoadFileOptions, "kind" | "profile" | "shop">,
+): { profile: Profile; header: string[]; report: HeaderReport; readAs: Profile; encodingNote: string | null } {
   checkReadable(filePath);
   const head = readHead(filePath);
   if (head.length === 0) throw new EtlFatalError("HEADER_NOT_RECOGNISED", `${path.basename(filePath)} is empty`);
+  const kindOfBytes = notText(head);
+  if (kindOfBytes) throw new EtlFatalError("HEADER_NOT_RECOGNISED", `${path.basename(filePath)} is ${kindOfBytes}, not a CSV export; export the data as CSV text`);
   const shopGiven = Boolean(opts.shop);
   let profile: Profile;
   if (opts.profile) {
@@ -148,7 +163,29 @@ export function resolveProfile(filePath: string, opts: Pick<LoadFileOptions, "ki
       throw e;
     }
   }
-  return { profile, header: headerCells(head, profile) };
+  const header = headerCells(head, profile);
+  const report = headerReport(profile, header);
+  if (report.duplicates.length) {
+    const d = report.duplicates.map((x) => `"${x.column}" (columns ${x.positions.join(" and ")})`).join(", ");
+    throw new EtlFatalError("DUPLICATE_COLUMN", `the header names ${d} more than once; which copy holds the values cannot be known, so nothing was loaded`);
+  }
+  const { encoding, note } = sniffEncoding(head, profile.encoding);
+  return { profile, header, report, readAs: encoding === profile.encoding ? profile : { ...profile, encoding }, encodingNote: note };
+}
+
+/** What a file's first bytes say it is when that is plainly not CSV text; null when it may be. */
+function notText(head: Buffer): string | null {
+  const starts = (...b: number[]) => b.every((x, i) => head[i] === x);
+  if (starts(0xff, 0xfe) || starts(0xfe, 0xff)) return "UTF-16 text (save it as UTF-8 or Windows-1252)";
+  if (starts(0x50, 0x4b, 0x03, 0x04)) return "a ZIP archive (a spreadsheet workbook, or compressed)";
+  if (starts(0x1f, 0x8b)) return "gzip-compressed";
+  if (starts(0x25, 0x50, 0x44, 0x46)) return "a PDF document";
+  if (starts(0xd0, 0xcf, 0x11, 0xe0)) return "an old-style spreadsheet or document";
+  // text has few NUL bytes; binary data has many
+  let nul = 0;
+  const n = Math.min(head.length, 4096);
+  for (let i = 0; i < n; i++) if (head[i] === 0) nul++;
+  return nul > n / 10 ? "binary data" : null;
 }
 
 function utcToday(): string {
@@ -179,7 +216,7 @@ async function recoverRawRows(client: pg.PoolClient, filePath: string, profile: 
     found = [];
   };
   let first = true;
-  for await (const batch of readCsv(filePath, profile, hash)) {
+  for await (const batch of readCsv(filePath, profile, hash, undefined, (h) => freeTextColumns(profile, h))) {
     for (const rec of batch) {
       if (first) {
         first = false; // the header
@@ -204,9 +241,11 @@ async function recoverRawRows(client: pg.PoolClient, filePath: string, profile: 
 /** Loads one file; see the top of this module for the contract. */
 export async function loadFile(target: pg.Pool | string, opts: LoadFileOptions): Promise<BatchSummary> {
   const started = Date.now();
-  const { profile } = resolveProfile(opts.path, opts);
+  const { profile, report, readAs, encodingNote } = resolveProfile(opts.path, opts);
   const kind = profile.kind;
-  const shop = opts.shop ?? profile.defaultShop;
+  const shop = opts.shop === undefined ? profile.defaultShop : normaliseCode(opts.shop);
+  const headerNotes = { ignored: report.ignored.map((c) => ({ ...c, column: visibleText(c.column) })), absent: report.absent, encoding: encodingNote };
+  opts.onHeader?.(headerNotes, profile);
   const totalBytes = checkReadable(opts.path);
   const today = opts.today ?? utcToday();
   const fileName = path.basename(opts.path);
@@ -231,6 +270,14 @@ export async function loadFile(target: pg.Pool | string, opts: LoadFileOptions):
     await client.query("SET LOCAL work_mem = '256MB'");
     // the merges are few, large statements: compiling them costs more than it saves
     await client.query("SET LOCAL jit = off");
+    // rows of these kinds must name a registered shop; an export never adds one
+    let knownShops: Set<string> | null = null;
+    if (kind === "jobs" || kind === "measurements" || kind === "weather") {
+      knownShops = new Set((await client.query<{ shop_code: string }>(`SELECT shop_code FROM dim_shop`)).rows.map((r) => r.shop_code));
+      if (shop && !knownShops.has(shop)) {
+        throw new EtlFatalError("UNKNOWN_SHOP", `shop "${shop}" is not in the shop register; register it first (npm run etl -- shops register <file>)`);
+      }
+    }
     const before = await client.query<{ rows_read: number }>(
       `SELECT rows_read FROM etl_batch WHERE sha256 = $1 AND status = 'loaded' ORDER BY batch_id LIMIT 1`,
       [sha],
@@ -249,6 +296,7 @@ export async function loadFile(target: pg.Pool | string, opts: LoadFileOptions):
       return {
         batchId: Number(ins.rows[0].batch_id), file: fileName, sha256: sha, kind, profile: profile.id, shop: shop ?? null,
         status: "already_loaded", read, inserted: 0, updated: 0, unchanged: read, rejected: 0, durationMs: Date.now() - started,
+        header: headerNotes, mergedLines: [],
       };
     }
     const ins = await client.query<{ batch_id: number }>(
@@ -271,7 +319,7 @@ export async function loadFile(target: pg.Pool | string, opts: LoadFileOptions):
       opts.blockRows ?? DEFAULT_BLOCK_ROWS,
       async (first, last, repeats) => {
         if (!merge.block) return;
-        const t = await merge.block(client, batchId, first, last, repeats as boolean);
+        const t = await merge.block(client, batchId, first, last, repeats as boolean, stager!.kept);
         blocks.inserted += t.inserted;
         blocks.updated += t.updated;
       },
@@ -282,11 +330,11 @@ export async function loadFile(target: pg.Pool | string, opts: LoadFileOptions):
     let rowsRead = 0;
     let header: string[] | null = null;
     try {
-      for await (const batch of readCsv(opts.path, profile, streamHash, (b) => (bytesRead = b))) {
+      for await (const batch of readCsv(opts.path, readAs, streamHash, (b) => (bytesRead = b), (h) => freeTextColumns(profile, h))) {
         for (const rec of batch) {
           if (stager === null) {
             header = rec.fields;
-            stager = new RowStager(kind, profile, header, shop, today);
+            stager = new RowStager(kind, readAs, header, shop, today, knownShops);
             continue;
           }
           rowsRead++;
@@ -312,18 +360,20 @@ export async function loadFile(target: pg.Pool | string, opts: LoadFileOptions):
     await opts.hooks?.afterStaging?.(client);
 
     await ensureDates(client, stager!.minDate, stager!.maxDate);
-    const merged = await merge.finish(client, batchId, blocks, { mayRepeatKeys: stager!.fileHadRepeats, members: stager!.members, meterChanges: stager!.meterChanges });
+    const merged = await merge.finish(client, batchId, blocks, {
+      mayRepeatKeys: stager!.fileHadRepeats, members: stager!.members, meterChanges: stager!.meterChanges, kept: stager!.kept,
+    });
     const rej = await client.query<{ n: number; without_raw: number }>(
       `SELECT count(*)::int AS n, count(*) FILTER (WHERE raw IS NULL)::int AS without_raw FROM stg WHERE reject_code IS NOT NULL`,
     );
-    if (rej.rows[0].without_raw > 0) await recoverRawRows(client, opts.path, profile, sha);
-    if (rej.rows[0].n > 0) await storeRejects(client, batchId, header);
+    if (rej.rows[0].without_raw > 0) await recoverRawRows(client, opts.path, readAs, sha);
+    if (rej.rows[0].n > 0) await storeRejects(client, batchId, header!.map(visibleText));
     const counts = { ...merged, rejected: rej.rows[0].n };
     await client.query(
       `UPDATE etl_batch SET finished_at = now(), rows_read = $2, rows_inserted = $3, rows_updated = $4, rows_unchanged = $5,
-         rows_rejected = $6, status = 'loaded'
+         rows_rejected = $6, status = 'loaded', notes = $7
        WHERE batch_id = $1`,
-      [batchId, rowsRead, counts.inserted, counts.updated, counts.unchanged, counts.rejected],
+      [batchId, rowsRead, counts.inserted, counts.updated, counts.unchanged, counts.rejected, JSON.stringify({ ...headerNotes, mergedLines: stager!.mergedSpans })],
     );
     await opts.hooks?.beforeCommit?.(client);
     await client.query("COMMIT");
@@ -339,6 +389,8 @@ export async function loadFile(target: pg.Pool | string, opts: LoadFileOptions):
       read: rowsRead,
       ...counts,
       durationMs: Date.now() - started,
+      header: headerNotes,
+      mergedLines: stager!.mergedSpans,
     };
   } catch (e) {
     failed = true;

@@ -125,6 +125,26 @@ export async function storeRejects(client: pg.PoolClient, batchId: number, heade
   );
 }
 
+const BOOKKEEPING = new Set(["row_hash", "batch_id", "first_batch_id"]);
+
+/**
+ * The SET list and the WHERE of an upsert's DO UPDATE into `target` (its alias) over `cols`:
+ * - columns in `kept` (the file's header lacks them) are left as stored;
+ * - `special` sets a column by an expression of its own (and leaves it out of the comparison);
+ * - a row is updated only when its content hash differs AND a value it sets differs, so a file that
+ *   says less than the warehouse knows (fewer columns) neither blanks values nor counts as a change.
+ */
+export function updateClause(target: string, cols: string[], kept: readonly string[], special: Record<string, string> = {}): { set: string; changed: string } {
+  const keep = new Set(kept);
+  const setCols = cols.filter((c) => !keep.has(c));
+  const set = setCols.map((c) => `${c} = ${special[c] ?? `excluded.${c}`}`).join(", ");
+  const compared = setCols.filter((c) => !BOOKKEEPING.has(c) && !(c in special));
+  const changed = compared.length
+    ? `${target}.row_hash <> excluded.row_hash AND (${compared.map((c) => `${target}.${c}`).join(", ")}) IS DISTINCT FROM (${compared.map((c) => `excluded.${c}`).join(", ")})`
+    : `${target}.row_hash <> excluded.row_hash`;
+  return { set, changed };
+}
+
 export interface MergeCounts {
   inserted: number;
   updated: number;

@@ -1,6 +1,6 @@
 import type pg from "pg";
 import { checkHourReadings } from "./hour-checks.js";
-import { anyNotableLine, rejectDuplicates, rejectUnknownMachines, type MergeCounts } from "./merge-common.js";
+import { anyNotableLine, rejectDuplicates, rejectUnknownMachines, updateClause, type MergeCounts } from "./merge-common.js";
 
 /**
  * Repair-order lines, merged in two steps so that reading the file and writing the warehouse overlap:
@@ -30,6 +30,20 @@ const FACT_COLS = [
 const UPDATABLE = FACT_COLS.filter((c) => !["repair_line_key", "shop_key", "ro_number", "line_no", "first_batch_id"].includes(c));
 const FROM_STAGE: Record<string, string> = { fault_codes_raw: "c.fault_codes", first_batch_id: "$B", batch_id: "$B" };
 
+/**
+ * The DO UPDATE of a block's merge. A file without the supplier-lot column keeps a line's stored lot (and
+ * the part key it is part of) while the part number stays the same: a lot belongs to one part.
+ */
+function jobsUpdate(kept: readonly string[]): { set: string; changed: string } {
+  const special: Record<string, string> = {};
+  if (kept.includes("supplier_lot") && !kept.includes("part_number")) {
+    const same = "excluded.part_number IS NOT DISTINCT FROM f.part_number";
+    special.supplier_lot = `CASE WHEN ${same} THEN f.supplier_lot ELSE excluded.supplier_lot END`;
+    special.part_key = `CASE WHEN ${same} THEN f.part_key ELSE excluded.part_key END`;
+  }
+  return updateClause("f", UPDATABLE, kept, special);
+}
+
 /** Fault-code rows ("spn:fmi:count;…") of the lines in `source` (an SQL relation with repair_line_key and fault_codes). */
 const faultCodeInsert = (source: string) =>
   `INSERT INTO fact_fault_code (repair_line_key, spn, fmi, occurrences)
@@ -51,6 +65,8 @@ export interface FileFacts {
   members: DimensionMembers | null;
   /** whether a row that passed the row checks notes a meter change */
   meterChanges: boolean;
+  /** warehouse columns the file's header lacks: kept as stored on the rows it updates (etl/load/kept-columns.ts) */
+  kept: string[];
 }
 
 export interface DimensionMembers {
@@ -72,7 +88,9 @@ const BLOCK_COLS = [
 ];
 
 /** Step 1 for staged rows first..last (row numbers); returns how many lines it inserted and updated. */
-export async function jobsBlock(client: pg.PoolClient, batchId: number, first: number, last: number, repeats = true): Promise<BlockTally> {
+export async function jobsBlock(
+  client: pg.PoolClient, batchId: number, first: number, last: number, repeats = true, kept: readonly string[] = [],
+): Promise<BlockTally> {
   const B = int(batchId);
   const candidates = `FROM stg s
       WHERE s.row_no BETWEEN ${int(first)} AND ${int(last)} AND s.reject_code IS NULL
@@ -82,6 +100,7 @@ export async function jobsBlock(client: pg.PoolClient, batchId: number, first: n
   // block's rows are read straight from stg
   const src = repeats ? "blk c" : `(SELECT ${cols} ${candidates}) c`;
   const values = FACT_COLS.map((c) => (FROM_STAGE[c] ?? `c.${c}`).replace("$B", B)).join(", ");
+  const update = jobsUpdate(kept);
   // One round trip, in the load's transaction. A changed line's prior version goes to history through the
   // trigger fact_repair_line_keep_history (migration 0041), which costs nothing for new lines. Fault codes
   // are written here for new lines; those of updated lines are replaced in finishJobs.
@@ -90,8 +109,8 @@ export async function jobsBlock(client: pg.PoolClient, batchId: number, first: n
     WITH up AS (
       INSERT INTO fact_repair_line AS f (${FACT_COLS.join(", ")})
       SELECT ${values} FROM ${src}
-      ON CONFLICT (repair_line_key) DO UPDATE SET ${UPDATABLE.map((c) => `${c} = excluded.${c}`).join(", ")}
-      WHERE f.row_hash <> excluded.row_hash
+      ON CONFLICT (repair_line_key) DO UPDATE SET ${update.set}
+      WHERE ${update.changed}
       RETURNING f.repair_line_key, (xmax = 0) AS inserted, f.fault_codes_raw
     ), codes AS (
       ${faultCodeInsert(`SELECT repair_line_key, fault_codes_raw AS fault_codes FROM up WHERE inserted`)}

@@ -1,17 +1,20 @@
 import type pg from "pg";
 import { checkHourReadings } from "./hour-checks.js";
 import {
-  acceptedCount, countChanges, createChanged, registerShops, rejectDuplicates, rejectUnknownMachines, type MergeCounts,
+  acceptedCount, countChanges, createChanged, registerShops, rejectDuplicates, rejectUnknownMachines, updateClause, type MergeCounts,
 } from "./merge-common.js";
 
-/** An upsert on `key` that touches only rows whose row_hash differs, recording (key, inserted) in `changed`. */
-function upsert(table: string, key: string, cols: string[], select: string): string {
+/**
+ * An upsert on `key` that touches only rows whose content changed, recording (key, inserted) in `changed`;
+ * columns in `kept` (absent from the file) stay as stored (see updateClause).
+ */
+function upsert(table: string, key: string, cols: string[], select: string, kept: readonly string[] = []): string {
   const alias = "t";
-  const updatable = cols.filter((c) => c !== key);
+  const { set, changed } = updateClause(alias, cols.filter((c) => c !== key), kept);
   return `WITH up AS (
       INSERT INTO ${table} AS ${alias} (${cols.join(", ")}) ${select}
-      ON CONFLICT (${key}) DO UPDATE SET ${updatable.map((c) => `${c} = excluded.${c}`).join(", ")}
-      WHERE ${alias}.row_hash <> excluded.row_hash
+      ON CONFLICT (${key}) DO UPDATE SET ${set}
+      WHERE ${changed}
       RETURNING ${alias}.${key} AS key, (xmax = 0) AS inserted
     )
     INSERT INTO changed SELECT key, inserted FROM up`;
@@ -24,7 +27,7 @@ const MACHINE_COLS = [
 ];
 
 /** Machine master rows into dim_machine (upsert on the normalised serial) plus the delivery hour reading. */
-export async function mergeMachines(client: pg.PoolClient, batchId: number): Promise<MergeCounts> {
+export async function mergeMachines(client: pg.PoolClient, batchId: number, _blocks: unknown, file: { kept: string[] }): Promise<MergeCounts> {
   await rejectDuplicates(client, ["serial"], "machine serial %s");
   await registerShops(client, "home_shop");
   const accepted = await acceptedCount(client);
@@ -38,6 +41,7 @@ export async function mergeMachines(client: pg.PoolClient, batchId: number): Pro
          s.build_date, s.delivery_date, s.delivery_hours, sh.shop_key, s.heater_plug_lot, s.block_heater_fitted, s.block_heater_date,
          s.warranty_base_months, s.warranty_base_hours, s.warranty_engine_months, s.warranty_engine_hours, s.row_hash, $1::bigint
        FROM stg s JOIN dim_shop sh ON sh.shop_code = s.home_shop WHERE s.reject_code IS NULL`,
+      file.kept,
     ),
     [batchId],
   );
@@ -60,7 +64,7 @@ const MEASUREMENT_COLS = [
 ];
 
 /** Readings attached to repair-order lines already in the warehouse (jobs load first). */
-export async function mergeMeasurements(client: pg.PoolClient, batchId: number): Promise<MergeCounts> {
+export async function mergeMeasurements(client: pg.PoolClient, batchId: number, _blocks: unknown, file: { kept: string[] }): Promise<MergeCounts> {
   await rejectDuplicates(client, ["shop_code", "ro_number", "line_no", "kind", "position", "attempt"],
     "shop %s repair order %s line %s, %s at position %s attempt %s,");
   await client.query(
@@ -82,6 +86,7 @@ export async function mergeMeasurements(client: pg.PoolClient, batchId: number):
          s.raw_value, s.raw_unit, s.conversion_rule, s.row_hash, $1::bigint
        FROM stg s JOIN fact_repair_line f ON f.repair_line_key = wh_key('repair_line|' || s.shop_code || '|' || s.ro_number || '|' || s.line_no)
        WHERE s.reject_code IS NULL`,
+      file.kept,
     ),
     [batchId],
   );
@@ -89,9 +94,9 @@ export async function mergeMeasurements(client: pg.PoolClient, batchId: number):
 }
 
 /** Daily minimum and maximum per shop, in °C. */
-export async function mergeWeather(client: pg.PoolClient, batchId: number): Promise<MergeCounts> {
+export async function mergeWeather(client: pg.PoolClient, batchId: number, _blocks: unknown, file: { kept: string[] }): Promise<MergeCounts> {
   await rejectDuplicates(client, ["shop_code", "date"], "shop %s weather for %s");
-  await registerShops(client, "shop_code");
+  const { set, changed } = updateClause("w", ["tmin_c", "tmax_c", "source_unit", "row_hash", "batch_id"], file.kept);
   const accepted = await acceptedCount(client);
   await client.query(`CREATE TEMP TABLE changed (shop_key bigint, date date, inserted boolean NOT NULL, PRIMARY KEY (shop_key, date)) ON COMMIT DROP`);
   await client.query(
@@ -99,9 +104,8 @@ export async function mergeWeather(client: pg.PoolClient, batchId: number): Prom
        INSERT INTO fact_weather_day AS w (shop_key, date, tmin_c, tmax_c, source_unit, row_hash, batch_id)
        SELECT sh.shop_key, s.date, s.tmin_c, s.tmax_c, s.source_unit, s.row_hash, $1
        FROM stg s JOIN dim_shop sh ON sh.shop_code = s.shop_code WHERE s.reject_code IS NULL
-       ON CONFLICT (shop_key, date) DO UPDATE SET tmin_c = excluded.tmin_c, tmax_c = excluded.tmax_c,
-         source_unit = excluded.source_unit, row_hash = excluded.row_hash, batch_id = excluded.batch_id
-       WHERE w.row_hash <> excluded.row_hash
+       ON CONFLICT (shop_key, date) DO UPDATE SET ${set}
+       WHERE ${changed}
        RETURNING w.shop_key, w.date, (xmax = 0) AS inserted
      )
      INSERT INTO changed SELECT * FROM up`,
@@ -113,7 +117,7 @@ export async function mergeWeather(client: pg.PoolClient, batchId: number): Prom
 const HOUR_KEY_TEXT = `'hour|' || s.source || '|' || s.serial || '|' || s.reading_date`;
 
 /** Registry and telematics hour readings, with the same meter checks as repair-order readings. */
-export async function mergeHours(client: pg.PoolClient, batchId: number): Promise<MergeCounts> {
+export async function mergeHours(client: pg.PoolClient, batchId: number, _blocks: unknown, file: { kept: string[] }): Promise<MergeCounts> {
   await rejectDuplicates(client, ["serial", "reading_date", "source"], "machine %s reading of %s from %s");
   await rejectUnknownMachines(client);
   await checkHourReadings(client, { dateCol: "reading_date", hoursCol: "hours", keyText: HOUR_KEY_TEXT });
@@ -128,6 +132,7 @@ export async function mergeHours(client: pg.PoolClient, batchId: number): Promis
       `SELECT wh_key(${HOUR_KEY_TEXT}), h.machine_key, s.reading_date, s.hours, s.source, s.meter_change, s.meter_note, h.generation,
          h.valid, h.invalid_reason, md5(concat_ws('|', s.row_hash, h.generation, h.valid)), $1::bigint
        FROM stg s JOIN hr_out h ON h.row_no = s.row_no WHERE s.reject_code IS NULL`,
+      file.kept,
     ),
     [batchId],
   );

@@ -2,7 +2,7 @@ import { hash } from "node:crypto";
 import { layouts } from "../layouts.js";
 import type { ExportKind, Profile } from "../profiles/profile-schema.js";
 import { mapHeader } from "../profiles/registry.js";
-import type { CsvRecord } from "../sources/read-csv.js";
+import { SUSPECT_CHARACTER, type CsvRecord } from "../sources/read-csv.js";
 import { columnLabel, missingFields } from "../sources/row-schemas.js";
 import { FieldReader } from "../transform/fields.js";
 import { transformHours } from "../transform/hours.js";
@@ -11,6 +11,7 @@ import { transformMachine } from "../transform/machines.js";
 import { transformMeasurement } from "../transform/measurements.js";
 import { RowRejected } from "../transform/reject.js";
 import { transformWeather } from "../transform/weather.js";
+import { keptColumns } from "./kept-columns.js";
 import { KeyCache, KeySeenFilter, whKeyWithSpare } from "./keys.js";
 import type { DimensionMembers } from "./merge-jobs.js";
 import { rowBuilder, stagedText } from "./row-shape.js";
@@ -61,6 +62,43 @@ const rowKeys: Partial<Record<ExportKind, RowKeyer>> = {
 
 type Reject = { code: string; reason: string };
 
+/** Longest value of a free-text column (complaint, cause, correction, notes) and of any other column, in characters. */
+export const MAX_TEXT_CHARS = 4000;
+export const MAX_CODE_CHARS = 200;
+const FREE_TEXT = new Set(["complaint", "cause", "correction", "meter_note", "part_description"]);
+
+/** The header cells (by index) of free-text columns, the only ones where a line break belongs (see readCsv). */
+export function freeTextColumns(profile: Profile, header: string[]): ReadonlySet<number> {
+  return new Set([...mapHeader(profile, header)].filter(([c]) => FREE_TEXT.has(c)).map(([, i]) => i));
+}
+
+/** Kinds whose rows name a shop that must be registered already (a machine master may add a bare one). */
+const SHOP_MUST_EXIST: Partial<Record<ExportKind, string>> = { jobs: "shop_code", measurements: "shop_code", weather: "shop_code" };
+
+/** A control character as people can read it in a stored raw row (NUL → ␀); see rawForReject. */
+const CONTROL = /[\u0000-\u0008\u000b\u000c\u000e-\u001f\u007f]/g;
+const RAW_FIELD_CHARS = 1000;
+
+/** Text with its control characters made visible (NUL → ␀, ESC → ␛): safe to store and to show. */
+export function visibleText(text: string): string {
+  return text.replace(CONTROL, (c) => (c === "\u007f" ? "\u2421" : String.fromCharCode(0x2400 + c.charCodeAt(0))));
+}
+
+/** A rejected row's fields as they are stored: control characters made visible, very long values cut. */
+export function rawForReject(fields: string[]): string[] {
+  return fields.map((f) => {
+    const v = visibleText(f);
+    return v.length > RAW_FIELD_CHARS ? `${v.slice(0, RAW_FIELD_CHARS)}… (${v.length.toLocaleString("en-US")} characters in all)` : v;
+  });
+}
+
+/** Why a character is out of place, in words. */
+function describeCharacter(c: string): string {
+  if (c === "\ufffd") return "bytes that are not valid in the file's encoding (was it saved in another one?)";
+  const code = c.charCodeAt(0);
+  return code === 0 ? "a NUL byte (character 0)" : `a control character (code ${code})`;
+}
+
 /**
  * Turns each CSV record of a file into its staging line (COPY text): row checks, transform, content hash,
  * surrogate keys. A rejected row carries its raw fields (as a JSON array) and the reason; an accepted row
@@ -93,6 +131,14 @@ export class RowStager {
   private foundOverflow = false;
   /** the staged text of a row without record: reject columns filled in, every other column \N */
   private readonly emptyTail: string;
+  /** per mapped field: its index, the longest value accepted, its label */
+  private readonly limits: [index: number, max: number, label: string][];
+  private readonly fieldLabels: string[];
+  private readonly shopMustExist: string | undefined;
+  /** the warehouse columns this file cannot speak for (its header lacks them): kept as stored on updated rows */
+  readonly kept: string[];
+  /** lines that an open quote ran together and that were read again one by one */
+  readonly mergedSpans: { first: number; last: number }[] = [];
 
   constructor(
     private readonly kind: ExportKind,
@@ -100,9 +146,18 @@ export class RowStager {
     private readonly header: string[],
     private readonly shop: string | undefined,
     private readonly today: string,
+    /** codes of the registered shops (null: no check) */
+    private readonly knownShops: ReadonlySet<string> | null = null,
   ) {
     this.names = stageColumns[kind].map(([n]) => n);
     const colIndex = mapHeader(profile, header);
+    this.limits = [...colIndex].map(([c, i]) => [i, FREE_TEXT.has(c) ? MAX_TEXT_CHARS : MAX_CODE_CHARS, `${columnLabel(c)} ("${header[i].trim()}")`]);
+    this.fieldLabels = header.map((h, i) => {
+      const c = [...colIndex].find(([, j]) => j === i)?.[0];
+      return c ? columnLabel(c) : `column ${i + 1}${h.trim() ? ` ("${h.trim()}")` : ""}`;
+    });
+    this.shopMustExist = knownShops ? SHOP_MUST_EXIST[kind] : undefined;
+    this.kept = keptColumns(kind, new Set(colIndex.keys()));
     this.buildRow = rowBuilder(layouts[kind], colIndex);
     this.text = stagedText(this.names);
     this.transform = transforms[kind];
@@ -115,9 +170,38 @@ export class RowStager {
   }
 
   line(rec: CsvRecord): string {
-    if (rec.error) return this.rejected(rec, { code: "unreadable_row", reason: `the row cannot be read as CSV (${rec.error})` });
+    if (rec.merged) {
+      const last = this.mergedSpans[this.mergedSpans.length - 1];
+      if (!last || last.first !== rec.merged.first) this.mergedSpans.push({ first: rec.merged.first, last: rec.merged.last });
+    }
+    if (rec.error) {
+      return this.rejected(
+        rec,
+        rec.merged ? { code: "unbalanced_quote", reason: rec.error } : { code: "unreadable_row", reason: `the row cannot be read as CSV: ${rec.error}` },
+      );
+    }
     if (rec.fields.length !== this.header.length) {
       return this.rejected(rec, { code: "wrong_column_count", reason: `the row has ${rec.fields.length} fields but the header has ${this.header.length}` });
+    }
+    if (rec.suspect) {
+      for (let i = 0; i < rec.fields.length; i++) {
+        const m = SUSPECT_CHARACTER.exec(rec.fields[i]);
+        if (!m) continue;
+        const invalid = m[0] === "\ufffd";
+        return this.rejected(rec, {
+          code: invalid ? "bad_encoding" : "bad_characters",
+          reason: `${this.fieldLabels[i]} holds ${describeCharacter(m[0])}${invalid ? "" : ", which no export value may contain"}`,
+        });
+      }
+    }
+    for (const [i, max, label] of this.limits) {
+      const n = rec.fields[i].length;
+      if (n > max) {
+        return this.rejected(rec, {
+          code: "too_long",
+          reason: `${label} is ${n.toLocaleString("en-US")} characters long; at most ${max.toLocaleString("en-US")} are accepted`,
+        });
+      }
     }
     const row = this.buildRow(rec.fields);
     if (this.shopCol && this.shop && !row[this.shopCol]?.trim()) row[this.shopCol] = this.shop;
@@ -131,6 +215,15 @@ export class RowStager {
     } catch (e) {
       if (!(e instanceof RowRejected)) throw e;
       return this.rejected(rec, { code: e.code, reason: e.reason });
+    }
+    if (this.shopMustExist) {
+      const code = record[this.shopMustExist] as string;
+      if (!this.knownShops!.has(code)) {
+        return this.rejected(rec, {
+          code: "unknown_shop",
+          reason: `shop "${code}" is not in the shop register; register the shop first (an export never adds a shop)`,
+        });
+      }
     }
     if (record.meter_change === true) this.meterChanges = true;
     for (const c of this.dateCols) {
@@ -196,6 +289,6 @@ export class RowStager {
 
   /** The staging line of a rejected row: its raw fields and the reason, nothing else. */
   private rejected(rec: CsvRecord, r: Reject): string {
-    return `${rec.line}\t${copyValue(JSON.stringify(rec.fields))}\t${copyValue(r.code)}\t${copyValue(r.reason)}\t${this.emptyTail}\n`;
+    return `${rec.line}\t${copyValue(JSON.stringify(rawForReject(rec.fields)))}\t${copyValue(r.code)}\t${copyValue(r.reason)}\t${this.emptyTail}\n`;
   }
 }

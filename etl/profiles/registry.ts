@@ -3,6 +3,7 @@ import path from "node:path";
 import { fileURLToPath } from "node:url";
 import { EtlFatalError } from "../errors.js";
 import { requiredColumns } from "../sources/row-schemas.js";
+import { plainText } from "../transform/values.js";
 import { profileSchema, type ExportKind, type Profile } from "./profile-schema.js";
 
 const profileDir = path.dirname(fileURLToPath(import.meta.url));
@@ -29,9 +30,51 @@ export function getProfile(id: string): Profile {
   return p;
 }
 
-/** Header cells compare trimmed and case-insensitive. */
+/** Header cells compare trimmed, case-insensitive and with invisible characters and odd spaces folded. */
 export function headerKey(h: string): string {
-  return h.replace(/^\uFEFF/, "").trim().toLowerCase();
+  return plainText(h).trim().toLowerCase();
+}
+
+/** What a file's header means to a profile, worked out before anything is loaded. */
+export interface HeaderReport {
+  /** header cells no column of the profile reads, with why (their values are not loaded) */
+  ignored: { column: string; position: number; reason: string }[];
+  /** the profile's optional columns the file lacks: values already stored for them are left as they are */
+  absent: string[];
+  /** names that appear more than once (a fatal problem: which copy is meant cannot be known) */
+  duplicates: { column: string; positions: number[] }[];
+}
+
+/** The header checked against a profile: duplicate names, cells it ignores (and why), optional columns it lacks. */
+export function headerReport(profile: Profile, header: string[]): HeaderReport {
+  const positions = new Map<string, number[]>();
+  header.forEach((h, i) => {
+    const k = headerKey(h);
+    if (k === "") return;
+    positions.set(k, [...(positions.get(k) ?? []), i + 1]);
+  });
+  const duplicates = [...positions].filter(([, p]) => p.length > 1).map(([, p]) => ({ column: header[p[0] - 1].trim(), positions: p }));
+  const read = new Set(Object.values(profile.columns).map(headerKey));
+  const ignored: HeaderReport["ignored"] = [];
+  header.forEach((h, i) => {
+    const k = headerKey(h);
+    if (read.has(k)) return;
+    const reason =
+      h.includes("\ufffd")
+        ? "its name has bytes that are not valid in the file's encoding (was the file saved in another encoding?), so it matches no column"
+        : k === ""
+          ? "the column has no name"
+          : /[\u0000-\u001f\u007f]/.test(h)
+            ? "its name holds control characters, so it matches no column"
+            : `profile ${profile.id} has no column of that name`;
+    // a nameless column at the end (a trailing delimiter) is common and carries nothing: not worth a word
+    if (k === "" && header.slice(i).every((x) => headerKey(x) === "")) return;
+    ignored.push({ column: h, position: i + 1, reason });
+  });
+  const mapped = mapHeader(profile, header);
+  const required = new Set(requiredColumns[profile.kind]);
+  const absent = Object.keys(profile.columns).filter((c) => !mapped.has(c) && !required.has(c));
+  return { ignored, absent, duplicates };
 }
 
 /** canonical column → index in the file's header, for the columns the file has. */

@@ -1,6 +1,6 @@
 import type { Profile } from "../profiles/profile-schema.js";
 import { reject } from "./reject.js";
-import { formatNumber, parseDate, parseDecimal, parseFlag, parseHours } from "./values.js";
+import { formatNumber, normaliseCode, parseDate, parseDecimal, parseFlag, parseHours } from "./values.js";
 
 /**
  * Field readers shared by the row transforms: each returns the parsed value (or null when blank) and
@@ -44,10 +44,12 @@ export class FieldReader {
     return n;
   }
 
-  integer(col: string, label: string, min: number): number | null {
+  /** A whole number from `min` to `max` (the column's type and any real value fit inside). */
+  integer(col: string, label: string, min: number, max: number): number | null {
     const n = this.number(col, label);
     if (n === null) return null;
     if (!Number.isInteger(n) || n < min) reject("bad_number", `${label} "${this.text(col)}" is not a whole number of at least ${min}`);
+    if (n > max) reject("absurd_value", `${label} ${formatNumber(n)} is beyond any plausible value (at most ${formatNumber(max)})`);
     return n;
   }
 
@@ -78,9 +80,9 @@ const normalisedTables = new WeakMap<Record<string, string>, Map<string, string>
 export function mapCode(table: Record<string, string>, raw: string): string {
   let m = normalisedTables.get(table);
   if (!m) {
-    m = new Map(Object.entries(table).map(([k, v]) => [k.trim().toUpperCase(), v]));
+    m = new Map(Object.entries(table).map(([k, v]) => [normaliseCode(k), v]));
     normalisedTables.set(table, m);
   }
-  const key = raw.trim().toUpperCase();
+  const key = normaliseCode(raw);
   return m.get(key) ?? key;
 }

@@ -4,6 +4,9 @@ import { reject } from "./reject.js";
 import { fahrenheitToCelsius } from "./units.js";
 import { normaliseCode, normaliseIdentifier } from "./values.js";
 
+/** No repair order has more lines than this (common practice, no source); the column holds far more. */
+export const MAX_LINE_NO = 9_999;
+
 const componentCodes = new Set(components.map((c) => c.code));
 const failureModeByKey = new Map<string, string>(failureModes.flatMap((f) => [[f.code, f.code], [f.name.toUpperCase(), f.code]]));
 const payTypeSet = new Set<string>(payTypes);
@@ -54,7 +57,8 @@ export function parseFaultCodes(text: string): [number, number, number][] | null
     const m = re.exec(rest);
     if (!m || m[0].length === 0) return null;
     const [spn, fmi, count] = [Number(m[1]), Number(m[2]), m[3] ? Number(m[3]) : 1];
-    if (spn > 524287 || fmi > 31) return null;
+    // SAE J1939-73 (from memory): an SPN has 19 bits, an FMI 5, an occurrence count 7 (126 at most; 127 = not available)
+    if (spn > 524287 || fmi > 31 || count > 126) return null;
     out.push([spn, fmi, count]);
     rest = rest.slice(m[0].length).replace(/^[\s;,|]+/, "");
   }
@@ -116,7 +120,7 @@ export function transformJob(f: FieldReader, shop: string | undefined): JobStage
   const stage: JobStage = {
     shop_code: shopCode,
     ro_number: normaliseCode(f.text("ro_number")!),
-    line_no: f.integer("line_no", "line number", 1)!,
+    line_no: f.integer("line_no", "line number", 1, MAX_LINE_NO)!,
     serial: normaliseIdentifier(f.text("serial")!),
     opened_date: opened,
     closed_date: closed,

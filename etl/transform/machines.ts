@@ -43,13 +43,11 @@ export function transformMachine(f: FieldReader, shop: string | undefined): Mach
   const deliveryHours = f.hours("delivery_hours", "delivery hours");
   checkRange(deliveryHours, "delivery hours", "h", 100_000);
   const months = (c: string, label: string) => {
-    const v = f.integer(c, label, 0);
-    checkRange(v, label, "", 240);
+    const v = f.integer(c, label, 0, 240);
     return v;
   };
   const hours = (c: string, label: string) => {
-    const v = f.integer(c, label, 0);
-    checkRange(v, label, "h", 100_000);
+    const v = f.integer(c, label, 0, 100_000);
     return v;
   };
   const engineSerial = f.text("engine_serial");

@@ -1,5 +1,6 @@
 import { measurementKinds } from "../../shared/catalog.js";
 import { checkRange, FieldReader, mapCode } from "./fields.js";
+import { MAX_LINE_NO } from "./jobs.js";
 import { reject } from "./reject.js";
 import { parseResistance, pressureToPsi, sniffCompressionUnit, type PressureUnit } from "./units.js";
 import { formatNumber, normaliseCode, parseDecimal } from "./values.js";
@@ -35,7 +36,7 @@ export function convertReading(
     const text = rawUnit ? `${rawValue} ${rawUnit}` : rawValue;
     const r = parseResistance(text, profile.units.resistance === "kohm" ? "kohm" : "ohm", profile.decimalComma);
     if (r === null) reject("bad_number", `resistance "${text}" is not a reading (a number in Ω or kΩ, "42k" or "OL")`);
-    if (r.ohms !== null) checkRange(r.ohms, "resistance", "Ω", 100_000_000);
+    if (r.ohms !== null) checkRange(r.ohms, "resistance", "Ω", 10_000_000);
     return { value: r.ohms, unit: "ohm", overRange: r.overRange, rule: r.rule };
   }
   const n = parseDecimal(rawValue, profile.decimalComma);
@@ -78,10 +79,11 @@ export function transformMeasurement(f: FieldReader, shop: string | undefined): 
   const stage: MeasurementStage = {
     shop_code: normaliseCode(f.text("shop_code") ?? shop ?? ""),
     ro_number: normaliseCode(f.text("ro_number")!),
-    line_no: f.integer("line_no", "line number", 1)!,
+    line_no: f.integer("line_no", "line number", 1, MAX_LINE_NO)!,
     kind,
-    position: f.integer("position", "position", 0) ?? 0,
-    attempt: f.integer("attempt", "attempt", 1) ?? 1,
+    // a cylinder or plug number, an attempt number: a compact engine has a handful (common practice, no source)
+    position: f.integer("position", "position", 0, 99) ?? 0,
+    attempt: f.integer("attempt", "attempt", 1, 99) ?? 1,
     value: c.value,
     unit: c.unit,
     over_range: c.overRange,

@@ -17,7 +17,12 @@ export type RejectCode =
   | "hour_meter_backwards"
   | "duplicate_in_file"
   | "conflicting_duplicate"
-  | "tmin_above_tmax";
+  | "tmin_above_tmax"
+  | "unknown_shop"
+  | "bad_characters"
+  | "bad_encoding"
+  | "too_long"
+  | "unbalanced_quote";
 
 export class RowRejected extends Error {
   constructor(

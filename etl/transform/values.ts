@@ -62,14 +62,30 @@ export function parseFlag(text: string): boolean | null {
   return null;
 }
 
-/** Serials and part numbers: trimmed, upper-case, without '-' and spaces ("kt-35 0012" → "KT350012"). */
-export function normaliseIdentifier(text: string): string {
-  return text.trim().toUpperCase().replace(/[-\s]+/g, "");
+const NOT_PLAIN = /[^\x20-\x7e]/;
+/** characters that show as nothing: soft hyphen, zero-width space/joiners, word joiner, byte-order mark */
+const INVISIBLE = /[\u00ad\u200b-\u200d\u2060\ufeff]/g;
+/** spaces other than the plain one (no-break, thin, ideographic …) and tabs */
+const ODD_SPACE = /[\t\u00a0\u1680\u2000-\u200a\u202f\u205f\u3000]/g;
+
+/**
+ * Text as a person reads it: Unicode compatibility forms folded (NFKC: full-width letters, ligatures),
+ * invisible characters removed, every kind of space made a plain one. Plain ASCII passes untouched.
+ */
+export function plainText(text: string): string {
+  if (!NOT_PLAIN.test(text)) return text;
+  return text.normalize("NFKC").replace(INVISIBLE, "").replace(ODD_SPACE, " ");
 }
 
-/** Codes (model, component, shop, technician): trimmed and upper-case, inner spaces kept. */
+/** Serials and part numbers: trimmed, upper-case, without '-' and spaces ("kt-35 0012" → "KT350012"). */
+export function normaliseIdentifier(text: string): string {
+  return plainText(text).trim().toUpperCase().replace(/[-\s]+/g, "");
+}
+
+/** Codes (model, component, shop, technician): trimmed and upper-case, inner spaces kept (one plain space each). */
 export function normaliseCode(text: string): string {
-  return text.trim().toUpperCase();
+  const t = plainText(text).trim().toUpperCase();
+  return t.includes("  ") ? t.replace(/ {2,}/g, " ") : t;
 }
 
 /** Numbers in reasons use thousands separators, as a shop manager would write them: 3,812. */

@@ -34,6 +34,8 @@ export interface EtlBatchTable {
   rows_rejected: Generated<number>;
   status: Generated<BatchStatus>;
   error_message: string | null;
+  /** header cells ignored, optional columns absent, merged lines (etl/load/load-file.ts BatchSummary) */
+  notes: unknown;
 }
 
 export interface EtlRejectTable {
