@@ -41,7 +41,9 @@ function jobsUpdate(kept: readonly string[]): { set: string; changed: string } {
     special.supplier_lot = `CASE WHEN ${same} THEN f.supplier_lot ELSE excluded.supplier_lot END`;
     special.part_key = `CASE WHEN ${same} THEN f.part_key ELSE excluded.part_key END`;
   }
-  return updateClause("f", UPDATABLE, kept, special);
+  // a kept close date that the file's open date now comes after cannot stand (a line closes after it opens)
+  if (kept.includes("closed_date")) special.closed_date = "CASE WHEN f.closed_date >= excluded.opened_date THEN f.closed_date END";
+  return updateClause("f", UPDATABLE, kept.filter((c) => c !== "closed_date"), special);
 }
 
 /** Fault-code rows ("spn:fmi:count;…") of the lines in `source` (an SQL relation with repair_line_key and fault_codes). */

@@ -96,7 +96,11 @@ export async function mergeMeasurements(client: pg.PoolClient, batchId: number, 
 /** Daily minimum and maximum per shop, in °C. */
 export async function mergeWeather(client: pg.PoolClient, batchId: number, _blocks: unknown, file: { kept: string[] }): Promise<MergeCounts> {
   await rejectDuplicates(client, ["shop_code", "date"], "shop %s weather for %s");
-  const { set, changed } = updateClause("w", ["tmin_c", "tmax_c", "source_unit", "row_hash", "batch_id"], file.kept);
+  // a kept maximum below the file's new minimum cannot stand
+  const { set, changed } = updateClause(
+    "w", ["tmin_c", "tmax_c", "source_unit", "row_hash", "batch_id"], file.kept.filter((c) => c !== "tmax_c"),
+    file.kept.includes("tmax_c") ? { tmax_c: "CASE WHEN w.tmax_c >= excluded.tmin_c THEN w.tmax_c END" } : {},
+  );
   const accepted = await acceptedCount(client);
   await client.query(`CREATE TEMP TABLE changed (shop_key bigint, date date, inserted boolean NOT NULL, PRIMARY KEY (shop_key, date)) ON COMMIT DROP`);
   await client.query(

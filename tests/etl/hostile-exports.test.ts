@@ -143,6 +143,9 @@ describe(`a corpus of ${manifest.length} hostile exports`, () => {
       `SELECT count(*)::int AS n FROM fact_repair_line_history h JOIN fact_repair_line f USING (repair_line_key) WHERE f.ro_number = 'R-100'`,
     );
     expect(h.rows[0].n).toBe(2);
+    // R-102 was opened a day later by a file without close dates: a close date before the opening cannot stand
+    const r102 = await t.pool.query(`SELECT opened_date::text AS opened, closed_date FROM fact_repair_line WHERE ro_number = 'R-102'`);
+    expect(r102.rows).toEqual([{ opened: "2024-01-08", closed_date: null }]);
   });
 
   it("stores text that means something to SQL, a spreadsheet or the COPY format exactly as it came", async () => {
