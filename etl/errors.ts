@@ -5,7 +5,7 @@
  */
 export class EtlFatalError extends Error {
   constructor(
-    readonly code: "FILE_UNREADABLE" | "UNKNOWN_PROFILE" | "WRONG_KIND" | "HEADER_NOT_RECOGNISED" | "AMBIGUOUS_PROFILE" | "UNKNOWN_SHOP" | "DUPLICATE_COLUMN" | "UNBALANCED_QUOTE",
+    readonly code: "FILE_UNREADABLE" | "UNKNOWN_PROFILE" | "WRONG_KIND" | "HEADER_NOT_RECOGNISED" | "AMBIGUOUS_PROFILE" | "UNKNOWN_SHOP" | "DUPLICATE_COLUMN" | "UNBALANCED_QUOTE" | "CANCELLED",
     message: string,
   ) {
     super(message);

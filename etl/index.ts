@@ -3,7 +3,7 @@
  * the shop register, the derived tables a load leaves stale (kept up to date incrementally), and the invented demo world.
  * The ETL imports nothing of the server (.dependency-cruiser.cjs keeps both directions).
  */
-export { loadFile, type BatchSummary, type LoadFileOptions, type LoadProgress } from "./load/load-file.js";
+export { loadFile, type BatchSummary, type HeaderNotes, type LoadFileOptions, type LoadPreview, type LoadProgress } from "./load/load-file.js";
 export { EtlFatalError } from "./errors.js";
 export { layouts } from "./layouts.js";
 export { upsertShops, type ShopInput } from "./shops/upsert-shops.js";

@@ -39,7 +39,7 @@ import { finishJobs, jobsBlock, prepareJobs, type BlockTally, type FileFacts } f
 import { mergeHours, mergeMachines, mergeMeasurements, mergeWeather } from "./merge-others.js";
 import { freeTextColumns, RowStager, visibleText } from "./stage-row.js";
 import { normaliseCode } from "../transform/values.js";
-import { StagePipeline, StageTable } from "./staging.js";
+import { StagePipeline, StageTable, stageColumns } from "./staging.js";
 import { etlPoolConfig } from "./timed-client.js";
 
 export interface LoadProgress {
@@ -63,6 +63,16 @@ export interface LoadFileOptions {
   onHeader?: (report: HeaderNotes, profile: Profile) => void;
   /** 'YYYY-MM-DD'; dates after it are rejected as future. Defaults to the current UTC date. */
   today?: string;
+  /**
+   * Check the whole file exactly as a load would (every row check, the whole-file checks against the
+   * warehouse, the merges) and then roll everything back: the summary counts what a load would do, with a
+   * preview of `previewRows` rows and rejects. Nothing is stored, not even a batch row.
+   */
+  dryRun?: boolean;
+  /** rows and rejects a dry run shows (default 20) */
+  previewRows?: number;
+  /** aborting it stops the load between blocks; nothing of the file stays (EtlFatalError "CANCELLED") */
+  signal?: AbortSignal;
   /** rows per staging block (default 25,000); a test seam, so small files can be merged in several blocks */
   blockRows?: number;
   /** test seams */
@@ -77,6 +87,12 @@ export interface LoadFileOptions {
 /** What the header and the first bytes meant, said before the load: columns ignored and why, optional columns absent, the encoding read in when not the profile's. */
 export type HeaderNotes = Pick<HeaderReport, "ignored" | "absent"> & { encoding: string | null };
 
+/** What a dry run shows: rows in the warehouse's units and codes, and rejects with their raw fields. */
+export interface LoadPreview {
+  rows: ({ line: number } & Record<string, unknown>)[];
+  rejects: { line: number; code: string; reason: string; raw: string[] }[];
+}
+
 export interface BatchSummary {
   batchId: number;
   file: string;
@@ -84,7 +100,10 @@ export interface BatchSummary {
   kind: ExportKind;
   profile: string;
   shop: string | null;
-  status: "loaded" | "already_loaded";
+  /** dry_run: everything was checked and merged as for a load, then rolled back (see LoadFileOptions.dryRun) */
+  status: "loaded" | "already_loaded" | "dry_run";
+  /** with dryRun: the first rows as they would land and the first rejects with their reasons */
+  preview?: LoadPreview;
   /** header cells the profile does not read (and why), and its optional columns the file lacks */
   header: HeaderNotes;
   /** lines that a quote left open ran together, each then read on its own (see etl/sources/read-csv.ts) */
@@ -238,6 +257,20 @@ async function recoverRawRows(client: pg.PoolClient, filePath: string, profile: 
   if (hash.digest("hex") !== sha) throw new Error(`${path.basename(filePath)} changed while it was being loaded; load it again`);
 }
 
+/** The first accepted rows (the kind's staged columns, in the warehouse's units and codes) and the first rejects. */
+async function previewOf(client: pg.PoolClient, kind: ExportKind, n: number): Promise<LoadPreview> {
+  const cols = stageColumns[kind].map(([c]) => c);
+  const rows = await client.query<{ line: number } & Record<string, unknown>>(
+    `SELECT row_no AS line, ${cols.join(", ")} FROM stg WHERE reject_code IS NULL ORDER BY row_no LIMIT $1`,
+    [n],
+  );
+  const rejects = await client.query<{ line: number; code: string; reason: string; raw: string | null }>(
+    `SELECT row_no AS line, reject_code AS code, reject_reason AS reason, raw FROM stg WHERE reject_code IS NOT NULL ORDER BY row_no LIMIT $1`,
+    [n],
+  );
+  return { rows: rows.rows, rejects: rejects.rows.map((r) => ({ ...r, raw: r.raw ? (JSON.parse(r.raw) as string[]) : [] })) };
+}
+
 /** Loads one file; see the top of this module for the contract. */
 export async function loadFile(target: pg.Pool | string, opts: LoadFileOptions): Promise<BatchSummary> {
   const started = Date.now();
@@ -285,6 +318,14 @@ export async function loadFile(target: pg.Pool | string, opts: LoadFileOptions):
     if (before.rows.length > 0) {
       // the same bytes were loaded before: nothing can change, every row is unchanged
       const read = Number(before.rows[0].rows_read);
+      if (opts.dryRun) {
+        await client.query("ROLLBACK");
+        return {
+          batchId: 0, file: fileName, sha256: sha, kind, profile: profile.id, shop: shop ?? null, status: "already_loaded", read,
+          inserted: 0, updated: 0, unchanged: read, rejected: 0, durationMs: Date.now() - started, header: headerNotes, mergedLines: [],
+          preview: { rows: [], rejects: [] },
+        };
+      }
       const ins = await client.query<{ batch_id: number }>(
         `INSERT INTO etl_batch (file_name, sha256, profile, kind, shop_code, loaded_by, started_at, finished_at, status,
            rows_read, rows_inserted, rows_updated, rows_unchanged, rows_rejected)
@@ -340,6 +381,7 @@ export async function loadFile(target: pg.Pool | string, opts: LoadFileOptions):
           rowsRead++;
           const wait = pipe.write(rec.line, stager.line(rec));
           if (wait) await wait;
+          if (opts.signal?.aborted) throw new EtlFatalError("CANCELLED", `the load of ${fileName} was cancelled; nothing of it was kept`);
           if (rowsRead % 5000 === 0) opts.onProgress?.({ phase: "reading", rowsRead, bytesRead, totalBytes });
         }
       }
@@ -375,6 +417,15 @@ export async function loadFile(target: pg.Pool | string, opts: LoadFileOptions):
        WHERE batch_id = $1`,
       [batchId, rowsRead, counts.inserted, counts.updated, counts.unchanged, counts.rejected, JSON.stringify({ ...headerNotes, mergedLines: stager!.mergedSpans })],
     );
+    if (opts.signal?.aborted) throw new EtlFatalError("CANCELLED", `the load of ${fileName} was cancelled; nothing of it was kept`);
+    if (opts.dryRun) {
+      const preview = await previewOf(client, kind, opts.previewRows ?? 20);
+      await client.query("ROLLBACK");
+      return {
+        batchId: 0, file: fileName, sha256: sha, kind, profile: profile.id, shop: shop ?? null, status: "dry_run", read: rowsRead, ...counts,
+        durationMs: Date.now() - started, header: headerNotes, mergedLines: stager!.mergedSpans, preview,
+      };
+    }
     await opts.hooks?.beforeCommit?.(client);
     await client.query("COMMIT");
     opts.onProgress?.({ phase: "done", rowsRead, bytesRead, totalBytes });
