@@ -10,7 +10,7 @@ import type { Db } from "../database.js";
 import type { ShopScope } from "../../../shared/schemas/me.js";
 import type { AnalyticsFilters } from "../../../shared/schemas/analytics-filters.js";
 import { repairCsvColumns, type RepairDetail, type RepairListQuery, type RepairRow, type RepairSortKey } from "../../../shared/schemas/repairs.js";
-import { scopedShopCodes } from "./scope.js";
+import { scopedShopCodes, scopeIncludes } from "./scope.js";
 import { hourBandSql, temperatureBandSql } from "../../../shared/band-sql.js";
 
 /** What a repair-line listing is filtered by: the shared analytics filters, the list's own parameters, optional ids. */
@@ -516,7 +516,8 @@ export async function getRepair(db: Db, scope: ShopScope, id: string): Promise<R
       buildDate: h.build_date,
       deliveryDate: h.delivery_date,
       deliveryHours: num(h.delivery_hours),
-      homeShop: h.home_shop,
+      // a machine serviced here but at home in a shop outside the caller's scope: that shop is not named
+      homeShop: h.home_shop !== null && scopeIncludes(scope, h.home_shop) ? h.home_shop : null,
       heaterPlugLot: h.heater_plug_lot,
       blockHeaterFitted: h.block_heater_fitted,
       hoursTrail: hours.rows.map((x) => ({
