@@ -6,6 +6,35 @@ export const projectRoot = path.resolve(path.dirname(fileURLToPath(import.meta.u
 
 const port = z.coerce.number().int().min(1).max(65535);
 const bool = z.enum(["0", "1", "true", "false"]).transform((v) => v === "1" || v === "true");
+const limit = z.coerce.number().int().min(1).max(1_000_000);
+
+/** Request limits (server/http/rate-limits.ts); each can be set from the environment (README.md). */
+export interface RateLimits {
+  /** minutes over which failed sign-ins and sign-in starts are counted */
+  signInWindowMinutes: number;
+  /** failed sign-ins for one account name from one address */
+  signInFailuresPerAccountAndAddress: number;
+  /** failed sign-ins for one account name from every address together */
+  signInFailuresPerAccount: number;
+  /** failed sign-ins from one address, whatever the account name */
+  signInFailuresPerAddress: number;
+  /** sign-ins started (GET /auth/login, each a stored session) from one address */
+  signInStartsPerAddress: number;
+  /** minutes over which claim attachment uploads are counted */
+  uploadWindowMinutes: number;
+  /** claim attachment uploads by one signed-in user */
+  uploadsPerUser: number;
+}
+
+export const defaultRateLimits: RateLimits = {
+  signInWindowMinutes: 15,
+  signInFailuresPerAccountAndAddress: 10,
+  signInFailuresPerAccount: 100,
+  signInFailuresPerAddress: 50,
+  signInStartsPerAddress: 300,
+  uploadWindowMinutes: 10,
+  uploadsPerUser: 30,
+};
 
 const envSchema = z.object({
   PORT: port.default(8080),
@@ -33,7 +62,15 @@ const envSchema = z.object({
   LOCAL_S3_PORT: port.default(4569),
   LOAD_DEMO: bool.default(true),
   WARM_ANSWERS: bool.default(true),
+  MAX_UPLOAD_MB: z.coerce.number().int().min(1).max(10_000).default(200),
   BENCHMARK_PEER_SECRET: z.string().optional(),
+  SIGN_IN_LIMIT_WINDOW_MINUTES: limit.default(defaultRateLimits.signInWindowMinutes),
+  SIGN_IN_FAILURES_PER_ACCOUNT_AND_ADDRESS: limit.default(defaultRateLimits.signInFailuresPerAccountAndAddress),
+  SIGN_IN_FAILURES_PER_ACCOUNT: limit.default(defaultRateLimits.signInFailuresPerAccount),
+  SIGN_IN_FAILURES_PER_ADDRESS: limit.default(defaultRateLimits.signInFailuresPerAddress),
+  SIGN_IN_STARTS_PER_ADDRESS: limit.default(defaultRateLimits.signInStartsPerAddress),
+  UPLOAD_LIMIT_WINDOW_MINUTES: limit.default(defaultRateLimits.uploadWindowMinutes),
+  UPLOADS_PER_USER: limit.default(defaultRateLimits.uploadsPerUser),
 });
 
 export interface Config {
@@ -64,8 +101,11 @@ export interface Config {
   loadDemo: boolean;
   /** precompute the group-wide pages' answers after every load (server/services/answer-warmer.ts) */
   warmAnswers: boolean;
+  /** the largest export file an upload accepts, in bytes */
+  maxUploadBytes: number;
   /** keys the benchmarks' peer letters; null (unset or empty) → derived from the session secret */
   benchmarkPeerSecret: string | null;
+  rateLimits: RateLimits;
 }
 
 /** Parses the environment once; every variable is documented in README.md. */
@@ -102,7 +142,17 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     },
     loadDemo: e.LOAD_DEMO,
     warmAnswers: e.WARM_ANSWERS,
+    maxUploadBytes: e.MAX_UPLOAD_MB * 1024 * 1024,
     benchmarkPeerSecret: e.BENCHMARK_PEER_SECRET || null,
+    rateLimits: {
+      signInWindowMinutes: e.SIGN_IN_LIMIT_WINDOW_MINUTES,
+      signInFailuresPerAccountAndAddress: e.SIGN_IN_FAILURES_PER_ACCOUNT_AND_ADDRESS,
+      signInFailuresPerAccount: e.SIGN_IN_FAILURES_PER_ACCOUNT,
+      signInFailuresPerAddress: e.SIGN_IN_FAILURES_PER_ADDRESS,
+      signInStartsPerAddress: e.SIGN_IN_STARTS_PER_ADDRESS,
+      uploadWindowMinutes: e.UPLOAD_LIMIT_WINDOW_MINUTES,
+      uploadsPerUser: e.UPLOADS_PER_USER,
+    },
   };
 }
 

@@ -3,7 +3,11 @@ import type { Server } from "node:http";
 import Provider, { type Configuration } from "oidc-provider";
 import type { JsonWebKey } from "node:crypto";
 import { findDemoAccount } from "./demo-accounts.js";
-import { loginPage, logoutPage, signedOutPage } from "./provider-pages.js";
+import { errorPage, loginPage, logoutPage, signedOutPage } from "./provider-pages.js";
+import { defaultRateLimits, type RateLimits } from "../config.js";
+import { signInFormLimits } from "../http/rate-limits.js";
+import { bodyErrorInWords } from "../middleware/error-handler.js";
+import { logger } from "../logger.js";
 
 export interface DevProviderOptions {
   issuer: string; // e.g. http://127.0.0.1:8081
@@ -13,6 +17,8 @@ export interface DevProviderOptions {
   postLogoutRedirectUris: string[];
   signingKey: JsonWebKey;
   cookieKeys: string[];
+  /** failed sign-ins allowed before the form answers 429 (defaults: config.ts) */
+  rateLimits?: RateLimits;
 }
 
 /**
@@ -79,7 +85,11 @@ export function createDevProvider(o: DevProviderOptions): express.Express {
 
   const app = express();
   app.disable("x-powered-by");
-  const form = express.urlencoded({ extended: false });
+  const form = express.urlencoded({ extended: false, limit: "16kb", parameterLimit: 20 });
+  // failed attempts only (a 401 from the handler below); a refused one gets the form again with a 429
+  const attemptLimits = signInFormLimits(o.rateLimits ?? defaultRateLimits, (req, res, _next, message) => {
+    res.status(429).type("html").send(loginPage(String(req.params.uid), message, String(req.body?.username ?? "")));
+  });
 
   app.get("/interaction/:uid", async (req, res, next) => {
     try {
@@ -105,7 +115,7 @@ export function createDevProvider(o: DevProviderOptions): express.Express {
     }
   });
 
-  app.post("/interaction/:uid/login", form, async (req, res, next) => {
+  app.post("/interaction/:uid/login", form, ...attemptLimits, async (req, res, next) => {
     try {
       const details = await provider.interactionDetails(req, res);
       const username = String(req.body?.username ?? "");
@@ -123,6 +133,19 @@ export function createDevProvider(o: DevProviderOptions): express.Express {
       );
     } catch (err) {
       next(err);
+    }
+  });
+
+  // the form's own errors as a page in words (express's default page would show a stack trace in development)
+  app.use((err: unknown, _req: express.Request, res: express.Response, _next: express.NextFunction) => {
+    const body = bodyErrorInWords(err);
+    const status = (err as { status?: number }).status;
+    if (body) res.status(body.status).type("html").send(errorPage(`${body.message} Start again from Ironledger's sign-in page.`));
+    else if (typeof status === "number" && status >= 400 && status < 500)
+      res.status(status).type("html").send(errorPage("This sign-in page has expired or was already used. Start again from Ironledger's sign-in page."));
+    else {
+      logger.error({ err }, "local sign-in form failed");
+      res.status(500).type("html").send(errorPage("The sign-in service failed. Try again in a moment."));
     }
   });
 

@@ -69,6 +69,11 @@ export function logoutPage(form: string): string {
   );
 }
 
+/** A request the form could not act on (an expired interaction, a body it will not read), in words. */
+export function errorPage(message: string): string {
+  return shell("Sign-in problem", `<section style="grid-column:1/-1"><p class="err" role="alert">${esc(message)}</p></section>`);
+}
+
 export function signedOutPage(): string {
   return shell("Signed out", `<section style="grid-column:1/-1"><p>You are signed out.</p></section>`);
 }

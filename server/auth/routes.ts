@@ -6,6 +6,8 @@ import type { OidcClient } from "./oidc-client.js";
 import { userFromClaims } from "./claims.js";
 import type { SessionUser } from "./session.js";
 import { scopeFor } from "./require-user.js";
+import { defaultRateLimits, type RateLimits } from "../config.js";
+import { authRouteLimits } from "../http/rate-limits.js";
 
 export interface AuthRouteOptions {
   oidc: OidcClient;
@@ -14,6 +16,8 @@ export interface AuthRouteOptions {
   rolesClaim: string;
   shopsClaim: string;
   onSignIn?: (user: SessionUser) => Promise<void>;
+  /** sign-ins started and failed callbacks allowed per address (defaults: config.ts) */
+  rateLimits?: RateLimits;
 }
 
 /** Only same-origin relative paths may be a sign-in destination. */
@@ -29,8 +33,9 @@ const destroy = (req: Request) => new Promise<void>((ok, fail) => req.session.de
 export function authRoutes(o: AuthRouteOptions): Router {
   const router = Router();
   const redirectUri = `${o.publicUrl}/auth/callback`;
+  const limits = authRouteLimits(o.rateLimits ?? defaultRateLimits);
 
-  router.get("/login", async (req, res) => {
+  router.get("/login", limits.start, async (req, res) => {
     const config = await o.oidc.config().catch((err: Error) => {
       logger.error({ err }, "identity provider discovery failed");
       throw new HttpError(503, "identity_provider_unavailable", "The sign-in service is not answering. Try again in a moment.");
@@ -52,7 +57,7 @@ export function authRoutes(o: AuthRouteOptions): Router {
     res.redirect(303, url.href);
   });
 
-  router.get("/callback", async (req, res) => {
+  router.get("/callback", limits.callback, async (req, res) => {
     const pending = req.session.login;
     if (!pending) throw new HttpError(400, "sign_in_expired", "This sign-in link has expired. Start again from the sign-in page.");
     const config = await o.oidc.config();

@@ -14,6 +14,10 @@ export function createPool(connectionString: string, max = 10): pg.Pool {
   // An idle client whose server connection ends (restart, database dropped) must not crash the process;
   // the pool discards it and the next query opens a new connection.
   pool.on("error", (err) => logger.warn({ err: err.message }, "idle database connection closed"));
+  // A connection the server ends (stop, restart) between two queries of a checked-out client emits 'error'
+  // with nobody listening (the pool listens only to idle ones), which would end the process: log it instead;
+  // the pool discards the client and the next query connects anew.
+  pool.on("connect", (client) => client.on("error", (err) => logger.warn({ err: err.message }, "database connection closed")));
   return pool;
 }
 

@@ -23,7 +23,7 @@ export interface ClaimRouteDeps {
 }
 
 
-const upload = multer({ storage: multer.memoryStorage(), limits: { fileSize: MAX_ATTACHMENT_BYTES, files: 1, fields: 5 } }).single("file");
+const upload = multer({ storage: multer.memoryStorage(), limits: { fileSize: MAX_ATTACHMENT_BYTES, files: 1, fields: 5, fieldSize: 4096, fieldNameSize: 100, headerPairs: 20 } }).single("file");
 
 /** multer's size error in words, with the limit. */
 function receiveFile(req: Request, res: Response, next: NextFunction) {

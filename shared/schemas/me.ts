@@ -16,7 +16,9 @@ export const meSchema = z.object({
 });
 export type Me = z.infer<typeof meSchema>;
 
-export const healthSchema = z.object({ status: z.enum(["ok", "unavailable"]) });
+const dependencyState = z.enum(["ok", "unavailable", "not_configured"]);
+/** GET /api/health: the server and each dependency it uses */
+export const healthSchema = z.object({ status: z.enum(["ok", "unavailable"]), database: dependencyState, storage: dependencyState, mail: dependencyState });
 
 /** GET /auth/session */
 export const sessionStateSchema = z.object({ user: meSchema.nullable() });

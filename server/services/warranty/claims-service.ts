@@ -2,7 +2,6 @@
  * Warranty claims: previews and drafts from a repair line or a cluster, the claim queue, and a claim with its
  * evidence, audit trail, attachments and sends.
  */
-import { buffer } from "node:stream/consumers";
 import type { Db } from "../../db/database.js";
 import type { ShopScope } from "../../../shared/schemas/me.js";
 import type { ClaimCandidate, ClaimDetail, ClaimPreview, ClaimSend, ClaimStatus, ClaimSummary, ClusterSnapshot, CreateClaim, RepairLineEvidence } from "../../../shared/schemas/claims.js";
@@ -271,7 +270,8 @@ export async function claimDetail(deps: DetailDeps, scope: ShopScope, id: string
     })),
     sends,
     cautions: [...safetyCautions],
-    storageAvailable: Boolean(deps.storage),
+    // what the attachments panel offers follows the store as it answers now, not only whether one is configured
+    storageAvailable: deps.storage ? await deps.storage.available() : false,
     sendAvailable: deps.canSend,
   };
 }
@@ -282,7 +282,7 @@ async function packetSnapshot(deps: { db: Db; storage?: Storage }, detail: Claim
   const attachments: PacketAttachment[] = [];
   for (const a of rows) {
     let data: Buffer | null = null;
-    if (deps.storage && (a.content_type === "image/png" || a.content_type === "image/jpeg")) data = await buffer((await deps.storage.getObject(a.s3_key)).body);
+    if (deps.storage && (a.content_type === "image/png" || a.content_type === "image/jpeg")) data = await deps.storage.readObject(a.s3_key, ", so the claim packet cannot be put together with its photos");
     attachments.push({ originalName: a.original_name, contentType: a.content_type, sizeBytes: a.size_bytes, uploadedAt: iso(a.uploaded_at)!, uploadedBy: a.uploaded_by, data });
   }
   return {

@@ -9,7 +9,7 @@ import type { Storage } from "../storage.js";
 import { logger } from "../../logger.js";
 import { getSend, insertSend, recordSendAttempt, type Actor } from "../../db/queries/claims.js";
 import type { ClaimDetail } from "../../../shared/schemas/claims.js";
-import { HttpError } from "../../errors.js";
+import { HttpError, isDatabaseUnreachable, mailUnavailable } from "../../errors.js";
 import { claimDetail, packetPdf } from "./claims-service.js";
 import { claimLinesCsv } from "./lines-csv.js";
 
@@ -26,14 +26,68 @@ export interface SendDeps {
 /** Retry plan for a send the mail server did not take: every few seconds at first, then backing off. */
 export const RETRY = { retryLimit: 12, retryDelay: 3, retryBackoff: true } as const;
 
-/** A mail failure in words, without the stack. */
+/** The mail server's own failure, kept apart from failures to put the packet together (database, storage). */
+export class MailServerError extends Error {
+  constructor(readonly mailError: unknown) {
+    super("the mail server did not take the message");
+    this.name = "MailServerError";
+  }
+}
+
+/** A mail server failure in words: what happened, never where (no host or port), without the stack. */
 export function describeMailError(err: unknown): string {
-  const e = err as { code?: string; message?: string; responseCode?: number; address?: string; port?: number };
-  if (e?.code === "ECONNREFUSED" || e?.code === "ESOCKET" || e?.code === "ECONNECTION")
-    return `The mail server did not accept a connection (${e.code}${e.address ? ` at ${e.address}:${e.port}` : ""}).`;
+  const e = err as { code?: string; message?: string; responseCode?: number };
+  if (e?.code === "ECONNREFUSED" || e?.code === "ESOCKET" || e?.code === "ECONNECTION" || e?.code === "EDNS")
+    return `The mail server did not accept a connection (${e.code}).`;
   if (e?.code === "ETIMEDOUT") return "The mail server did not answer in time (ETIMEDOUT).";
+  // the server's own reply (e.g. a refused recipient) helps the clerk; it names no host of ours
   if (e?.responseCode) return `The mail server refused the message (${e.responseCode}): ${e.message ?? ""}`.trim();
-  return `Sending failed: ${e?.message ?? String(err)}`;
+  return `The mail server did not take the message${e?.code ? ` (${e.code})` : ""}.`;
+}
+
+/**
+ * Why a send did not go, naming the dependency that failed: the mail server, or object storage or the
+ * database while the packet was being put together (the mail server is then not tried at all).
+ */
+export function describeSendError(err: unknown): string {
+  if (err instanceof MailServerError) return describeMailError(err.mailError);
+  if (err instanceof HttpError && err.code === "storage_unavailable")
+    return "Object storage is not answering, so the packet and its photos could not be put together; the mail server was not tried.";
+  if ((err instanceof HttpError && err.code === "database_unavailable") || isDatabaseUnreachable(err))
+    return "The warehouse database is not answering, so the packet could not be put together; the mail server was not tried.";
+  return "The packet could not be put together on the server (not a mail server problem); the server log has the details.";
+}
+
+/** The packet mail for a claim: PDF and lines CSV rendered afresh (reads the database and object storage). */
+async function packetMail(deps: Pick<SendDeps, "db" | "storage">, detail: ClaimDetail, from: string, to: string, requestedBy: string) {
+  const pdf = await packetPdf(deps, detail);
+  const csv = claimLinesCsv(detail.claimNumber, detail.lines);
+  return {
+    from,
+    to,
+    subject: `Warranty claim ${detail.claimNumber}: ${detail.title}`,
+    text: [
+      `Warranty claim ${detail.claimNumber} (${detail.kind === "campaign" ? "campaign case" : "repair claim"}), ${detail.lineCount} repair line${detail.lineCount === 1 ? "" : "s"}.`,
+      `Engine family ${detail.engineFamily}${detail.shopCode ? `, shop ${detail.shopCode}` : ""}.`,
+      `Filing: ${detail.deadline.text}`,
+      "",
+      "The claim packet (PDF) and the claim lines (CSV) are attached.",
+      `Sent by Ironledger on behalf of ${requestedBy}.`,
+    ].join("\n"),
+    attachments: [
+      { filename: `${detail.claimNumber}.pdf`, content: pdf, contentType: "application/pdf" },
+      { filename: `${detail.claimNumber}-lines.csv`, content: csv, contentType: "text/csv; charset=utf-8" },
+    ],
+  };
+}
+
+/** Hands a message to the mail server; its refusal becomes a MailServerError. Returns the message id. */
+async function handOver(mailer: Mailer, message: Awaited<ReturnType<typeof packetMail>>): Promise<string> {
+  try {
+    return (await mailer.transport.sendMail(message)).messageId;
+  } catch (err) {
+    throw new MailServerError(err);
+  }
 }
 
 /** Renders the packet afresh and hands it to the mail server; returns the message id. */
@@ -42,45 +96,32 @@ export async function deliver(deps: SendDeps, sendId: string): Promise<string> {
   if (!s) throw new Error(`send ${sendId} does not exist`);
   // the send was authorised when it was requested; the worker reads the claim group-wide
   const detail = await claimDetail({ db: deps.db, storage: deps.storage, canSend: true }, { kind: "all" }, String(s.claim_id));
-  const pdf = await packetPdf(deps, detail);
-  const csv = claimLinesCsv(detail.claimNumber, detail.lines);
-  const info = await deps.mailer.transport.sendMail({
-    from: deps.mailer.from,
-    to: s.to_address,
-    subject: `Warranty claim ${detail.claimNumber}: ${detail.title}`,
-    text: [
-      `Warranty claim ${detail.claimNumber} (${detail.kind === "campaign" ? "campaign case" : "repair claim"}), ${detail.lineCount} repair line${detail.lineCount === 1 ? "" : "s"}.`,
-      `Engine family ${detail.engineFamily}${detail.shopCode ? `, shop ${detail.shopCode}` : ""}.`,
-      `Filing: ${detail.deadline.text}`,
-      "",
-      "The claim packet (PDF) and the claim lines (CSV) are attached.",
-      `Sent by Ironledger on behalf of ${s.requested_by}.`,
-    ].join("\n"),
-    attachments: [
-      { filename: `${detail.claimNumber}.pdf`, content: pdf, contentType: "application/pdf" },
-      { filename: `${detail.claimNumber}-lines.csv`, content: csv, contentType: "text/csv; charset=utf-8" },
-    ],
-  });
-  return info.messageId;
+  return await handOver(deps.mailer, await packetMail(deps, detail, deps.mailer.from, s.to_address, s.requested_by));
 }
 
 /**
- * Records a send and tries it at once. When the mail server does not take it, the send is queued in
- * pg-boss and retried (see RETRY); the claim shows it as queued with the last error until it goes.
+ * Puts the packet together, records the send and hands it to the mail server at once. When object storage or
+ * the database cannot give the packet, nothing is recorded and the 503 names them. When the mail server does
+ * not take it, the send is queued in pg-boss and retried (see RETRY), and the claim shows it as queued with
+ * the mail server's error until it goes; without a queue it is recorded as failed and the answer is 503
+ * mail_unavailable.
  */
-export async function requestSend(deps: SendDeps, claimId: string, toAddress: string, actor: Actor): Promise<void> {
-  const sendId = await insertSend(deps.db, claimId, toAddress, actor);
+export async function requestSend(deps: SendDeps, claim: ClaimDetail, actor: Actor): Promise<void> {
+  const message = await packetMail(deps, claim, deps.mailer.from, claim.warrantyEmail, actor.name);
+  const sendId = await insertSend(deps.db, claim.id, claim.warrantyEmail, actor);
   try {
-    const messageId = await deliver(deps, sendId);
+    const messageId = await handOver(deps.mailer, message);
     await recordSendAttempt(deps.db, sendId, { status: "sent", messageId });
   } catch (err) {
-    const error = describeMailError(err);
-    logger.warn({ err, sendId }, "claim packet send failed; queuing a retry");
+    if (!(err instanceof MailServerError)) throw err;
+    const error = describeMailError(err.mailError);
+    logger.warn({ err: err.mailError, sendId }, "claim packet send failed; queuing a retry");
     if (deps.boss) {
-      await recordSendAttempt(deps.db, sendId, { status: "queued", error });
+      await recordSendAttempt(deps.db, sendId, { status: "queued", error: `${error} The packet is queued and goes as soon as the mail server takes it.` });
       await deps.boss.send(SEND_QUEUE, { sendId }, RETRY);
     } else {
       await recordSendAttempt(deps.db, sendId, { status: "failed", error: `${error} No retry queue is running here: send it again once mail works.` });
+      throw mailUnavailable(`${error} The packet was not sent and no retry queue is running here: send it again once mail works, or download it.`);
     }
   }
 }
@@ -88,11 +129,11 @@ export async function requestSend(deps: SendDeps, claimId: string, toAddress: st
 /** A send asked for on the claim page: refused in words without mail, or while the last send is still pending. */
 export async function sendPacket(deps: Omit<SendDeps, "mailer"> & { mailer?: Mailer }, claim: ClaimDetail, actor: Actor): Promise<void> {
   const { mailer } = deps;
-  if (!mailer) throw new HttpError(503, "mail_unavailable", "Mail is not configured on this server, so the packet cannot be sent from here. Download it instead.");
+  if (!mailer) throw mailUnavailable("Mail is not configured on this server, so the packet cannot be sent from here. Download it instead.");
   const pending = claim.sends.at(-1);
   if (pending && (pending.status === "queued" || pending.status === "sending"))
     throw new HttpError(409, "send_pending", `This packet is already ${pending.status === "queued" ? "queued for a retry" : "being sent"} to ${pending.toAddress}; it will go once the mail server takes it.`);
-  await requestSend({ ...deps, mailer }, claim.id, claim.warrantyEmail, actor);
+  await requestSend({ ...deps, mailer }, claim, actor);
 }
 
 /**
@@ -111,9 +152,10 @@ export async function startSendWorker(deps: SendDeps & { boss: PgBoss }): Promis
         await recordSendAttempt(db, job.data.sendId, { status: "sent", messageId });
       } catch (err) {
         const last = job.retryCount >= job.retryLimit;
+        const why = describeSendError(err);
         await recordSendAttempt(db, job.data.sendId, {
           status: last ? "failed" : "queued",
-          error: last ? `${describeMailError(err)} Gave up after ${job.retryCount + 1} retries: send it again.` : describeMailError(err),
+          error: last ? `${why} Gave up after ${job.retryCount + 1} retries: send it again.` : `${why} It will be tried again.`,
         });
         throw err;
       }

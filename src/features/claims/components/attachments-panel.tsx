@@ -45,7 +45,10 @@ export function AttachmentsPanel({ claim }: { claim: ClaimDetail }) {
           />
         </label>
       ) : (
-        <p className="text-sm text-muted">Object storage is not configured here, so files cannot be attached.</p>
+        <p role="status" className="text-sm text-alert">
+          Object storage is not available right now (or not set up on this server), so files cannot be attached and
+          attached files may not open. Reload the claim in a minute to try again.
+        </p>
       )}
       <p className="text-xs text-muted">Photos (PNG, JPEG, WebP, GIF) and PDF documents up to 8 MB; the type is checked by the file's content, not its name.</p>
       {upload.isError && <ErrorNotice error={upload.error} />}
