@@ -11,3 +11,4 @@ export { readShopRegister } from "./shops/read-register.js";
 export { refreshExposure, type ExposureRefresh } from "./derived/refresh-exposure.js";
 export { generateDemo, type Manifest } from "./demo/generate.js";
 export { shops as demoShops } from "./demo/scenario.js";
+export { rejectedLineKey } from "./load/reject-keys.js";

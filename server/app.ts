@@ -5,7 +5,10 @@ import helmet from "helmet";
 import { pinoHttp } from "pino-http";
 import { sameOriginOnly } from "./http/same-origin.js";
 import { refuseNul } from "./http/no-nul.js";
+import { uploadLimit } from "./http/rate-limits.js";
+import { defaultRateLimits, type RateLimits } from "./config.js";
 import path from "node:path";
+import os from "node:os";
 import { existsSync } from "node:fs";
 import { dataEtag } from "./http/data-etag.js";
 import { serveClient } from "./http/static-files.js";
@@ -49,7 +52,14 @@ export interface AppDeps {
   boss?: PgBoss | null;
   /** keys the benchmarks' peer letters (BENCHMARK_PEER_SECRET); null or omitted → derived from the session secret */
   benchmarkPeerSecret?: string | null;
+  /** where uploaded exports are spooled, and the largest accepted (defaults: the system's temp folder, 200 MB) */
+  imports?: { spoolDir: string; maxUploadBytes: number };
+  /** sign-in and upload limits (server/http/rate-limits.ts); omitted → the defaults in config.ts */
+  rateLimits?: RateLimits;
 }
+
+/** The largest export file an upload accepts unless configured (MAX_UPLOAD_MB). */
+export const DEFAULT_MAX_UPLOAD_BYTES = 200 * 1024 * 1024;
 
 /** Builds the Express app without listening: index.ts and the tests both use it. */
 export function createApp(d: AppDeps): express.Express {
@@ -86,7 +96,10 @@ export function createApp(d: AppDeps): express.Express {
   });
   app.use(express.json({ limit: "1mb" }));
   app.use(refuseNul);
-  app.use(createSessionMiddleware(d.pool, d.sessionSecret, secure));
+  // before the session middleware: health answers (503, per dependency) while the session store, the database, does not
+  app.use("/api/health", healthRoutes({ db: d.db, storage: d.storage, mailer: d.mailer }));
+  // only the API and sign-in read sessions: the client's files load while the database is down, and say so in words
+  app.use(["/api", "/auth"], createSessionMiddleware(d.pool, d.sessionSecret, secure));
 
   app.use(
     "/auth",
@@ -98,10 +111,10 @@ export function createApp(d: AppDeps): express.Express {
       rolesClaim: d.rolesClaim,
       shopsClaim: d.shopsClaim,
       onSignIn: (u) => upsertUser(d.db, u),
+      rateLimits: d.rateLimits ?? defaultRateLimits,
     }),
   );
 
-  app.use("/api/health", healthRoutes(d.db));
   app.use("/api/me", meRoutes());
   app.use("/api/admin/users", adminUserRoutes(d.db));
   app.use("/api/admin/mail", adminMailRoutes(d.mailArchive ?? null));
@@ -109,7 +122,12 @@ export function createApp(d: AppDeps): express.Express {
   const peerSecret = d.benchmarkPeerSecret ?? createHmac("sha256", d.sessionSecret).update("benchmark-peers").digest("hex");
   // answers computed from the warehouse alone: 304 while the data has not changed since the client's copy
   app.use(["/api/analytics", "/api/repairs"], dataEtag(d.db));
-  app.use("/api", apiRoutes(d.db, d.pool, { storage: d.storage, mailer: d.mailer, boss: d.boss }, peerSecret));
+  // uploads per signed-in user, counted before the claim router reads the file
+  app.post("/api/claims/:id/attachments", uploadLimit(d.rateLimits ?? defaultRateLimits));
+  app.use("/api", apiRoutes(d.db, d.pool, { storage: d.storage, mailer: d.mailer, boss: d.boss }, peerSecret, {
+    spoolDir: d.imports?.spoolDir ?? path.join(os.tmpdir(), "ironledger-uploads"),
+    maxUploadBytes: d.imports?.maxUploadBytes ?? DEFAULT_MAX_UPLOAD_BYTES,
+  }));
   app.use("/api", apiNotFound);
 
   if (d.staticDir && existsSync(path.join(d.staticDir, "index.html"))) {

@@ -15,6 +15,7 @@ import { createStorage, type Storage } from "./services/storage.js";
 import { createMailer, type Mailer } from "./services/mailer.js";
 import type { MailArchive } from "./services/mail-archive.js";
 import { logger } from "./logger.js";
+import { startImportWorkers } from "./services/imports/import-jobs.js";
 import PgBoss from "pg-boss";
 import { startSendWorker } from "./services/warranty/send.js";
 import { startAnswerWarmer } from "./services/answer-warmer.js";
@@ -70,6 +71,7 @@ export async function startStack(config: Config, opts: { staticDir?: string } = 
         postLogoutRedirectUris: [`${config.publicUrl}/signed-out`],
         signingKey: secrets.signingKey,
         cookieKeys: secrets.providerCookieKeys,
+        rateLimits: config.rateLimits,
       });
       const server = await listen(provider, config.oidc.localPort);
       closers.push(() => closeServer(server));
@@ -106,6 +108,8 @@ export async function startStack(config: Config, opts: { staticDir?: string } = 
     await boss.start();
     closers.push(() => boss.stop({ graceful: false, wait: true, timeout: 5000 }));
     await startSendWorker({ db, mailer, storage, boss });
+    const imports = { spoolDir: path.join(config.dataDir, "uploads"), maxUploadBytes: config.maxUploadBytes };
+    await startImportWorkers({ db, pool, storage, boss, spoolDir: imports.spoolDir });
 
     const app = createApp({
       db,
@@ -113,6 +117,7 @@ export async function startStack(config: Config, opts: { staticDir?: string } = 
       publicUrl: config.publicUrl,
       sessionSecret: secrets.sessionSecret,
       benchmarkPeerSecret: config.benchmarkPeerSecret,
+      rateLimits: config.rateLimits,
       oidc: createOidcClient({ issuer, clientId: config.oidc.clientId, clientSecret }),
       issuer,
       scopes: config.oidc.scopes,
@@ -123,6 +128,7 @@ export async function startStack(config: Config, opts: { staticDir?: string } = 
       mailer,
       mailArchive,
       boss,
+      imports,
     });
     const server = await listen(app, config.port, config.host);
     closers.push(() => closeServer(server));

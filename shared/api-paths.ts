@@ -34,4 +34,13 @@ export const apiPaths = {
   /** the cluster list a campaign case is picked from (the analytics scan with its default parameters) */
   claimClusterChoices: () => "/api/analytics/clusters",
   adminMail: () => "/api/admin/mail",
+  imports: () => "/api/imports",
+  importItem: (id: string) => `/api/imports/${encodeURIComponent(id)}`,
+  importCheck: (id: string) => `/api/imports/${encodeURIComponent(id)}/check`,
+  importLoad: (id: string) => `/api/imports/${encodeURIComponent(id)}/load`,
+  importCancel: (id: string) => `/api/imports/${encodeURIComponent(id)}/cancel`,
+  importFile: (id: string) => `/api/imports/${encodeURIComponent(id)}/file`,
+  batches: (shop?: string) => `/api/batches${shop ? `?shop=${encodeURIComponent(shop)}` : ""}`,
+  batchRejects: (id: string, search = "") => `/api/batches/${encodeURIComponent(id)}/rejects${search ? `?${search}` : ""}`,
+  batchRejectsCsv: (id: string, search = "") => `/api/batches/${encodeURIComponent(id)}/rejects.csv${search ? `?${search}` : ""}`,
 } as const;

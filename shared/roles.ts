@@ -18,5 +18,8 @@ export const groupWideRoles: readonly Role[] = ["admin", "analyst", "director", 
 /** Roles that build and file warranty claims. */
 export const claimRoles = ["clerk", "manager"] as const satisfies readonly Role[];
 
+/** Roles that feed exports from the browser and read the load history: a manager for their shops, the others group-wide. */
+export const importRoles = ["admin", "analyst", "manager"] as const satisfies readonly Role[];
+
 /** Roles that read the analytics (overview, repairs, rates, life curves, clusters). */
 export const analyticsRoles = ["analyst", "director", "manager", "clerk", "admin"] as const satisfies readonly Role[];

@@ -56,6 +56,8 @@ export interface LoadFileOptions {
   profile?: string;
   /** shop code for exports without a shop column */
   shop?: string;
+  /** the name the batch records (default: the file's own name; an upload's spooled copy has another) */
+  fileName?: string;
   /** who loaded it (user name or "cli:<login>") */
   loadedBy: string;
   onProgress?: (p: LoadProgress) => void;
@@ -89,6 +91,8 @@ export type HeaderNotes = Pick<HeaderReport, "ignored" | "absent"> & { encoding:
 
 /** What a dry run shows: rows in the warehouse's units and codes, and rejects with their raw fields. */
 export interface LoadPreview {
+  /** the shops the file's accepted rows name (machines: home shops; hours: the machines' home shops), with row counts */
+  shops: { code: string; rows: number }[];
   rows: ({ line: number } & Record<string, unknown>)[];
   rejects: { line: number; code: string; reason: string; raw: string[] }[];
 }
@@ -268,7 +272,15 @@ async function previewOf(client: pg.PoolClient, kind: ExportKind, n: number): Pr
     `SELECT row_no AS line, reject_code AS code, reject_reason AS reason, raw FROM stg WHERE reject_code IS NOT NULL ORDER BY row_no LIMIT $1`,
     [n],
   );
-  return { rows: rows.rows, rejects: rejects.rows.map((r) => ({ ...r, raw: r.raw ? (JSON.parse(r.raw) as string[]) : [] })) };
+  const shopSql =
+    kind === "machines"
+      ? `SELECT home_shop AS code, count(*)::int AS rows FROM stg WHERE reject_code IS NULL GROUP BY 1 ORDER BY 1`
+      : kind === "hours"
+        ? `SELECT sh.shop_code AS code, count(*)::int AS rows FROM stg s JOIN dim_machine m ON m.serial = s.serial
+             JOIN dim_shop sh ON sh.shop_key = m.home_shop_key WHERE s.reject_code IS NULL GROUP BY 1 ORDER BY 1`
+        : `SELECT shop_code AS code, count(*)::int AS rows FROM stg WHERE reject_code IS NULL GROUP BY 1 ORDER BY 1`;
+  const shops = (await client.query<{ code: string; rows: number }>(shopSql)).rows;
+  return { shops, rows: rows.rows, rejects: rejects.rows.map((r) => ({ ...r, raw: r.raw ? (JSON.parse(r.raw) as string[]) : [] })) };
 }
 
 /** Loads one file; see the top of this module for the contract. */
@@ -281,7 +293,7 @@ export async function loadFile(target: pg.Pool | string, opts: LoadFileOptions):
   opts.onHeader?.(headerNotes, profile);
   const totalBytes = checkReadable(opts.path);
   const today = opts.today ?? utcToday();
-  const fileName = path.basename(opts.path);
+  const fileName = opts.fileName ?? path.basename(opts.path);
   let sha: string;
   try {
     sha = await fileSha256(opts.path);
@@ -323,7 +335,7 @@ export async function loadFile(target: pg.Pool | string, opts: LoadFileOptions):
         return {
           batchId: 0, file: fileName, sha256: sha, kind, profile: profile.id, shop: shop ?? null, status: "already_loaded", read,
           inserted: 0, updated: 0, unchanged: read, rejected: 0, durationMs: Date.now() - started, header: headerNotes, mergedLines: [],
-          preview: { rows: [], rejects: [] },
+          preview: { shops: [], rows: [], rejects: [] },
         };
       }
       const ins = await client.query<{ batch_id: number }>(
@@ -415,7 +427,7 @@ export async function loadFile(target: pg.Pool | string, opts: LoadFileOptions):
       `UPDATE etl_batch SET finished_at = now(), rows_read = $2, rows_inserted = $3, rows_updated = $4, rows_unchanged = $5,
          rows_rejected = $6, status = 'loaded', notes = $7
        WHERE batch_id = $1`,
-      [batchId, rowsRead, counts.inserted, counts.updated, counts.unchanged, counts.rejected, JSON.stringify({ ...headerNotes, mergedLines: stager!.mergedSpans })],
+      [batchId, rowsRead, counts.inserted, counts.updated, counts.unchanged, counts.rejected, JSON.stringify({ ...headerNotes, mergedLines: stager!.mergedSpans, columns: header!.map(visibleText) })],
     );
     if (opts.signal?.aborted) throw new EtlFatalError("CANCELLED", `the load of ${fileName} was cancelled; nothing of it was kept`);
     if (opts.dryRun) {

@@ -38,6 +38,29 @@ export interface EtlBatchTable {
   notes: unknown;
 }
 
+export interface EtlUploadTable {
+  upload_id: Generated<string>;
+  file_name: string;
+  size_bytes: Bigint;
+  sha256: string;
+  object_key: string | null;
+  spool_path: string;
+  uploaded_by: string;
+  uploaded_by_sub: string;
+  uploaded_at: Generated<Date>;
+  scope_shops: string[] | null;
+  kind: ExportKindColumn | null;
+  profile: string | null;
+  shop_code: string | null;
+  status: Generated<"checking" | "ready" | "refused" | "queued" | "loading" | "loaded" | "failed" | "cancelled">;
+  message: string | null;
+  preview: unknown;
+  progress: unknown;
+  batch_id: Bigint | null;
+  cancel_requested: Generated<boolean>;
+  updated_at: Generated<Date>;
+}
+
 export interface EtlRejectTable {
   batch_id: Bigint;
   row_number: number;
@@ -338,6 +361,7 @@ export interface WarehouseTables {
   agg_exposure_notable_reading: AggExposureNotableReadingTable;
   v_engine_hours: VEngineHoursView;
   etl_batch: EtlBatchTable;
+  etl_upload: EtlUploadTable;
   etl_reject: EtlRejectTable;
   dim_date: DimDateTable;
   dim_shop: DimShopTable;

@@ -10,9 +10,16 @@ import { claimRoutes, type ClaimRouteDeps } from "./claims.js";
 import { repairCsvRoutes, repairRoutes } from "./repairs.js";
 import { overviewRoutes } from "./overview.js";
 import { clusterDetailRoutes } from "./analytics-cluster-detail.js";
+import { batchRoutes, importRoutes } from "./imports.js";
 
 /** Mounts the resource routers under /api. Each router declares its roles with allow(). */
-export function apiRoutes(db: Db, pool: pg.Pool, services: Omit<ClaimRouteDeps, "db">, peerSecret: string): Router {
+export function apiRoutes(
+  db: Db,
+  pool: pg.Pool,
+  services: Omit<ClaimRouteDeps, "db">,
+  peerSecret: string,
+  imports: { spoolDir: string; maxUploadBytes: number },
+): Router {
   const router = Router();
   router.use("/shops", shopRoutes(db));
   router.use("/analytics/rates", analyticsRateRoutes(db));
@@ -24,5 +31,7 @@ export function apiRoutes(db: Db, pool: pg.Pool, services: Omit<ClaimRouteDeps, 
   router.use("/repairs.csv", repairCsvRoutes(db, pool));
   router.use("/repairs", repairRoutes(db));
   router.use("/overview", overviewRoutes(db));
+  router.use("/imports", importRoutes({ db, pool, storage: services.storage, boss: services.boss, ...imports }));
+  router.use("/batches", batchRoutes({ db }));
   return router;
 }

@@ -1,4 +1,4 @@
-import type { Role } from "@shared/roles";
+import { importRoles, type Role } from "@shared/roles";
 
 export interface NavItem {
   to: string;
@@ -16,6 +16,7 @@ export const navItems: readonly NavItem[] = [
   { to: "/benchmarks", label: "Benchmarks", roles: ["director", "analyst", "manager", "admin"] },
   { to: "/admin/users", label: "Users", roles: ["admin"] },
   { to: "/claims", label: "Claims", roles: ["clerk", "manager"] },
+  { to: "/imports", label: "Imports", roles: importRoles },
   { to: "/admin/mail", label: "Captured mail", roles: ["admin"] },
 ];
 

@@ -16,4 +16,6 @@ export const pagePaths = {
   claim: "/claims/:id",
   adminUsers: "/admin/users",
   adminMail: "/admin/mail",
+  imports: "/imports",
+  batchRejects: "/imports/batches/:id",
 } as const;

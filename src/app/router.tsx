@@ -42,6 +42,10 @@ export function routes(qc: QueryClient): RouteObject[] {
           { path: pagePaths.claimNew, lazy: lazyPage(qc, () => import("@/routes/claim-new")) },
           { path: pagePaths.claim, lazy: lazyPage(qc, () => import("@/routes/claim-detail")) },
         ]),
+        area({ subject: "the imports and load history", list: { to: pagePaths.imports, label: "Imports" } }, [
+          { path: pagePaths.imports, lazy: lazyPage(qc, () => import("@/routes/imports")) },
+          { path: pagePaths.batchRejects, lazy: lazyPage(qc, () => import("@/routes/batch-rejects")) },
+        ]),
         area({ subject: "the administration pages" }, [
           { path: pagePaths.adminUsers, lazy: lazyPage(qc, () => import("@/routes/admin-users")) },
           { path: pagePaths.adminMail, lazy: lazyPage(qc, () => import("@/routes/admin-mail")) },

@@ -15,7 +15,10 @@ export interface TestApp extends TestDb {
 }
 
 /** createApp over a database as the API tests make it: stored sessions, an OIDC issuer never contacted. */
-export function appOver(d: { db: Db; pool: TestDb["pool"] }, extra: { benchmarkPeerSecret?: string } = {}): ReturnType<typeof createApp> {
+export function appOver(
+  d: { db: Db; pool: TestDb["pool"] },
+  extra: Partial<Pick<Parameters<typeof createApp>[0], "benchmarkPeerSecret" | "imports" | "storage">> = {},
+): ReturnType<typeof createApp> {
   const issuer = "http://127.0.0.1:9"; // never contacted by API tests
   return createApp({
     db: d.db,

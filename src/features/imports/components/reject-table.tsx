@@ -1,0 +1,42 @@
+import { Link } from "react-router-dom";
+import type { RejectPage } from "@shared/schemas/imports";
+import { batchPath } from "../batch-path";
+import { count } from "../import-words";
+
+const th = "whitespace-nowrap border-b border-line px-2 py-1.5 font-semibold";
+const td = "whitespace-nowrap border-b border-line/60 px-2 py-1 align-top";
+
+/** A page of rejects: line and reason, then the row's raw fields under the file's own column names. */
+export function RejectTable({ page, loading }: { page: RejectPage; loading: boolean }) {
+  const fixed = page.rows.some((r) => r.fixedBy !== null);
+  return (
+    <div aria-busy={loading} className={`overflow-x-auto rounded border border-line transition-opacity ${loading ? "opacity-60" : ""}`}>
+      <table className="w-full text-left text-xs" aria-label={`Rejects of batch ${page.batch.id}`}>
+        <thead className="bg-paper text-muted">
+          <tr>
+            <th scope="col" className={th}>Line</th>
+            <th scope="col" className={th}>Reason</th>
+            {fixed && <th scope="col" className={th}>Since</th>}
+            {page.columns.map((c, i) => <th key={`${i}-${c}`} scope="col" className={`${th} font-mono`}>{c}</th>)}
+          </tr>
+        </thead>
+        <tbody>
+          {page.rows.map((r) => (
+            <tr key={r.line}>
+              <td className={`${td} tabular-nums`}>{count(r.line)}</td>
+              <td className="min-w-72 border-b border-line/60 px-2 py-1 align-top">
+                {r.reason} <span className="text-muted">({r.code})</span>
+              </td>
+              {fixed && (
+                <td className={td}>
+                  {r.fixedBy && <Link to={batchPath(r.fixedBy)} className="text-ok hover:underline">fixed by batch {r.fixedBy}</Link>}
+                </td>
+              )}
+              {page.columns.map((c, i) => <td key={`${i}-${c}`} className={`${td} max-w-80 truncate font-mono`} title={r.raw[c]}>{r.raw[c] ?? ""}</td>)}
+            </tr>
+          ))}
+        </tbody>
+      </table>
+    </div>
+  );
+}
