@@ -1,5 +1,5 @@
 import express from "express";
-import compression from "compression";
+import { compressResponses } from "./http/compression.js";
 import { createHmac } from "node:crypto";
 import helmet from "helmet";
 import { pinoHttp } from "pino-http";
@@ -53,7 +53,7 @@ export interface AppDeps {
   /** keys the benchmarks' peer letters (BENCHMARK_PEER_SECRET); null or omitted → derived from the session secret */
   benchmarkPeerSecret?: string | null;
   /** where uploaded exports are spooled, and the largest accepted (defaults: the system's temp folder, 200 MB) */
-  imports?: { spoolDir: string; maxUploadBytes: number };
+  imports?: { spoolDir: string; maxUploadBytes: number; databaseUrl?: string };
   /** sign-in and upload limits (server/http/rate-limits.ts); omitted → the defaults in config.ts */
   rateLimits?: RateLimits;
 }
@@ -85,7 +85,7 @@ export function createApp(d: AppDeps): express.Express {
     }),
   );
   // brotli or gzip for JSON, CSV, JS and CSS when the client accepts it (responses under 1 kB go as they are)
-  app.use(compression({ threshold: 1024 }));
+  app.use(compressResponses());
   // nothing a browser sends from another site changes anything (before the body parsers and every route)
   app.use(sameOriginOnly(d.publicUrl));
   // private answers are not kept by browsers or proxies; the warehouse answers that carry a data-version ETag
@@ -127,6 +127,7 @@ export function createApp(d: AppDeps): express.Express {
   app.use("/api", apiRoutes(d.db, d.pool, { storage: d.storage, mailer: d.mailer, boss: d.boss }, peerSecret, {
     spoolDir: d.imports?.spoolDir ?? path.join(os.tmpdir(), "ironledger-uploads"),
     maxUploadBytes: d.imports?.maxUploadBytes ?? DEFAULT_MAX_UPLOAD_BYTES,
+    databaseUrl: d.imports?.databaseUrl,
   }));
   app.use("/api", apiNotFound);
 

@@ -108,8 +108,8 @@ export async function startStack(config: Config, opts: { staticDir?: string } = 
     await boss.start();
     closers.push(() => boss.stop({ graceful: false, wait: true, timeout: 5000 }));
     await startSendWorker({ db, mailer, storage, boss });
-    const imports = { spoolDir: path.join(config.dataDir, "uploads"), maxUploadBytes: config.maxUploadBytes };
-    await startImportWorkers({ db, pool, storage, boss, spoolDir: imports.spoolDir });
+    const imports = { spoolDir: path.join(config.dataDir, "uploads"), maxUploadBytes: config.maxUploadBytes, databaseUrl: config.databaseUrl };
+    await startImportWorkers({ db, pool, storage, boss, spoolDir: imports.spoolDir, databaseUrl: config.databaseUrl });
 
     const app = createApp({
       db,

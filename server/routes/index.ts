@@ -18,7 +18,7 @@ export function apiRoutes(
   pool: pg.Pool,
   services: Omit<ClaimRouteDeps, "db">,
   peerSecret: string,
-  imports: { spoolDir: string; maxUploadBytes: number },
+  imports: { spoolDir: string; maxUploadBytes: number; databaseUrl?: string },
 ): Router {
   const router = Router();
   router.use("/shops", shopRoutes(db));

@@ -46,7 +46,8 @@ const batchCount = async () => Number((await t.pool.query<{ n: string }>(`SELECT
 
 beforeAll(async () => {
   t = await testApp({ demo: true });
-  app = appOver(t, { imports: { spoolDir: mkdtempSync(path.join(os.tmpdir(), "imports-test-")), maxUploadBytes: 64 * 1024 } });
+  // the checks and loads run on a worker thread with their own connections, as on the server
+  app = appOver(t, { imports: { spoolDir: mkdtempSync(path.join(os.tmpdir(), "imports-test-")), maxUploadBytes: 64 * 1024, databaseUrl: t.url } });
   analyst = await t.signInAs({ roles: ["analyst"], sub: "analyst-1", name: "Ana Lyst" });
   managerS1 = await t.signInAs({ roles: ["manager"], shops: ["S1"], sub: "manager-1", name: "Man Ager" });
   const pick = async (shop: string) =>

@@ -11,6 +11,8 @@ import { getUpload, updateUpload, type UploadRow } from "../../db/queries/import
 import { logger } from "../../logger.js";
 import type { Storage } from "../storage.js";
 import type { ImportPreview, ImportProgress } from "../../../shared/schemas/imports.js";
+import { runOnWorker } from "../worker-pool.js";
+import type { EtlTask } from "./etl-task.js";
 
 /**
  * The two jobs an upload goes through, on pg-boss queues (or in-process when the app runs without a queue,
@@ -29,6 +31,29 @@ export interface ImportDeps {
   boss?: PgBoss | null;
   /** where uploads are spooled on this server's disk */
   spoolDir: string;
+  /** with it, the jobs run on a worker thread with a pool of their own (see etl-task.ts); without, on this thread */
+  databaseUrl?: string;
+}
+
+const taskFile = path.join(import.meta.dirname, "etl-task.ts");
+
+/** Runs a job: the file is made local here (object storage is this thread's), the work on a worker when it can. */
+async function dispatch(deps: ImportDeps, job: "check" | "load", uploadId: string): Promise<void> {
+  const u = await getUpload(deps.db, uploadId);
+  if (!u) return;
+  try {
+    await localCopy(deps, u);
+  } catch (err) {
+    if (job === "check") await updateUpload(deps.db, uploadId, { status: "failed", message: (err as Error).message }, ["checking"]);
+    else await updateUpload(deps.db, uploadId, { status: "failed", message: (err as Error).message }, ["queued", "loading"]);
+    return;
+  }
+  if (deps.databaseUrl) {
+    const task: EtlTask = { job, uploadId, databaseUrl: deps.databaseUrl, spoolDir: deps.spoolDir };
+    await runOnWorker<void>(taskFile, task);
+  } else {
+    await (job === "check" ? runCheck(deps, uploadId) : runLoad(deps, uploadId));
+  }
 }
 
 const PROGRESS_EVERY_MS = 1000;
@@ -40,7 +65,7 @@ export async function enqueue(deps: ImportDeps, queue: typeof CHECK_QUEUE | type
     return;
   }
   setImmediate(() => {
-    void (queue === CHECK_QUEUE ? runCheck(deps, uploadId) : runLoad(deps, uploadId)).catch((err: unknown) =>
+    void dispatch(deps, queue === CHECK_QUEUE ? "check" : "load", uploadId).catch((err: unknown) =>
       logger.error({ err, uploadId }, "import job failed"),
     );
   });
@@ -49,8 +74,8 @@ export async function enqueue(deps: ImportDeps, queue: typeof CHECK_QUEUE | type
 /** Starts the workers (one job of each queue at a time: a load takes two database connections and a core). */
 export async function startImportWorkers(deps: ImportDeps & { boss: PgBoss }): Promise<void> {
   for (const q of [CHECK_QUEUE, LOAD_QUEUE]) await deps.boss.createQueue(q);
-  await deps.boss.work<{ uploadId: string }>(CHECK_QUEUE, { pollingIntervalSeconds: 1 }, async ([job]) => runCheck(deps, job.data.uploadId));
-  await deps.boss.work<{ uploadId: string }>(LOAD_QUEUE, { pollingIntervalSeconds: 1 }, async ([job]) => runLoad(deps, job.data.uploadId));
+  await deps.boss.work<{ uploadId: string }>(CHECK_QUEUE, { pollingIntervalSeconds: 1 }, async ([job]) => dispatch(deps, "check", job.data.uploadId));
+  await deps.boss.work<{ uploadId: string }>(LOAD_QUEUE, { pollingIntervalSeconds: 1 }, async ([job]) => dispatch(deps, "load", job.data.uploadId));
 }
 
 /** The upload's bytes on this server's disk: the spooled copy, or fetched back from object storage. */
