@@ -5,10 +5,30 @@ import { QueryView } from "@/features/filters/components/query-view";
 import { Card, EmptyState } from "@/components/ui/states";
 import type { PrimeCache } from "@/app/page-loader";
 import type { Overview } from "@shared/schemas/overview";
+import { importRoles } from "@shared/roles";
+import { meQueries } from "@/features/session/api/me-queries";
+import { batchPath } from "@/features/imports/batch-path";
 
 const n = (v: number) => v.toLocaleString("en-US");
 const rate = (r: { rate: number; lower: number; upper: number } | null) => (r ? `${r.rate.toFixed(3)} (${r.lower.toFixed(3)}–${r.upper.toFixed(3)})` : "—");
 const when = (iso: string | null) => (iso ? new Date(iso).toLocaleString("en-GB", { dateStyle: "medium", timeStyle: "short" }) : "never");
+
+/** The files of a shop's last load that had rejects, each linking to its rejects (for the roles that may open them). */
+function RejectLinks({ files }: { files: Overview["loads"][number]["files"] }) {
+  const me = useQuery(meQueries.current());
+  const canOpen = me.data?.roles.some((r) => (importRoles as readonly string[]).includes(r)) ?? false;
+  const withRejects = files.filter((f) => f.rowsRejected > 0);
+  if (!canOpen || withRejects.length === 0) return null;
+  return (
+    <span className="block text-xs font-normal">
+      {withRejects.map((f) => (
+        <Link key={f.batchId} to={batchPath(f.batchId)} className="mr-2 underline" title={`The ${f.rowsRejected} rejected rows of ${f.fileName}`}>
+          see rejects{withRejects.length > 1 ? ` of ${f.fileName}` : ""}
+        </Link>
+      ))}
+    </span>
+  );
+}
 
 function Loads({ loads }: { loads: Overview["loads"] }) {
   if (!loads.length) return <EmptyState title="Nothing loaded yet">No export has been loaded for your shops. Loads appear here after the monthly ETL run.</EmptyState>;
@@ -28,6 +48,7 @@ function Loads({ loads }: { loads: Overview["loads"] }) {
               <td className={`text-right tabular-nums ${l.rowsRejected ? "font-semibold text-alert" : ""}`} title={l.files.map((f) => `${f.fileName}: ${f.rowsRejected} rejected`).join("\n")}>
                 {n(l.rowsRejected)}
                 {l.rowsRead > 0 && <span className="ml-1 text-xs font-normal text-muted">({((100 * l.rowsRejected) / l.rowsRead).toFixed(1)} %)</span>}
+                <RejectLinks files={l.files} />
               </td>
             </tr>
           ))}
