@@ -54,7 +54,7 @@ function limiter(s: LimitSpec): RequestHandler {
     legacyHeaders: false,
     skipSuccessfulRequests: s.failuresOnly,
     keyGenerator: (req) => s.key(req),
-    skip: s.skip ? (req) => s.skip!(req) : undefined,
+    ...(s.skip ? { skip: (req: Request) => s.skip!(req) } : {}),
     logger: { error: (err, msg) => logger.error({ err }, msg), warn: (err, msg) => logger.warn({ err }, msg) },
     handler: (req, res, next) => {
       const info = (req as Request & { rateLimit?: { used: number; limit: number; resetTime?: Date } }).rateLimit;
@@ -79,7 +79,7 @@ const envelope =
 export function signInFormLimits(l: RateLimits, refuse: Refuse): RequestHandler[] {
   const windowMs = l.signInWindowMinutes * minute;
   const window = minutesInWords(l.signInWindowMinutes);
-  const named = (req: Request) => accountName(req) === "";
+  const unnamed = (req: Request) => accountName(req) === "";
   return [
     limiter({
       what: "sign-in failures per address",
@@ -95,7 +95,7 @@ export function signInFormLimits(l: RateLimits, refuse: Refuse): RequestHandler[
       windowMs,
       limit: l.signInFailuresPerAccountAndAddress,
       key: (req) => `${address(req)} ${accountName(req)}`,
-      skip: named,
+      skip: unnamed,
       failuresOnly: true,
       message: (wait) =>
         `Too many failed sign-ins for this username from your network address (${l.signInFailuresPerAccountAndAddress} in ${window}). Try again ${wait}; if you have forgotten the password, ask your administrator.`,
@@ -106,7 +106,7 @@ export function signInFormLimits(l: RateLimits, refuse: Refuse): RequestHandler[
       windowMs,
       limit: l.signInFailuresPerAccount,
       key: accountName,
-      skip: named,
+      skip: unnamed,
       failuresOnly: true,
       message: (wait) => `Too many failed sign-ins for this username (${l.signInFailuresPerAccount} in ${window}, from any address). Try again ${wait}.`,
       refuse,
