@@ -98,7 +98,7 @@ async function main() {
     .option("--cold", "start the load as soon as the server listens (no first call per route before it)")
     .option("--only <regexp>", "heavy routes whose path matches (the floor always runs)")
     .option("--one-session", "every connection sends the same session (one person's many tabs) instead of one session each")
-    .option("--server-flags <flags>", "node flags for the server process only, e.g. \"--max-semi-space-size=8\"")
+    .option("--server-flags <flags>", "node flags for the server process only (default: those of scripts/start.sh)", "--max-semi-space-size=8")
     .option("--profile <dir>", "write the server's CPU profile (node --cpu-prof) of each run to this folder")
     .parse()
     .opts<{ seconds: number; connections: number; floorConnections: number; runs: number; scale: number; cold?: boolean; only?: string; profile?: string; oneSession?: boolean; serverFlags?: string }>();

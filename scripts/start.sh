@@ -22,7 +22,9 @@ stop() {
   echo "Ironledger stopped." >&2
 }
 trap 'stop; exit 0' INT TERM
-node --import tsx server/index.ts &
+# a young generation of 8 MB semi-spaces: the heap is collected before it grows by 100 MB between full
+# collections (docs/reliability.md: peak RSS under load 367 → 291 MB, median of runs)
+node --max-semi-space-size=8 --import tsx server/index.ts &
 APP_PID=$!
 set +e
 wait "$APP_PID"; rc=$?

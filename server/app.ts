@@ -124,6 +124,7 @@ export function createApp(d: AppDeps): express.Express {
   app.use(["/api/analytics", "/api/repairs"], dataEtag(d.db));
   // uploads per signed-in user, counted before the claim router reads the file
   app.post("/api/claims/:id/attachments", uploadLimit(d.rateLimits ?? defaultRateLimits));
+  app.post("/api/imports", uploadLimit(d.rateLimits ?? defaultRateLimits));
   app.use("/api", apiRoutes(d.db, d.pool, { storage: d.storage, mailer: d.mailer, boss: d.boss }, peerSecret, {
     spoolDir: d.imports?.spoolDir ?? path.join(os.tmpdir(), "ironledger-uploads"),
     maxUploadBytes: d.imports?.maxUploadBytes ?? DEFAULT_MAX_UPLOAD_BYTES,

@@ -27,8 +27,30 @@ declare module "express-session" {
  * fails (server stopped, connection refused or cut), the request answers 503 database_unavailable in words,
  * and the next request after the database is back reads its session as before.
  */
+/** How often a session's expiry is written back (the cookie rolls on every answer; the stored row need not). */
+const TOUCH_EVERY_MS = 60_000;
+
 export function createSessionMiddleware(pool: pg.Pool, secret: string, secure: boolean): RequestHandler {
   const PgStore = connectPgSimple(session);
+  /**
+   * A store that writes a session's new expiry at most once a minute per session: with a rolling cookie,
+   * express-session touches the row on every answer and waits for it, so one person's parallel requests
+   * queued on that row. A row up to a minute behind its cookie expires up to a minute early, of 12 hours.
+   */
+  class ThrottledStore extends PgStore {
+    private readonly touched = new Map<string, number>();
+    override touch(sid: string, sess: session.SessionData, cb?: (err?: unknown) => void): void {
+      const now = Date.now();
+      const last = this.touched.get(sid);
+      if (last !== undefined && now - last < TOUCH_EVERY_MS) {
+        cb?.();
+        return;
+      }
+      this.touched.set(sid, now);
+      if (this.touched.size > 10_000) for (const [k, t] of this.touched) if (now - t >= TOUCH_EVERY_MS) this.touched.delete(k);
+      super.touch(sid, sess, cb as () => void);
+    }
+  }
   const middleware = session({
     name: "ironledger.sid",
     secret,
@@ -36,7 +58,7 @@ export function createSessionMiddleware(pool: pg.Pool, secret: string, secure: b
     saveUninitialized: false,
     rolling: true,
     proxy: secure,
-    store: new PgStore({
+    store: new ThrottledStore({
       pool,
       tableName: "app_session",
       createTableIfMissing: false,
