@@ -124,6 +124,13 @@ describe("an upload checked, previewed, loaded and its rejects worked", () => {
     expect(page.rows[0].fixedBy).toBe(loaded.batchId);
   });
 
+  it("lists the uploads: all of them for a group-wide role, their own for a manager", async () => {
+    const all = await request(app).get(apiPaths.imports()).set("Cookie", analyst).expect(200);
+    expect(all.body.imports.map((u: Import) => u.fileName)).toEqual(expect.arrayContaining(["s1-june.csv", "s1-june-fixed.csv"]));
+    const mine = await request(app).get(apiPaths.imports()).set("Cookie", managerS1).expect(200);
+    expect(mine.body.imports).toEqual([]);
+  });
+
   it("serves the original bytes of an upload", async () => {
     const r = await request(app).get(apiPaths.importFile(first.id)).set("Cookie", analyst).expect(200);
     expect(r.text.startsWith("shop_code,ro_number")).toBe(true);

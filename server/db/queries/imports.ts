@@ -51,7 +51,7 @@ export async function listUploads(db: Db, scope: ShopScope, userSub: string, lim
   const r = await sql<UploadRow>`
     SELECT *, upload_id::text AS upload_id, batch_id::text AS batch_id, size_bytes::text AS size_bytes
     FROM etl_upload WHERE ${mine ? sql`uploaded_by_sub = ${userSub}` : sql`true`}
-    ORDER BY uploaded_at DESC, upload_id DESC LIMIT ${limit}`.execute(db);
+    ORDER BY etl_upload.uploaded_at DESC, etl_upload.upload_id DESC LIMIT ${limit}`.execute(db);
   return r.rows;
 }
 
