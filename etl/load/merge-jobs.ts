@@ -1,5 +1,6 @@
 import type pg from "pg";
 import { checkHourReadings } from "./hour-checks.js";
+import { rejudgeLaterReadings } from "./rejudge-readings.js";
 import { anyNotableLine, rejectDuplicates, rejectUnknownMachines, updateClause, type MergeCounts } from "./merge-common.js";
 
 /**
@@ -283,6 +284,9 @@ export async function finishJobs(client: pg.PoolClient, batchId: number, blocks:
        WHERE f.repair_line_key = x.key`,
     );
   }
+
+  // stored readings after a reading of this file that arrives late are judged again
+  await rejudgeLaterReadings(client, batchId, `SELECT machine_key, opened_date AS d FROM stg WHERE reject_code IS NULL AND hour_meter IS NOT NULL`);
 
   const accepted = acceptedBeforeHours - backwards;
   let { inserted, updated } = blocks;

@@ -1,5 +1,6 @@
 import type pg from "pg";
 import { checkHourReadings } from "./hour-checks.js";
+import { rejudgeLaterReadings } from "./rejudge-readings.js";
 import {
   acceptedCount, countChanges, createChanged, registerShops, rejectDuplicates, rejectUnknownMachines, updateClause, type MergeCounts,
 } from "./merge-common.js";
@@ -140,5 +141,6 @@ export async function mergeHours(client: pg.PoolClient, batchId: number, _blocks
     ),
     [batchId],
   );
+  await rejudgeLaterReadings(client, batchId, `SELECT h.machine_key, s.reading_date AS d FROM stg s JOIN hr_out h ON h.row_no = s.row_no WHERE s.reject_code IS NULL`);
   return countChanges(client, accepted);
 }

@@ -38,6 +38,20 @@ export interface EtlBatchTable {
   notes: unknown;
 }
 
+export interface HourVerdictChangeTable {
+  change_id: Generated<string>;
+  hour_reading_key: Bigint;
+  machine_key: Bigint;
+  reading_date: Date;
+  hours: Numeric;
+  source: string;
+  batch_id: Bigint;
+  was_valid: boolean;
+  now_valid: boolean;
+  reason: string;
+  changed_at: Generated<Date>;
+}
+
 export interface EtlUploadTable {
   upload_id: Generated<string>;
   file_name: string;
@@ -362,6 +376,7 @@ export interface WarehouseTables {
   v_engine_hours: VEngineHoursView;
   etl_batch: EtlBatchTable;
   etl_upload: EtlUploadTable;
+  hour_verdict_change: HourVerdictChangeTable;
   etl_reject: EtlRejectTable;
   dim_date: DimDateTable;
   dim_shop: DimShopTable;
