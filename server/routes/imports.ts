@@ -19,7 +19,7 @@ export interface ImportRouteDeps extends ImportDeps {
 const actor = (req: Request) => requireUser(req).sub;
 const actorName = (req: Request) => {
   const u = requireUser(req);
-  return { name: u.email ?? u.name ?? u.sub, sub: u.sub };
+  return { name: u.name || u.email || u.sub, sub: u.sub };
 };
 
 /**

@@ -45,6 +45,8 @@ export const importPreviewSchema = z.object({
   mergedLines: z.array(z.object({ first: z.number().int(), last: z.number().int() })),
   /** shops the file's rows name, with how many rows each */
   shops: z.array(z.object({ code: z.string(), rows: z.number().int() })),
+  /** the order of the columns of `rows` (the warehouse's), when known */
+  columns: z.array(z.string()).optional(),
   /** the first rows as they would land: canonical column → value (warehouse units and codes) */
   rows: z.array(z.object({ line: z.number().int(), values: z.record(z.string(), cellValue) })),
   /** the first rejects: line, reason code, reason in words, the raw fields */

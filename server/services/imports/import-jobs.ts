@@ -114,6 +114,8 @@ export async function runCheck(deps: ImportDeps, uploadId: string): Promise<void
     const preview: ImportPreview = {
       read: s.read, inserted: s.inserted, updated: s.updated, unchanged: s.unchanged, rejected: s.rejected,
       header: s.header, mergedLines: s.mergedLines, shops: p.shops,
+      // stored as JSON, an object loses its key order: the columns keep it
+      columns: p.rows.length ? Object.keys(p.rows[0]).filter((k) => k !== "line") : [],
       rows: p.rows.map(({ line, ...values }) => ({ line, values: Object.fromEntries(Object.entries(values).map(([k, v]) => [k, cell(v)])) })),
       rejects: p.rejects,
     };

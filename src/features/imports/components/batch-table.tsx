@@ -51,7 +51,8 @@ const columns = col.columns([
 export function BatchTable({ batches }: { batches: Batch[] }) {
   const table = useTable({ features, columns, data: batches, getRowId: (b) => b.id });
   return (
-    <div className="overflow-x-auto rounded border border-line">
+    // relative: the screen-reader-only spans in the cells are absolutely placed and would otherwise widen the page
+    <div className="relative overflow-x-auto rounded border border-line">
       <table className="w-full text-left text-sm" aria-label="Load history">
         <thead className="bg-paper text-muted">
           {table.getHeaderGroups().map((g) => (

@@ -28,7 +28,7 @@ export function ImportChoicesForm({ imp, pending, onCheck }: { imp: Import; pend
     <form
       aria-label={`Choices for ${imp.fileName}`}
       onSubmit={form.handleSubmit((v) => onCheck({ kind: v.kind || null, profile: v.profile || null, shop: v.shop || null }))}
-      className="grid gap-3 rounded border border-line p-3 sm:grid-cols-[1fr_1fr_8rem_auto] sm:items-end"
+      className="grid gap-3 rounded border border-line p-3 sm:grid-cols-[1fr_1fr_11rem_auto] sm:items-end"
     >
       <div>
         <label htmlFor={id("kind")} className="text-sm font-semibold">Kind of export</label>

@@ -8,7 +8,7 @@ const td = "whitespace-nowrap border-b border-line/60 px-2 py-1 align-top";
 /** What a check found over the whole file, nothing stored: counts, header notes, shops, first rows and first rejects. */
 export function ImportPreview({ preview, fileLabel }: { preview: Preview; fileLabel: string }) {
   const { header } = preview;
-  const columns = previewColumns(preview.rows);
+  const columns = preview.columns?.length ? preview.columns : previewColumns(preview.rows);
   const rawWidth = Math.max(1, ...preview.rejects.map((r) => r.raw.length));
   return (
     <div className="space-y-4">

@@ -24,7 +24,8 @@ export function RejectTable({ page, loading }: { page: RejectPage; loading: bool
           {page.rows.map((r) => (
             <tr key={r.line}>
               <td className={`${td} tabular-nums`}>{count(r.line)}</td>
-              <td className="min-w-72 border-b border-line/60 px-2 py-1 align-top">
+              {/* narrower on a phone, so the "fixed by batch" beside it stays in sight */}
+              <td className="min-w-40 border-b border-line/60 px-2 py-1 align-top sm:min-w-72">
                 {r.reason} <span className="text-muted">({r.code})</span>
               </td>
               {fixed && (
