@@ -8,6 +8,7 @@ export { EtlFatalError } from "./errors.js";
 export { layouts } from "./layouts.js";
 export { upsertShops, type ShopInput } from "./shops/upsert-shops.js";
 export { readShopRegister } from "./shops/read-register.js";
+export { listProfiles } from "./profiles/registry.js";
 export { refreshExposure, type ExposureRefresh } from "./derived/refresh-exposure.js";
 export { generateDemo, type Manifest } from "./demo/generate.js";
 export { shops as demoShops } from "./demo/scenario.js";

@@ -4,6 +4,8 @@ export const apiPaths = {
   me: () => "/api/me",
   session: () => "/auth/session",
   adminUsers: () => "/api/admin/users",
+  adminShops: () => "/api/admin/shops",
+  adminShop: (code: string) => `/api/admin/shops/${encodeURIComponent(code)}`,
   shops: () => "/api/shops",
   /** `search` is a query string without "?" (filters, paging, sorting) */
   repairs: (search = "") => `/api/repairs${search ? `?${search}` : ""}`,

@@ -1,9 +1,9 @@
 import { createReadStream } from "node:fs";
 import { parse } from "csv-parse";
-import { z } from "zod";
 import { EtlFatalError } from "../errors.js";
 import { listProfiles } from "../profiles/registry.js";
 import type { ShopInput } from "./upsert-shops.js";
+import { shopEntrySchema } from "../../shared/schemas/shops-admin.js";
 
 /**
  * The shop register: one CSV row per shop, so that a shop's name, place, climate and time zone are known
@@ -12,41 +12,14 @@ import type { ShopInput } from "./upsert-shops.js";
  */
 export const registerColumns = ["code", "name", "region", "town", "lat", "lon", "climate_zone", "time_zone", "weather_station", "export_profile"] as const;
 
-/** a column the file lacks, or a blank cell, is null; text is trimmed */
-const blankToNull = (v: unknown) => (v === undefined || (typeof v === "string" && v.trim() === "") ? null : typeof v === "string" ? v.trim() : v);
-const optionalText = z.preprocess(blankToNull, z.string().max(200).nullable());
-const coordinate = (label: string, limit: number) =>
-  z.preprocess(
-    (v) => (blankToNull(v) === null ? null : Number(String(v).trim())),
-    z
-      .number({ error: `${label} is not a number` })
-      .min(-limit, `${label} must lie between -${limit} and ${limit}`)
-      .max(limit, `${label} must lie between -${limit} and ${limit}`)
-      .nullable(),
-  );
+/** register column → field of the shared shop schema (a column the file lacks is blank) */
+const columnField = {
+  code: "code", name: "name", region: "region", town: "town", lat: "lat", lon: "lon", climate_zone: "climateZone",
+  time_zone: "timeZone", weather_station: "weatherStation", export_profile: "exportProfile",
+} as const satisfies Record<(typeof registerColumns)[number], string>;
 
-function isTimeZone(tz: string): boolean {
-  try {
-    new Intl.DateTimeFormat("en", { timeZone: tz });
-    return true;
-  } catch {
-    return false;
-  }
-}
-
-/** One register row, validated; the code is upper-cased as loads store it. */
-export const registerRowSchema = z.object({
-  code: z.preprocess(blankToNull, z.string({ error: "code is blank" }).regex(/^[A-Za-z0-9][A-Za-z0-9 _-]{0,15}$/, "code must be 1–16 letters, digits, spaces, - or _")).transform((c) => c.toUpperCase()),
-  name: z.preprocess(blankToNull, z.string({ error: "name is blank" }).max(200)),
-  region: optionalText,
-  town: optionalText,
-  lat: coordinate("latitude", 90),
-  lon: coordinate("longitude", 180),
-  climate_zone: optionalText,
-  time_zone: optionalText.refine((tz) => tz === null || isTimeZone(tz), "time zone is not an IANA name such as Europe/Oslo"),
-  weather_station: optionalText,
-  export_profile: optionalText.refine((p) => p === null || listProfiles().some((x) => x.id === p), "export profile is not one of etl/profiles"),
-});
+/** One register row, validated by the rules the admin page uses too (shared/schemas/shops-admin.ts). */
+const registerRowSchema = shopEntrySchema(() => listProfiles().map((p) => p.id));
 
 export interface RegisterRead {
   shops: ShopInput[];
@@ -78,23 +51,20 @@ export async function readShopRegister(path: string): Promise<RegisterRead> {
         errors.push(`line ${line}: ${fields.length} fields but the header has ${header.length}`);
         continue;
       }
-      const raw = Object.fromEntries(header.map((h, i) => [h, fields[i]]));
+      const raw = Object.fromEntries(header.flatMap((h, i) => (Object.hasOwn(columnField, h) ? [[columnField[h as keyof typeof columnField], fields[i]]] : [])));
       const r = registerRowSchema.safeParse(raw);
       if (!r.success) {
         errors.push(`line ${line}: ${r.error.issues.map((i) => i.message).join("; ")}`);
         continue;
       }
-      const s = r.data;
-      const first = seen.get(s.code);
+      const shop: ShopInput = r.data;
+      const first = seen.get(shop.code);
       if (first !== undefined) {
-        errors.push(`line ${line}: shop ${s.code} is already on line ${first}`);
+        errors.push(`line ${line}: shop ${shop.code} is already on line ${first}`);
         continue;
       }
-      seen.set(s.code, line);
-      shops.push({
-        code: s.code, name: s.name, region: s.region, town: s.town, lat: s.lat, lon: s.lon, climateZone: s.climate_zone,
-        timeZone: s.time_zone, weatherStation: s.weather_station, exportProfile: s.export_profile,
-      });
+      seen.set(shop.code, line);
+      shops.push(shop);
     }
   } catch (e) {
     if (e instanceof EtlFatalError) throw e;

@@ -15,6 +15,7 @@ export const pagePaths = {
   claimNew: "/claims/new",
   claim: "/claims/:id",
   adminUsers: "/admin/users",
+  adminShops: "/admin/shops",
   adminMail: "/admin/mail",
   imports: "/imports",
   batchRejects: "/imports/batches/:id",

@@ -48,6 +48,7 @@ export function routes(qc: QueryClient): RouteObject[] {
         ]),
         area({ subject: "the administration pages" }, [
           { path: pagePaths.adminUsers, lazy: lazyPage(qc, () => import("@/routes/admin-users")) },
+          { path: pagePaths.adminShops, lazy: lazyPage(qc, () => import("@/routes/admin-shops")) },
           { path: pagePaths.adminMail, lazy: lazyPage(qc, () => import("@/routes/admin-mail")) },
         ]),
         { path: "*", lazy: () => import("@/routes/not-found") },

@@ -112,6 +112,19 @@ const ACCESS: Record<string, Entry> = {
   "GET /api/me": { req: () => ({ path: apiPaths.me() }), expect: gate(ALL, 200) },
   "GET /api/shops": { req: () => ({ path: apiPaths.shops() }), expect: gate(ALL, 200) },
   "GET /api/admin/users": { req: () => ({ path: apiPaths.adminUsers() }), expect: gate(ADMIN, 200) },
+  "GET /api/admin/shops": { req: () => ({ path: apiPaths.adminShops() }), expect: gate(ADMIN, 200) },
+  // a code the demo world has already: an admin is told so (409) and nothing is added
+  "POST /api/admin/shops": {
+    req: () => ({ path: apiPaths.adminShops(), body: { code: OWN, name: "Second of its code" } }),
+    expect: gate(ADMIN, 409),
+    invalid: () => ({ path: apiPaths.adminShops(), body: { code: "S/1", name: "Bad code" } }),
+  },
+  // a code no shop has: past the role check and the rules an admin gets 404 in words, and nothing changes
+  "PUT /api/admin/shops/:code": {
+    req: () => ({ path: apiPaths.adminShop(NOBODY), body: { name: "Nobody's shop" } }),
+    expect: gate(ADMIN, 404),
+    invalid: () => ({ path: apiPaths.adminShop(OWN), body: { name: "Own", timeZone: "Mars/Olympus" } }),
+  },
   // the API tests run without the SMTP fake: an admin is told there is no captured mail (404 in words)
   "GET /api/admin/mail": { req: () => ({ path: apiPaths.adminMail() }), expect: gate(ADMIN, 404) },
 

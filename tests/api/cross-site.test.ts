@@ -18,6 +18,7 @@ const OWN = "http://127.0.0.1:8080"; // the test app's public URL (tests/helpers
 /** Where each router file is mounted (server/app.ts, server/routes/index.ts). */
 const MOUNTS: Record<string, string> = {
   "server/auth/routes.ts": "/auth",
+  "server/routes/admin-shops.ts": "/api/admin/shops",
   "server/routes/claims.ts": "/api/claims",
   "server/routes/imports.ts": "/api/imports",
 };
