@@ -20,16 +20,16 @@ const put = (cookie: string, code: string, body: unknown) => request(t.app).put(
 const list = async () => adminShopListSchema.parse((await request(t.app).get(apiPaths.adminShops()).set("Cookie", admin).expect(200)).body);
 const stored = async (code: string) => (await t.pool.query(`SELECT shop_key::text, name, region, town, lat, lon, climate_zone, time_zone, weather_station, export_profile FROM dim_shop WHERE shop_code = $1`, [code])).rows;
 
-const fernhollow = {
+const westTestShop = {
   code: "fh-2",
-  name: "Fernhollow service shop",
+  name: "West test shop",
   region: "West",
-  town: "Fernhollow",
+  town: "Testtown West",
   lat: 47.25,
   lon: "-122.5",
   climateZone: "marine west coast",
   timeZone: "America/Los_Angeles",
-  weatherStation: "FHW-01",
+  weatherStation: "WTS-01",
   exportProfile: "generic-jobs",
 };
 
@@ -71,13 +71,13 @@ describe("GET /api/admin/shops", () => {
 
 describe("POST /api/admin/shops", () => {
   it("adds a shop, its code upper-cased and blanks stored as nothing, and lists it", async () => {
-    const r = await post(admin, fernhollow).expect(201);
+    const r = await post(admin, westTestShop).expect(201);
     expect(r.body).toEqual({
-      ...fernhollow, code: "FH-2", lon: -122.5, machines: 0, repairLines: 0,
+      ...westTestShop, code: "FH-2", lon: -122.5, machines: 0, repairLines: 0,
     } satisfies AdminShop);
     const made = await stored("FH-2");
     expect(made).toHaveLength(1);
-    expect(made[0]).toMatchObject({ name: "Fernhollow service shop", lat: 47.25, lon: -122.5, time_zone: "America/Los_Angeles", export_profile: "generic-jobs" });
+    expect(made[0]).toMatchObject({ name: "West test shop", lat: 47.25, lon: -122.5, time_zone: "America/Los_Angeles", export_profile: "generic-jobs" });
     // the key a load would give the same code, so a later export of FH-2 finds this shop
     const key = await t.pool.query(`SELECT wh_key('shop|FH-2')::text AS k`);
     expect(made[0].shop_key).toBe(key.rows[0].k);
@@ -88,10 +88,10 @@ describe("POST /api/admin/shops", () => {
   });
 
   it("refuses a duplicate code with 409 in words, whatever its case, and changes nothing", async () => {
-    const r = await post(admin, { ...fernhollow, code: "Fh-2", name: "Another name" }).expect(409);
+    const r = await post(admin, { ...westTestShop, code: "Fh-2", name: "Another name" }).expect(409);
     expect(r.body.error.code).toBe("shop_exists");
     expect(r.body.error.message).toMatch(/A shop with the code FH-2 is registered already/);
-    expect((await stored("FH-2"))[0].name).toBe("Fernhollow service shop");
+    expect((await stored("FH-2"))[0].name).toBe("West test shop");
     // a shop a load added bare is registered already too
     const bare = await post(admin, { code: "S5", name: "Fifth" }).expect(409);
     expect(bare.body.error.message).toMatch(/S5 is registered already \(a load may have added it bare\)/);
@@ -131,7 +131,7 @@ describe("POST /api/admin/shops", () => {
   for (const role of ["analyst", "director", "manager", "clerk"] as Role[]) {
     it(`refuses the ${role} role with 403 and adds nothing`, async () => {
       const cookie = await t.signInAs({ roles: [role], shops: ["S4"] });
-      await post(cookie, { ...fernhollow, code: `R-${role.slice(0, 3)}` }).expect(403);
+      await post(cookie, { ...westTestShop, code: `R-${role.slice(0, 3)}` }).expect(403);
       expect(await stored(`R-${role.slice(0, 3)}`.toUpperCase())).toEqual([]);
     });
   }
@@ -158,11 +158,22 @@ describe("PUT /api/admin/shops/:code", () => {
   });
 
   it("refuses a bad time zone and an unknown profile with 400 in words and changes nothing", async () => {
-    const tz = await put(admin, "FH-2", { ...fernhollow, code: undefined, timeZone: "Pacific/Atlantis" }).expect(400);
+    const tz = await put(admin, "FH-2", { ...westTestShop, code: undefined, timeZone: "Pacific/Atlantis" }).expect(400);
     expect(tz.body.error.message).toBe("The shop was not saved: time zone is not an IANA name such as Europe/Oslo.");
-    const profile = await put(admin, "FH-2", { ...fernhollow, code: undefined, exportProfile: "fernhollow-special" }).expect(400);
+    const profile = await put(admin, "FH-2", { ...westTestShop, code: undefined, exportProfile: "westTestShop-special" }).expect(400);
     expect(profile.body.error.message).toBe("The shop was not saved: export profile is not one of etl/profiles.");
     expect((await stored("FH-2"))[0]).toMatchObject({ time_zone: "America/Los_Angeles", export_profile: "generic-jobs" });
+  });
+
+  it("shows a renamed shop in the cached analytics answers at once (the shop register is part of the data version)", async () => {
+    const benchmarks = async () => JSON.stringify((await request(t.app).get(apiPaths.benchmarks("shops")).set("Cookie", admin).expect(200)).body);
+    const was = (await stored("S4"))[0];
+    expect(await benchmarks()).not.toContain("Fourth, renamed");
+    await put(admin, "S4", { name: "Fourth, renamed" }).expect(200);
+    expect(await benchmarks()).toContain("Fourth, renamed");
+    // as it was, for the tests after this one
+    await put(admin, "S4", { name: was.name, region: was.region, town: was.town, lat: was.lat, lon: was.lon, climateZone: was.climate_zone, timeZone: was.time_zone, weatherStation: was.weather_station, exportProfile: was.export_profile }).expect(200);
+    expect(await benchmarks()).not.toContain("Fourth, renamed");
   });
 
   it("answers 404 in words for a code no shop has", async () => {
