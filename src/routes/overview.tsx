@@ -31,7 +31,13 @@ function RejectLinks({ files }: { files: Overview["loads"][number]["files"] }) {
 }
 
 function Loads({ loads }: { loads: Overview["loads"] }) {
-  if (!loads.length) return <EmptyState title="Nothing loaded yet">No export has been loaded for your shops. Loads appear here after the monthly ETL run.</EmptyState>;
+  if (!loads.length) {
+    return (
+      <EmptyState title="Nothing loaded yet">
+        No export has been loaded for your shops. Loads appear here once a shop's export is fed in, on the Imports page (shop managers, analysts, admins) or by the ETL command.
+      </EmptyState>
+    );
+  }
   return (
     <div className="overflow-x-auto">
       <table className="w-full text-left text-sm">
