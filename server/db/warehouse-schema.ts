@@ -42,7 +42,7 @@ export interface HourVerdictChangeTable {
   change_id: Generated<string>;
   hour_reading_key: Bigint;
   machine_key: Bigint;
-  reading_date: Date;
+  reading_date: string;
   hours: Numeric;
   source: string;
   batch_id: Bigint;
