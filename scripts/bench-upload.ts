@@ -11,9 +11,10 @@ import os from "node:os";
 import path from "node:path";
 import { mkdtempSync, writeFileSync } from "node:fs";
 import type { AddressInfo } from "node:net";
-import { createHmac, randomBytes } from "node:crypto";
+import { randomBytes } from "node:crypto";
 import { median } from "d3-array";
-import { createDb, type Db } from "../server/db/database.js";
+import { createDb } from "../server/db/database.js";
+import { serviceSessionCookie } from "../server/auth/service-session.js";
 import { migrateToLatest } from "../server/db/migrate.js";
 import { loadDemo, warehouseIsEmpty } from "../server/demo/load-demo.js";
 import { createApp } from "../server/app.js";
@@ -34,14 +35,6 @@ async function database(): Promise<string> {
   if ((await admin.query("SELECT 1 FROM pg_database WHERE datname = $1", [name])).rowCount === 0) await admin.query(`CREATE DATABASE ${name}`);
   await admin.end();
   return Object.assign(new URL(base), { pathname: `/${name}` }).toString();
-}
-
-async function analystCookie(db: Db, secret: string): Promise<string> {
-  const sid = randomBytes(16).toString("hex");
-  const expires = new Date(Date.now() + 3600_000);
-  const sess = { cookie: { expires: expires.toISOString(), path: "/" }, user: { sub: "bench", name: "Bench", email: null, roles: ["analyst"], shops: [] } };
-  await db.insertInto("app_session").values({ sid, expire: expires, sess: JSON.stringify(sess) }).execute();
-  return `ironledger.sid=${encodeURIComponent(`s:${sid}.${createHmac("sha256", secret).update(sid).digest("base64").replace(/=+$/, "")}`)}`;
 }
 
 const HEADER =
@@ -86,7 +79,7 @@ const app = createApp({
   issuer: "http://127.0.0.1:9", scopes: "openid", rolesClaim: "roles", shopsClaim: "shops",
   imports: { spoolDir, maxUploadBytes: 2 * 1024 ** 3, databaseUrl: url },
 });
-const cookie = await analystCookie(db, secret);
+const cookie = await serviceSessionCookie(pool, secret, { sub: "bench", name: "Bench", email: null, roles: ["analyst"], shops: [] }, 1);
 const server = app.listen(0, "127.0.0.1");
 await new Promise<void>((resolve) => server.once("listening", () => resolve()));
 const origin = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
