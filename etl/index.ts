@@ -6,9 +6,11 @@
 export { loadFile, type BatchSummary, type HeaderNotes, type LoadFileOptions, type LoadPreview, type LoadProgress } from "./load/load-file.js";
 export { EtlFatalError } from "./errors.js";
 export { layouts } from "./layouts.js";
+export { requiredColumns } from "./sources/row-schemas.js";
 export { upsertShops, type ShopInput } from "./shops/upsert-shops.js";
 export { readShopRegister } from "./shops/read-register.js";
 export { listProfiles } from "./profiles/registry.js";
+export { currentProfiles, storedProfile, saveProfileVersion, DEFAULTS_AUTHOR, type VersionedProfile } from "./profiles/profile-store.js";
 export { refreshExposure, type ExposureRefresh } from "./derived/refresh-exposure.js";
 export { generateDemo, type Manifest } from "./demo/generate.js";
 export { shops as demoShops } from "./demo/scenario.js";

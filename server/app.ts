@@ -24,6 +24,7 @@ import { healthRoutes } from "./routes/health.js";
 import { meRoutes } from "./routes/me.js";
 import { adminUserRoutes } from "./routes/admin-users.js";
 import { adminShopRoutes } from "./routes/admin-shops.js";
+import { adminProfileRoutes } from "./routes/admin-profiles.js";
 import { apiRoutes } from "./routes/index.js";
 import { adminMailRoutes } from "./routes/admin-mail.js";
 import type { Storage } from "./services/storage.js";
@@ -118,7 +119,8 @@ export function createApp(d: AppDeps): express.Express {
 
   app.use("/api/me", meRoutes());
   app.use("/api/admin/users", adminUserRoutes(d.db));
-  app.use("/api/admin/shops", adminShopRoutes(d.db));
+  app.use("/api/admin/shops", adminShopRoutes(d.db, d.pool));
+  app.use("/api/admin/profiles", adminProfileRoutes(d.db, d.pool, d.imports?.spoolDir ?? path.join(os.tmpdir(), "ironledger-uploads")));
   app.use("/api/admin/mail", adminMailRoutes(d.mailArchive ?? null));
   // peer letters for managers are keyed by the configured secret, else one derived from the session secret (stable across restarts)
   const peerSecret = d.benchmarkPeerSecret ?? createHmac("sha256", d.sessionSecret).update("benchmark-peers").digest("hex");

@@ -6,6 +6,9 @@ export const apiPaths = {
   adminUsers: () => "/api/admin/users",
   adminShops: () => "/api/admin/shops",
   adminShop: (code: string) => `/api/admin/shops/${encodeURIComponent(code)}`,
+  adminProfiles: () => "/api/admin/profiles",
+  adminProfile: (id: string, version?: number) => `/api/admin/profiles/${encodeURIComponent(id)}${version === undefined ? "" : `?version=${version}`}`,
+  adminProfileTest: (id: string) => `/api/admin/profiles/${encodeURIComponent(id)}/test`,
   shops: () => "/api/shops",
   /** `search` is a query string without "?" (filters, paging, sorting) */
   repairs: (search = "") => `/api/repairs${search ? `?${search}` : ""}`,

@@ -7,7 +7,9 @@
  * - `pool` is a pg.Pool (e.g. the one createDb returns) or a connection string. A load takes two of the pool's
  *   connections: one for its transaction, one that fills the staging table by COPY (so a pool needs max ≥ 2).
  * - options: { path, kind?, profile?, shop?, loadedBy, onProgress?, today?, blockRows?, hooks? }. Without `profile` the
- *   profile is detected from the header (among profiles of `kind`, when given). `shop` fills the shop column
+ *   profile is detected from the header (among profiles of `kind`, when given). Profiles are the latest versions
+ *   stored in the warehouse (etl/profiles/profile-store.ts, seeded from etl/profiles/); the batch records the
+ *   version it used. `shop` fills the shop column
  *   of single-shop exports that have none.
  * - Stages: hash the file (sha256) first, so a file loaded before is known before anything is read; then
  *   stream it (fs → iconv-lite for Windows-1252 → csv-parse, in blocks), map the header, validate and convert
@@ -18,7 +20,8 @@
  *   that need the whole file (duplicates, hour meters) run at the end and put back whatever they reject.
  *   All of it runs in ONE transaction, so a failure leaves no row of the file behind; the attempt is then
  *   recorded as a 'failed' batch with its error message.
- * - Idempotent: a file whose sha256 was loaded before is recorded as an 'already_loaded' batch with every
+ * - Idempotent: a file whose sha256 was loaded before by the same version of its profile is recorded as an
+ *   'already_loaded' batch with every
  *   row unchanged; otherwise rows whose natural key and content hash match the warehouse are unchanged,
  *   rows with a new hash update the fact (repair lines keep the prior version in fact_repair_line_history).
  * - Counting: read = inserted + updated + unchanged + rejected, always. Exact duplicate lines within a file
@@ -31,7 +34,8 @@ import { createReadStream } from "node:fs";
 import path from "node:path";
 import pg from "pg";
 import { EtlFatalError } from "../errors.js";
-import type { ExportKind, Profile } from "../profiles/profile-schema.js";
+import { profileSchema, type ExportKind, type Profile } from "../profiles/profile-schema.js";
+import { profilesAt, type VersionedProfile } from "../profiles/profile-store.js";
 import { detectProfile, getProfile, headerReport, missingRequiredColumns, type HeaderReport } from "../profiles/registry.js";
 import { checkReadable, headerCells, readCsv, readHead, sniffEncoding } from "../sources/read-csv.js";
 import { ensureDates, seedReference, storeRejects, type MergeCounts } from "./merge-common.js";
@@ -52,8 +56,13 @@ export interface LoadProgress {
 export interface LoadFileOptions {
   path: string;
   kind?: ExportKind;
-  /** profile id (etl/profiles/<id>.json); detected from the header when absent */
+  /** profile id (the latest stored version, etl/profiles/profile-store.ts); detected from the header when absent */
   profile?: string;
+  /**
+   * An unsaved profile to read the file with instead of the stored one of its id (only with dryRun: trying an
+   * edit against a sample). It takes part in detection too.
+   */
+  profileDraft?: Profile;
   /** shop code for exports without a shop column */
   shop?: string;
   /** the name the batch records (default: the file's own name; an upload's spooled copy has another) */
@@ -103,6 +112,8 @@ export interface BatchSummary {
   sha256: string;
   kind: ExportKind;
   profile: string;
+  /** the stored version of the profile that read the file; null for a draft tried in a dry run */
+  profileVersion: number | null;
   shop: string | null;
   /** dry_run: everything was checked and merged as for a load, then rolled back (see LoadFileOptions.dryRun) */
   status: "loaded" | "already_loaded" | "dry_run";
@@ -151,6 +162,7 @@ async function fileSha256(filePath: string): Promise<string> {
 export function resolveProfile(
   filePath: string,
   opts: Pick<LoadFileOptions, "kind" | "profile" | "shop">,
+  profiles?: Profile[],
 ): { profile: Profile; header: string[]; report: HeaderReport; readAs: Profile; encodingNote: string | null } {
   checkReadable(filePath);
   const head = readHead(filePath);
@@ -160,7 +172,7 @@ export function resolveProfile(
   const shopGiven = Boolean(opts.shop);
   let profile: Profile;
   if (opts.profile) {
-    profile = getProfile(opts.profile);
+    profile = getProfile(opts.profile, profiles);
     if (opts.kind && profile.kind !== opts.kind) {
       throw new EtlFatalError("WRONG_KIND", `profile ${profile.id} reads ${profile.kind} exports, not ${opts.kind}`);
     }
@@ -171,13 +183,13 @@ export function resolveProfile(
     }
   } else {
     try {
-      profile = detectProfile((p) => headerCells(head, p), opts.kind, shopGiven);
+      profile = detectProfile((p) => headerCells(head, p), opts.kind, shopGiven, profiles);
     } catch (e) {
       // a header that fits another kind's profile: say so rather than "not recognised"
       if (opts.kind && e instanceof EtlFatalError && e.code === "HEADER_NOT_RECOGNISED") {
         let other: Profile | null = null;
         try {
-          other = detectProfile((p) => headerCells(head, p), undefined, shopGiven);
+          other = detectProfile((p) => headerCells(head, p), undefined, shopGiven, profiles);
         } catch {
           /* not another kind either */
         }
@@ -286,7 +298,13 @@ async function previewOf(client: pg.PoolClient, kind: ExportKind, n: number): Pr
 /** Loads one file; see the top of this module for the contract. */
 export async function loadFile(target: pg.Pool | string, opts: LoadFileOptions): Promise<BatchSummary> {
   const started = Date.now();
-  const { profile, report, readAs, encodingNote } = resolveProfile(opts.path, opts);
+  if (opts.profileDraft && !opts.dryRun) throw new Error("an unsaved profile can only be tried in a dry run; save it first");
+  checkReadable(opts.path);
+  const stored = await profilesAt(target);
+  const draft = opts.profileDraft ? profileSchema.parse(opts.profileDraft) : null;
+  const candidates: VersionedProfile[] = draft ? [...stored.filter((v) => v.profile.id !== draft.id), { profile: draft, version: null }] : stored;
+  const { profile, report, readAs, encodingNote } = resolveProfile(opts.path, opts, candidates.map((v) => v.profile));
+  const profileVersion = candidates.find((v) => v.profile === profile)?.version ?? null;
   const kind = profile.kind;
   const shop = opts.shop === undefined ? profile.defaultShop : normaliseCode(opts.shop);
   const headerNotes = { ignored: report.ignored.map((c) => ({ ...c, column: visibleText(c.column) })), absent: report.absent, encoding: encodingNote };
@@ -323,9 +341,11 @@ export async function loadFile(target: pg.Pool | string, opts: LoadFileOptions):
         throw new EtlFatalError("UNKNOWN_SHOP", `shop "${shop}" is not in the shop register; register it first (npm run etl -- shops register <file>)`);
       }
     }
-    const before = await client.query<{ rows_read: number }>(
-      `SELECT rows_read FROM etl_batch WHERE sha256 = $1 AND status = 'loaded' ORDER BY batch_id LIMIT 1`,
-      [sha],
+    // the same bytes read by the same version of the same profile cannot change anything; after a profile
+    // edit they can (a date format put right), so they are read again
+    const before = profileVersion === null ? { rows: [] } : await client.query<{ rows_read: number }>(
+      `SELECT rows_read FROM etl_batch WHERE sha256 = $1 AND profile = $2 AND profile_version = $3 AND status = 'loaded' ORDER BY batch_id LIMIT 1`,
+      [sha, profile.id, profileVersion],
     );
     if (before.rows.length > 0) {
       // the same bytes were loaded before: nothing can change, every row is unchanged
@@ -333,29 +353,29 @@ export async function loadFile(target: pg.Pool | string, opts: LoadFileOptions):
       if (opts.dryRun) {
         await client.query("ROLLBACK");
         return {
-          batchId: 0, file: fileName, sha256: sha, kind, profile: profile.id, shop: shop ?? null, status: "already_loaded", read,
+          batchId: 0, file: fileName, sha256: sha, kind, profile: profile.id, profileVersion, shop: shop ?? null, status: "already_loaded", read,
           inserted: 0, updated: 0, unchanged: read, rejected: 0, durationMs: Date.now() - started, header: headerNotes, mergedLines: [],
           preview: { shops: [], rows: [], rejects: [] },
         };
       }
       const ins = await client.query<{ batch_id: number }>(
-        `INSERT INTO etl_batch (file_name, sha256, profile, kind, shop_code, loaded_by, started_at, finished_at, status,
+        `INSERT INTO etl_batch (file_name, sha256, profile, profile_version, kind, shop_code, loaded_by, started_at, finished_at, status,
            rows_read, rows_inserted, rows_updated, rows_unchanged, rows_rejected)
-         VALUES ($1, $2, $3, $4, $5, $6, $7, now(), 'already_loaded', $8, 0, 0, $8, 0) RETURNING batch_id`,
-        [fileName, sha, profile.id, kind, shop ?? null, opts.loadedBy, startedAt, read],
+         VALUES ($1, $2, $3, $9, $4, $5, $6, $7, now(), 'already_loaded', $8, 0, 0, $8, 0) RETURNING batch_id`,
+        [fileName, sha, profile.id, kind, shop ?? null, opts.loadedBy, startedAt, read, profileVersion],
       );
       await client.query("COMMIT");
       opts.onProgress?.({ phase: "done", rowsRead: read, bytesRead: totalBytes, totalBytes });
       return {
-        batchId: Number(ins.rows[0].batch_id), file: fileName, sha256: sha, kind, profile: profile.id, shop: shop ?? null,
+        batchId: Number(ins.rows[0].batch_id), file: fileName, sha256: sha, kind, profile: profile.id, profileVersion, shop: shop ?? null,
         status: "already_loaded", read, inserted: 0, updated: 0, unchanged: read, rejected: 0, durationMs: Date.now() - started,
         header: headerNotes, mergedLines: [],
       };
     }
     const ins = await client.query<{ batch_id: number }>(
-      `INSERT INTO etl_batch (file_name, sha256, profile, kind, shop_code, loaded_by, started_at, status)
-       VALUES ($1, $2, $3, $4, $5, $6, $7, 'running') RETURNING batch_id`,
-      [fileName, sha, profile.id, kind, shop ?? null, opts.loadedBy, startedAt],
+      `INSERT INTO etl_batch (file_name, sha256, profile, profile_version, kind, shop_code, loaded_by, started_at, status)
+       VALUES ($1, $2, $3, $8, $4, $5, $6, $7, 'running') RETURNING batch_id`,
+      [fileName, sha, profile.id, kind, shop ?? null, opts.loadedBy, startedAt, profileVersion],
     );
     const batchId = Number(ins.rows[0].batch_id);
     await seedReference(client);
@@ -434,7 +454,7 @@ export async function loadFile(target: pg.Pool | string, opts: LoadFileOptions):
       const preview = await previewOf(client, kind, opts.previewRows ?? 20);
       await client.query("ROLLBACK");
       return {
-        batchId: 0, file: fileName, sha256: sha, kind, profile: profile.id, shop: shop ?? null, status: "dry_run", read: rowsRead, ...counts,
+        batchId: 0, file: fileName, sha256: sha, kind, profile: profile.id, profileVersion, shop: shop ?? null, status: "dry_run", read: rowsRead, ...counts,
         durationMs: Date.now() - started, header: headerNotes, mergedLines: stager!.mergedSpans, preview,
       };
     }
@@ -447,6 +467,7 @@ export async function loadFile(target: pg.Pool | string, opts: LoadFileOptions):
       sha256: sha,
       kind,
       profile: profile.id,
+      profileVersion,
       shop: shop ?? null,
       status: "loaded",
       read: rowsRead,
@@ -461,9 +482,9 @@ export async function loadFile(target: pg.Pool | string, opts: LoadFileOptions):
     if (!(e instanceof EtlFatalError)) {
       await client
         .query(
-          `INSERT INTO etl_batch (file_name, sha256, profile, kind, shop_code, loaded_by, started_at, finished_at, status, error_message)
-           VALUES ($1, $2, $3, $4, $5, $6, $7, now(), 'failed', $8)`,
-          [fileName, sha, profile.id, kind, shop ?? null, opts.loadedBy, startedAt, (e as Error).message],
+          `INSERT INTO etl_batch (file_name, sha256, profile, profile_version, kind, shop_code, loaded_by, started_at, finished_at, status, error_message)
+           VALUES ($1, $2, $3, $9, $4, $5, $6, $7, now(), 'failed', $8)`,
+          [fileName, sha, profile.id, kind, shop ?? null, opts.loadedBy, startedAt, (e as Error).message, profileVersion],
         )
         .catch(() => undefined);
     }

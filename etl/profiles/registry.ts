@@ -10,7 +10,7 @@ const profileDir = path.dirname(fileURLToPath(import.meta.url));
 
 let cache: Map<string, Profile> | null = null;
 
-/** Every profile in etl/profiles/*.json, validated against profileSchema (a broken profile throws). */
+/** Every profile in etl/profiles/*.json (the defaults the warehouse's stored versions are seeded from), validated against profileSchema (a broken profile throws). */
 export function listProfiles(): Profile[] {
   if (!cache) {
     cache = new Map();
@@ -24,9 +24,10 @@ export function listProfiles(): Profile[] {
   return [...cache.values()];
 }
 
-export function getProfile(id: string): Profile {
-  const p = listProfiles().find((x) => x.id === id);
-  if (!p) throw new EtlFatalError("UNKNOWN_PROFILE", `unknown profile "${id}" (known: ${listProfiles().map((x) => x.id).join(", ")})`);
+/** A profile by id among `profiles` (default: the files; a load passes the stored versions, etl/profiles/profile-store.ts). */
+export function getProfile(id: string, profiles: Profile[] = listProfiles()): Profile {
+  const p = profiles.find((x) => x.id === id);
+  if (!p) throw new EtlFatalError("UNKNOWN_PROFILE", `unknown profile "${id}" (known: ${profiles.map((x) => x.id).join(", ")})`);
   return p;
 }
 
@@ -98,8 +99,13 @@ export function missingRequiredColumns(profile: Profile, header: string[], shopG
  * The profile whose header matches the file: every required column present, the most mapped columns winning.
  * `firstLine` decodes the file's first line in a given profile's encoding and splits it with its delimiter.
  */
-export function detectProfile(firstLine: (p: Profile) => string[], kind: ExportKind | undefined, shopGiven: boolean): Profile {
-  const scored = listProfiles()
+export function detectProfile(
+  firstLine: (p: Profile) => string[],
+  kind: ExportKind | undefined,
+  shopGiven: boolean,
+  profiles: Profile[] = listProfiles(),
+): Profile {
+  const scored = profiles
     .filter((p) => !kind || p.kind === kind)
     .map((p) => {
       const header = firstLine(p);

@@ -36,6 +36,19 @@ export interface EtlBatchTable {
   error_message: string | null;
   /** header cells ignored, optional columns absent, merged lines (etl/load/load-file.ts BatchSummary) */
   notes: unknown;
+  /** the version of the profile the batch was read with (etl_profile_version); null before profiles were versioned */
+  profile_version: number | null;
+}
+
+/** A saved version of a mapping profile (etl/profiles/profile-store.ts). */
+export interface EtlProfileVersionTable {
+  profile_id: string;
+  version: number;
+  kind: ExportKindColumn;
+  body: unknown;
+  saved_by: string;
+  saved_at: Generated<Date>;
+  note: string | null;
 }
 
 export interface HourVerdictChangeTable {
@@ -376,6 +389,7 @@ export interface WarehouseTables {
   v_engine_hours: VEngineHoursView;
   etl_batch: EtlBatchTable;
   etl_upload: EtlUploadTable;
+  etl_profile_version: EtlProfileVersionTable;
   hour_verdict_change: HourVerdictChangeTable;
   etl_reject: EtlRejectTable;
   dim_date: DimDateTable;

@@ -105,6 +105,8 @@ export const batchSchema = z.object({
   fileName: z.string(),
   kind: exportKindSchema,
   profile: z.string(),
+  /** the version of the profile the file was read with (null for loads from before profiles were versioned) */
+  profileVersion: z.number().int().nullable(),
   shop: z.string().nullable(),
   loadedBy: z.string(),
   startedAt: z.string(),

@@ -16,6 +16,8 @@ export const pagePaths = {
   claim: "/claims/:id",
   adminUsers: "/admin/users",
   adminShops: "/admin/shops",
+  adminProfiles: "/admin/profiles",
+  adminProfile: "/admin/profiles/:id",
   adminMail: "/admin/mail",
   imports: "/imports",
   batchRejects: "/imports/batches/:id",

@@ -49,6 +49,8 @@ export function routes(qc: QueryClient): RouteObject[] {
         area({ subject: "the administration pages" }, [
           { path: pagePaths.adminUsers, lazy: lazyPage(qc, () => import("@/routes/admin-users")) },
           { path: pagePaths.adminShops, lazy: lazyPage(qc, () => import("@/routes/admin-shops")) },
+          { path: pagePaths.adminProfiles, lazy: lazyPage(qc, () => import("@/routes/admin-profiles")) },
+          { path: pagePaths.adminProfile, lazy: lazyPage(qc, () => import("@/routes/admin-profile")) },
           { path: pagePaths.adminMail, lazy: lazyPage(qc, () => import("@/routes/admin-mail")) },
         ]),
         { path: "*", lazy: () => import("@/routes/not-found") },

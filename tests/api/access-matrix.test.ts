@@ -119,6 +119,22 @@ const ACCESS: Record<string, Entry> = {
     expect: gate(ADMIN, 409),
     invalid: () => ({ path: apiPaths.adminShops(), body: { code: "S/1", name: "Bad code" } }),
   },
+  "GET /api/admin/profiles": { req: () => ({ path: apiPaths.adminProfiles() }), expect: gate(ADMIN, 200) },
+  "GET /api/admin/profiles/:id": { req: () => ({ path: apiPaths.adminProfile("generic-jobs") }), expect: gate(ADMIN, 200) },
+  // a profile that exists already: an admin is told so (409) and nothing is added
+  "POST /api/admin/profiles": {
+    req: () => ({ path: apiPaths.adminProfiles(), body: { profile: { id: "generic-jobs", kind: "jobs", description: "copy", columns: { serial: "serial" } }, basedOn: null } }),
+    expect: gate(ADMIN, 409),
+    invalid: () => ({ path: apiPaths.adminProfiles(), body: { profile: { id: "Bad Name", kind: "jobs", description: "", columns: {} }, basedOn: null } }),
+  },
+  // a profile no one has: past the role check an admin gets 404 in words, and nothing changes
+  "PUT /api/admin/profiles/:id": {
+    req: () => ({ path: apiPaths.adminProfile("no-such-profile"), body: { profile: { id: "no-such-profile", kind: "jobs", description: "", columns: {} }, basedOn: 1 } }),
+    expect: gate(ADMIN, 404),
+    invalid: () => ({ path: apiPaths.adminProfile("generic-jobs"), body: { profile: { id: "generic-jobs", kind: "jobs", description: "", columns: { serial: " " } }, basedOn: 1 } }),
+  },
+  // no sample sent: an admin is told to choose one (400)
+  "POST /api/admin/profiles/:id/test": { req: () => ({ path: apiPaths.adminProfileTest("generic-jobs") }), expect: gate(ADMIN, 400) },
   // a code no shop has: past the role check and the rules an admin gets 404 in words, and nothing changes
   "PUT /api/admin/shops/:code": {
     req: () => ({ path: apiPaths.adminShop(NOBODY), body: { name: "Nobody's shop" } }),

@@ -19,6 +19,7 @@ const OWN = "http://127.0.0.1:8080"; // the test app's public URL (tests/helpers
 const MOUNTS: Record<string, string> = {
   "server/auth/routes.ts": "/auth",
   "server/routes/admin-shops.ts": "/api/admin/shops",
+  "server/routes/admin-profiles.ts": "/api/admin/profiles",
   "server/routes/claims.ts": "/api/claims",
   "server/routes/imports.ts": "/api/imports",
 };

@@ -76,6 +76,7 @@ export interface BatchRow {
   file_name: string;
   kind: string;
   profile: string;
+  profile_version: number | null;
   shop_code: string | null;
   loaded_by: string;
   started_at: Date;
@@ -91,7 +92,7 @@ export interface BatchRow {
 }
 
 const BATCH_SELECT = sql`
-  SELECT b.batch_id::text AS batch_id, b.file_name, b.kind, b.profile, b.shop_code, b.loaded_by, b.started_at,
+  SELECT b.batch_id::text AS batch_id, b.file_name, b.kind, b.profile, b.profile_version, b.shop_code, b.loaded_by, b.started_at,
     (extract(epoch FROM b.finished_at - b.started_at) * 1000)::int AS duration_ms, b.status, b.rows_read, b.rows_inserted,
     b.rows_updated, b.rows_unchanged, b.rows_rejected, u.upload_id::text AS upload_id, b.notes
   FROM etl_batch b LEFT JOIN etl_upload u ON u.batch_id = b.batch_id`;

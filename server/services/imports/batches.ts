@@ -1,6 +1,7 @@
 import { stringify } from "csv-stringify/sync";
 import { rejectedLineKey } from "../../../etl/index.js";
 import type { Db } from "../../db/database.js";
+import { profileOfBatch } from "../../db/queries/profiles.js";
 import { getBatch, laterBatchesOf, listBatches, rejectReasons, rejectRows, type BatchRow } from "../../db/queries/imports.js";
 import { HttpError } from "../../errors.js";
 import { csvCell } from "../../../shared/csv-cell.js";
@@ -13,6 +14,7 @@ function present(b: BatchRow): Batch {
     fileName: b.file_name,
     kind: b.kind as Batch["kind"],
     profile: b.profile,
+    profileVersion: b.profile_version,
     shop: b.shop_code,
     loadedBy: b.loaded_by,
     startedAt: b.started_at.toISOString(),
@@ -46,7 +48,8 @@ function columnsOf(b: BatchRow, rows: { raw: Record<string, string> }[]): string
 export async function batchRejects(db: Db, scope: ShopScope, user: string, id: string, q: { reason?: string; offset: number; limit: number }): Promise<RejectPage> {
   const b = await visibleBatch(db, scope, user, id);
   const [reasons, rows] = await Promise.all([rejectReasons(db, id), rejectRows(db, id, q)]);
-  const keys = rows.map((r) => rejectedLineKey(b.profile, r.raw, b.shop_code));
+  const profile = await profileOfBatch(db, b.profile, b.profile_version);
+  const keys = rows.map((r) => rejectedLineKey(profile, r.raw, b.shop_code));
   const later = await laterBatchesOf(db, id, keys.filter((k): k is string => k !== null));
   const total = q.reason ? (reasons.find((r) => r.code === q.reason)?.count ?? 0) : reasons.reduce((n, r) => n + r.count, 0);
   return {

@@ -110,15 +110,8 @@ export async function runCheck(deps: ImportDeps, uploadId: string): Promise<void
   try {
     const file = await localCopy(deps, u);
     const s = await loadFile(deps.pool, { path: file, ...choices(u), fileName: u.file_name, loadedBy: u.uploaded_by, dryRun: true, previewRows: 20 });
+    const preview = previewOf(s);
     const p = s.preview!;
-    const preview: ImportPreview = {
-      read: s.read, inserted: s.inserted, updated: s.updated, unchanged: s.unchanged, rejected: s.rejected,
-      header: s.header, mergedLines: s.mergedLines, shops: p.shops,
-      // stored as JSON, an object loses its key order: the columns keep it
-      columns: p.rows.length ? Object.keys(p.rows[0]).filter((k) => k !== "line") : [],
-      rows: p.rows.map(({ line, ...values }) => ({ line, values: Object.fromEntries(Object.entries(values).map(([k, v]) => [k, cell(v)])) })),
-      rejects: p.rejects,
-    };
     const refused = outsideScope(u, p.shops);
     // a file of one shop is recorded under it (its batch then shows in that shop's history)
     const shop = u.shop_code ?? (p.shops.length === 1 ? p.shops[0].code : null);
@@ -132,6 +125,19 @@ export async function runCheck(deps: ImportDeps, uploadId: string): Promise<void
     if (!(err instanceof EtlFatalError)) logger.error({ err, uploadId }, "import check failed");
     await updateUpload(deps.db, uploadId, { status: err instanceof EtlFatalError ? "refused" : "failed", message: words }, ["checking"]);
   }
+}
+
+/** A dry run's summary as the preview the pages show (rows in the warehouse's units and codes, the first rejects). */
+export function previewOf(s: BatchSummary): ImportPreview {
+  const p = s.preview ?? { shops: [], rows: [], rejects: [] };
+  return {
+    read: s.read, inserted: s.inserted, updated: s.updated, unchanged: s.unchanged, rejected: s.rejected,
+    header: s.header, mergedLines: s.mergedLines, shops: p.shops,
+    // stored as JSON, an object loses its key order: the columns keep it
+    columns: p.rows.length ? Object.keys(p.rows[0]).filter((k) => k !== "line") : [],
+    rows: p.rows.map(({ line, ...values }) => ({ line, values: Object.fromEntries(Object.entries(values).map(([k, v]) => [k, cell(v)])) })),
+    rejects: p.rejects,
+  };
 }
 
 /** A staged value as the preview shows it: dates as YYYY-MM-DD, numbers as numbers. */

@@ -110,6 +110,7 @@ const aBatch = (over: Partial<Batch> = {}): Batch => ({
   fileName: "north-jobs.csv",
   kind: "jobs",
   profile: "generic-jobs",
+  profileVersion: 2,
   shop: "S1",
   loadedBy: "Test Analyst",
   startedAt: "2025-03-04T09:20:00Z",

@@ -17,7 +17,7 @@ export function BatchSummary({ batch: b }: { batch: Batch }) {
     <div className="space-y-3">
       <dl className="grid grid-cols-2 gap-3 text-sm sm:grid-cols-4">
         {fact("File", <>{b.fileName}{b.importId && <> · <a href={apiPaths.importFile(b.importId)} download={b.fileName} className="text-accent hover:underline">original</a></>}</>)}
-        {fact("Kind and profile", <>{kindLabels[b.kind]} · <span className="font-mono">{b.profile}</span></>)}
+        {fact("Kind and profile", <>{kindLabels[b.kind]} · <span className="font-mono">{b.profile}</span>{b.profileVersion !== null && <>, version {b.profileVersion}</>}</>)}
         {fact("Shop", <span className="font-mono">{b.shop ?? "several"}</span>)}
         {fact("Status", <BatchStatus status={b.status} />)}
         {fact("Loaded by", b.loadedBy)}

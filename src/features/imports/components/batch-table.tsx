@@ -25,7 +25,15 @@ const columns = col.columns([
     ),
   }),
   col.accessor("kind", { header: "Kind", cell: (i) => kindLabels[i.getValue()] }),
-  col.accessor("profile", { header: "Profile", cell: (i) => <span className="font-mono">{i.getValue()}</span> }),
+  col.accessor("profile", {
+    header: "Profile",
+    cell: (i) => (
+      <span className="font-mono" title={i.row.original.profileVersion === null ? undefined : `version ${i.row.original.profileVersion} of the profile`}>
+        {i.getValue()}
+        {i.row.original.profileVersion !== null && <span className="text-muted"> v{i.row.original.profileVersion}</span>}
+      </span>
+    ),
+  }),
   col.accessor("shop", { header: "Shop", cell: (i) => <span className="font-mono">{i.getValue() ?? "several"}</span> }),
   col.accessor("loadedBy", { header: "By" }),
   col.accessor("startedAt", { header: "When", cell: (i) => <time dateTime={i.getValue()}>{dateTimeInWords(i.getValue())}</time> }),
