@@ -23,7 +23,10 @@ export function Component() {
   const version = versionOf(params);
   const q = useQuery(profileQueries.detail(id, version));
   const navigate = useNavigate();
-  const [saved, setSaved] = useState<string | null>(null);
+  // a message about a save shows on the page of the profile it saved, and goes once another version is opened
+  const here = `${id}|${version ?? "latest"}`;
+  const [savedNote, setSaved] = useState<{ at: string; text: string } | null>(null);
+  const saved = savedNote?.at === here ? savedNote.text : null;
 
   return (
     <div className="space-y-4">
@@ -44,7 +47,7 @@ export function Component() {
           return (
             <>
               <p className="text-muted">
-                {kindLabels[d.profile.kind]} exports · version {d.version}
+                Reads {kindLabels[d.profile.kind].toLowerCase()} · version {d.version}
                 {old && <> of {d.latestVersion}: an older version, shown as it was (read only). <Link to={generatePath(pagePaths.adminProfile, { id })} className="text-accent underline">Open the latest</Link></>}
               </p>
               <Card>
@@ -53,7 +56,10 @@ export function Component() {
                   detail={d}
                   readOnly={old}
                   onSaved={(savedId, v, isNew) => {
-                    setSaved(isNew ? `Saved as a new profile, ${savedId}, version ${v}.` : `Saved as version ${v}. Files loaded from now on are read with it.`);
+                    setSaved({
+                      at: `${savedId}|latest`,
+                      text: isNew ? `Saved as a new profile, ${savedId}, version ${v}.` : `Saved as version ${v}. Files loaded from now on are read with it.`,
+                    });
                     if (isNew || version !== undefined) navigate(generatePath(pagePaths.adminProfile, { id: savedId }));
                   }}
                 />
