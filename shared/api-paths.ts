@@ -40,6 +40,7 @@ export const apiPaths = {
   claimClusterChoices: () => "/api/analytics/clusters",
   adminMail: () => "/api/admin/mail",
   imports: () => "/api/imports",
+  importProfiles: () => "/api/imports/profiles",
   importItem: (id: string) => `/api/imports/${encodeURIComponent(id)}`,
   importCheck: (id: string) => `/api/imports/${encodeURIComponent(id)}/check`,
   importLoad: (id: string) => `/api/imports/${encodeURIComponent(id)}/load`,

@@ -8,7 +8,8 @@ import { batchHistory, batchRejects, batchRejectsCsv } from "../services/imports
 import type { ImportDeps } from "../services/imports/import-jobs.js";
 import { cancelLoad, present, receiveUploads, recentUploads, recheck, startLoad, uploadFor } from "../services/imports/uploads.js";
 import { importRoles } from "../../shared/roles.js";
-import { batchIdParamSchema, batchListQuerySchema, importChoicesSchema, rejectQuerySchema } from "../../shared/schemas/imports.js";
+import { batchIdParamSchema, batchListQuerySchema, importChoicesSchema, rejectQuerySchema, type ImportProfileList } from "../../shared/schemas/imports.js";
+import { currentProfiles } from "../../etl/index.js";
 
 export interface ImportRouteDeps extends ImportDeps {
   /** the largest file accepted, in bytes */
@@ -55,6 +56,12 @@ export function importRoutes(deps: ImportRouteDeps): Router {
 
   router.get("/", async (req, res) => {
     res.json({ imports: await recentUploads(deps.db, actor(req), requireScope(req)) });
+  });
+
+  // the profiles a file can be read with (latest versions), for the choices of a check
+  router.get("/profiles", async (_req, res) => {
+    const body: ImportProfileList = { profiles: (await currentProfiles(deps.pool)).map((v) => ({ id: v.profile.id, kind: v.profile.kind, version: v.version! })) };
+    res.json(body);
   });
 
   router.get("/:id", async (req, res) => {

@@ -100,6 +100,20 @@ export type ImportChoices = z.infer<typeof importChoicesSchema>;
 /** GET /api/imports */
 export const importListSchema = z.object({ imports: z.array(importSchema) });
 
+/** GET /api/imports/profiles: the profiles a file can be read with, at their latest versions */
+export const importProfileListSchema = z.object({ profiles: z.array(z.object({ id: z.string(), kind: exportKindSchema, version: z.number().int() })) });
+export type ImportProfileList = z.infer<typeof importProfileListSchema>;
+
+/**
+ * Whether the dashboards show a batch yet: "current" (with when they became so) once the answers the server
+ * keeps warm were computed for data that holds it, "updating" until then.
+ */
+export const batchDashboardsSchema = z.object({
+  state: z.enum(["current", "updating"]),
+  asOf: z.string().nullable(),
+});
+export type BatchDashboards = z.infer<typeof batchDashboardsSchema>;
+
 export const batchSchema = z.object({
   id: z.string(),
   fileName: z.string(),
@@ -119,6 +133,8 @@ export const batchSchema = z.object({
   rejected: z.number().int(),
   /** the upload it came from, when loaded from the browser (its original file can be downloaded) */
   importId: z.string().nullable(),
+  /** whether the dashboards show this batch yet; null or absent when the server cannot say (no answer warm-up runs) */
+  dashboards: batchDashboardsSchema.nullable().optional(),
 });
 export type Batch = z.infer<typeof batchSchema>;
 

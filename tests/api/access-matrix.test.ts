@@ -203,6 +203,7 @@ const ACCESS: Record<string, Entry> = {
   "POST /api/claims/:id/send": { shop: "resource", req: (f, side) => ({ path: apiPaths.claimSend(f.claim[mine(side)]) }), expect: gate(CLAIMS, 503, 404) },
 
   "GET /api/imports": { req: () => ({ path: apiPaths.imports() }), expect: gate(IMPORTS, 200) },
+  "GET /api/imports/profiles": { req: () => ({ path: apiPaths.importProfiles() }), expect: gate(IMPORTS, 200) },
   // a form without a file: an allowed caller is told to choose one (400); nothing is stored
   "POST /api/imports": { req: () => ({ path: apiPaths.imports() }), expect: gate(IMPORTS, 400) },
   "GET /api/imports/:id": { req: () => ({ path: apiPaths.importItem(NO_SUCH) }), expect: gate(IMPORTS, 404) },

@@ -292,7 +292,7 @@ describe("Imports page: the load history", { timeout: 20_000 }, () => {
     expect(within(first).getByRole("link", { name: "north-jobs.csv" }).getAttribute("href")).toBe("/imports/batches/17");
     expect(within(first).getByRole("link", { name: "20 rejects of batch 17" }).getAttribute("href")).toBe("/imports/batches/17");
     expect(within(first).getAllByRole("cell").map((c) => c.textContent).slice(1, 13)).toEqual(
-      ["Repair-order lines", "generic-jobs", "S1", "Test Analyst", expect.any(String), "1 min 35 s", "Loaded", "1,250", "1,100", "90", "40", "20 rejects of batch 17"],
+      ["Repair-order lines", "generic-jobs v2", "S1", "Test Analyst", expect.any(String), "1 min 35 s", "Loaded", "1,250", "1,100", "90", "40", "20 rejects of batch 17"],
     );
     expect(second.textContent).toContain("Hour-meter readings");
 

@@ -1,12 +1,19 @@
 import { queryOptions, useMutation, useQueryClient, type QueryClient } from "@tanstack/react-query";
 import { apiGet, apiSend } from "@/lib/api-client";
 import { apiPaths } from "@shared/api-paths";
-import { importListSchema, importSchema, uploadResultSchema, type Import, type ImportChoices } from "@shared/schemas/imports";
+import { importListSchema, importProfileListSchema, importSchema, uploadResultSchema, type Import, type ImportChoices } from "@shared/schemas/imports";
 import { isActive } from "../import-words";
 import { batchQueries } from "./batch-queries";
 
 export const importQueries = {
   all: () => ["imports"] as const,
+  /** the profiles a file can be read with (latest versions), for a check's choices */
+  profiles: () =>
+    queryOptions({
+      queryKey: [...importQueries.all(), "profiles"] as const,
+      queryFn: ({ signal }) => apiGet(apiPaths.importProfiles(), importProfileListSchema, signal),
+      staleTime: 60_000,
+    }),
   /**
    * The recent uploads, newest first: what the page shows again after a reload, mid-load or not. Each one also
    * seeds its detail, which is what a card reads (and, while the server works on it, polls).

@@ -1,8 +1,10 @@
-import { useForm } from "react-hook-form";
+import { useForm, useWatch } from "react-hook-form";
+import { useQuery } from "@tanstack/react-query";
 import { zodResolver } from "@hookform/resolvers/zod";
 import { z } from "zod";
 import { exportKinds, exportKindSchema, type Import, type ImportChoices } from "@shared/schemas/imports";
 import { kindLabels } from "../import-words";
+import { importQueries } from "../api/import-queries";
 
 const formSchema = z.object({
   kind: z.union([z.literal(""), exportKindSchema]),
@@ -24,6 +26,10 @@ export function ImportChoicesForm({ imp, pending, onCheck }: { imp: Import; pend
   });
   const { errors } = form.formState;
   const id = (field: string) => `import-${imp.id}-${field}`;
+  const profiles = useQuery(importQueries.profiles());
+  const kind = useWatch({ control: form.control, name: "kind" });
+  // the profiles of the chosen kind; the one the last check used stays choosable whatever it is
+  const choosable = (profiles.data?.profiles ?? []).filter((p) => !kind || p.kind === kind || p.id === imp.profile);
   return (
     <form
       aria-label={`Choices for ${imp.fileName}`}
@@ -39,7 +45,15 @@ export function ImportChoicesForm({ imp, pending, onCheck }: { imp: Import; pend
       </div>
       <div>
         <label htmlFor={id("profile")} className="text-sm font-semibold">Profile</label>
-        <input id={id("profile")} {...form.register("profile")} placeholder="blank: detect" autoComplete="off" aria-invalid={!!errors.profile} className={`${input} font-mono`} />
+        <select id={id("profile")} {...form.register("profile")} defaultValue={imp.profile ?? ""} aria-invalid={!!errors.profile} className={`${input} font-mono`}>
+          <option value="">Detect from the header</option>
+          {imp.profile && !choosable.some((p) => p.id === imp.profile) && <option value={imp.profile}>{imp.profile}</option>}
+          {choosable.map((p) => (
+            <option key={p.id} value={p.id}>
+              {p.id} (v{p.version})
+            </option>
+          ))}
+        </select>
         {errors.profile && <span role="alert" className="text-xs text-alert">{errors.profile.message}</span>}
       </div>
       <div>
