@@ -39,6 +39,8 @@ export const apiPaths = {
   /** the cluster list a campaign case is picked from (the analytics scan with its default parameters) */
   claimClusterChoices: () => "/api/analytics/clusters",
   adminMail: () => "/api/admin/mail",
+  findings: () => "/api/findings",
+  finding: (key: string) => `/api/findings/${encodeURIComponent(key)}`,
   imports: () => "/api/imports",
   importProfiles: () => "/api/imports/profiles",
   importItem: (id: string) => `/api/imports/${encodeURIComponent(id)}`,

@@ -22,4 +22,8 @@ export const claimRoles = ["clerk", "manager"] as const satisfies readonly Role[
 export const importRoles = ["admin", "analyst", "manager"] as const satisfies readonly Role[];
 
 /** Roles that read the analytics (overview, repairs, rates, life curves, clusters). */
+/** Findings' states are read by the group-wide roles (their words may name any shop), worked by those who decide on them. */
+export const findingReadRoles = ["analyst", "director", "clerk", "admin"] as const satisfies readonly Role[];
+export const findingWorkRoles = ["analyst", "director", "admin"] as const satisfies readonly Role[];
+
 export const analyticsRoles = ["analyst", "director", "manager", "clerk", "admin"] as const satisfies readonly Role[];

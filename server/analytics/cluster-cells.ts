@@ -2,6 +2,8 @@ import { ALL, collapseBuildWindows, type CellDimensions, type MonthRange, type S
 
 /** One finest-grain row of the scan cube, as aggregated in SQL. */
 export interface CubeRow {
+  /** the part whose failures `failures` counts (a part-by-part scan); absent at the system level */
+  component?: string;
   engineFamily: string;
   buildMonth: string; // YYYY-MM
   lot: string;
@@ -159,6 +161,7 @@ export function failureIdsIn(rows: readonly CubeRow[], d: CellDimensions): strin
   const b = d.build;
   for (const r of rows) {
     if (!r.repairLineIds.length) continue;
+    if (d.component !== undefined && d.component !== ALL && d.component !== r.component) continue;
     if (d.engineFamily !== ALL && d.engineFamily !== r.engineFamily) continue;
     if (d.supplierLot !== ALL && d.supplierLot !== r.lot) continue;
     if (d.shop !== ALL && d.shop !== r.shopCode) continue;
@@ -166,6 +169,31 @@ export function failureIdsIn(rows: readonly CubeRow[], d: CellDimensions): strin
     if (d.hourBand !== ALL && d.hourBand !== r.hourBand) continue;
     if (b !== ALL && (r.buildMonth < b.from || r.buildMonth > b.to)) continue;
     for (const id of r.repairLineIds) out.push(id);
+  }
+  return out;
+}
+
+/**
+ * The cells of a part-by-part scan: the cube's rows grouped by part, each group's cells built on its own
+ * ({@link buildScanCells}: expected failures from that part's own rates per stratum) and labelled with the
+ * part, so a cell counts the failures of one part only and cells of different parts never contain each other.
+ * Tested together afterwards, the false-discovery control spans every part's cells.
+ */
+export function buildPartCells(
+  rows: readonly CubeRow[],
+  by: Standardisation = "hour+temperature",
+  opts: { withIds?: boolean } = {},
+): ScanCell[] {
+  const byPart = new Map<string, CubeRow[]>();
+  for (const r of rows) {
+    const k = r.component ?? ALL;
+    const list = byPart.get(k);
+    if (list) list.push(r);
+    else byPart.set(k, [r]);
+  }
+  const out: ScanCell[] = [];
+  for (const [component, group] of [...byPart].sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0))) {
+    for (const c of buildScanCells(group, by, opts)) out.push({ ...c, dimensions: { component, ...c.dimensions } });
   }
   return out;
 }

@@ -14,6 +14,11 @@ export interface MonthRange {
 
 /** Where a cell sits in the cube; ALL on a dimension means "every value". */
 export interface CellDimensions {
+  /**
+   * The part whose failures the cell counts (a component code), when the scan runs part by part; absent or
+   * ALL when it counts the scanned components together (the system level).
+   */
+  component?: string | All;
   engineFamily: string | All;
   build: MonthRange | All;
   supplierLot: string | All;
@@ -70,6 +75,8 @@ export interface ClusterScanResult {
 
 /** Display names for coded dimension values (shop codes, band ids); identity when absent. */
 export interface DimensionLabels {
+  /** the part's name for a component code, starting the sentence in place of the subject */
+  component?: (code: string) => string;
   shop?: (code: string) => string;
   temperatureBand?: (id: string) => string;
   hourBand?: (id: string) => string;
@@ -85,10 +92,14 @@ export interface ClusterScanOptions {
   labels?: DimensionLabels;
 }
 
-const SCALAR_DIMENSIONS = ["engineFamily", "supplierLot", "shop", "temperatureBand", "hourBand"] as const;
+const SCALAR_DIMENSIONS = ["component", "engineFamily", "supplierLot", "shop", "temperatureBand", "hourBand"] as const;
+type ScalarDimension = (typeof SCALAR_DIMENSIONS)[number];
+
+/** A scalar dimension's value; a cell without a component is at the system level, i.e. ALL parts. */
+const valueOf = (d: CellDimensions, k: ScalarDimension): string => d[k] ?? ALL;
 
 function sameDimensions(a: CellDimensions, b: CellDimensions): boolean {
-  if (SCALAR_DIMENSIONS.some((d) => a[d] !== b[d])) return false;
+  if (SCALAR_DIMENSIONS.some((d) => valueOf(a, d) !== valueOf(b, d))) return false;
   if (a.build === ALL || b.build === ALL) return a.build === b.build;
   return a.build.from === b.build.from && a.build.to === b.build.to;
 }
@@ -100,7 +111,7 @@ function sameDimensions(a: CellDimensions, b: CellDimensions): boolean {
 export function containsCell(broad: CellDimensions, specific: CellDimensions): boolean {
   if (sameDimensions(broad, specific)) return false;
   for (const d of SCALAR_DIMENSIONS) {
-    if (broad[d] !== ALL && broad[d] !== specific[d]) return false;
+    if (valueOf(broad, d) !== ALL && valueOf(broad, d) !== valueOf(specific, d)) return false;
   }
   if (broad.build === ALL) return true;
   if (specific.build === ALL) return false;
@@ -138,6 +149,7 @@ export function describeCell(cell: ScannedCell, subject: string, labels: Dimensi
   if (d.temperatureBand !== ALL) tail.push(`daily minimum ${labels.temperatureBand?.(d.temperatureBand) ?? d.temperatureBand}`);
   if (d.hourBand !== ALL) tail.push(`at ${labels.hourBand?.(d.hourBand) ?? d.hourBand}`);
   const where = [head.join(" "), ...tail].filter((s) => s.length > 0).join(", ");
+  if (d.component !== undefined && d.component !== ALL) subject = labels.component?.(d.component) ?? d.component;
   const r = cell.ratio;
   const failures = cell.observed === 1 ? "1 failure" : `${cell.observed} failures`;
   const verb = cell.expected === 1 ? "was" : "were";
@@ -236,7 +248,7 @@ export function scanClusters(cells: readonly ScanCell[], options: ClusterScanOpt
 
 /**
  * For each cell of `cells`, the cells of the same list it contains ({@link containsCell}), in list order.
- * Cells are indexed once under each of the 2⁵ generalisations of their scalar dimensions, so a broad cell
+ * Cells are indexed once under each of the 2⁶ generalisations of their scalar dimensions, so a broad cell
  * finds its candidates by one look-up instead of a pass over every cell (the scan's significant cells
  * number in the thousands on a large warehouse); build windows are then compared as month numbers.
  */
@@ -244,7 +256,7 @@ export function containedIn<C extends ScanCell>(cells: readonly C[]): (broad: C)
   const months = new Map<C, [number, number] | null>();
   const buckets = new Map<string, C[]>();
   const keyOf = (d: CellDimensions, mask: number) =>
-    `${mask}\u0001${SCALAR_DIMENSIONS.map((k, i) => (mask & (1 << i) ? ALL : d[k])).join("\u0001")}`;
+    `${mask}\u0001${SCALAR_DIMENSIONS.map((k, i) => (mask & (1 << i) ? ALL : valueOf(d, k))).join("\u0001")}`;
   for (const c of cells) {
     const b = c.dimensions.build;
     months.set(c, b === ALL ? null : [monthIndex(b.from), monthIndex(b.to)]);
@@ -256,7 +268,7 @@ export function containedIn<C extends ScanCell>(cells: readonly C[]): (broad: C)
     }
   }
   return (broad) => {
-    const mask = SCALAR_DIMENSIONS.reduce((m, k, i) => (broad.dimensions[k] === ALL ? m | (1 << i) : m), 0);
+    const mask = SCALAR_DIMENSIONS.reduce((m, k, i) => (valueOf(broad.dimensions, k) === ALL ? m | (1 << i) : m), 0);
     const wide = months.get(broad) ?? (broad.dimensions.build === ALL ? null : [monthIndex(broad.dimensions.build.from), monthIndex(broad.dimensions.build.to)]);
     return (buckets.get(keyOf(broad.dimensions, mask)) ?? []).filter((s) => {
       const narrow = months.get(s)!;
@@ -283,7 +295,7 @@ export function collapseBuildWindows(cells: readonly ScanCell[]): ScanCell[] {
       out.push(cell);
       continue;
     }
-    const key = JSON.stringify(SCALAR_DIMENSIONS.map((d) => cell.dimensions[d]));
+    const key = JSON.stringify(SCALAR_DIMENSIONS.map((d) => valueOf(cell.dimensions, d)));
     const group = groups.get(key);
     if (group) group.push(cell);
     else groups.set(key, [cell]);

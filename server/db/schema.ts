@@ -25,6 +25,40 @@ export interface AppUserVisitTable {
   previous_cluster_ids: string[] | null;
 }
 
+/** A finding worked from new to closed, known by its key from load to load (migrations/0056). */
+export interface FindingStateTable {
+  finding_key: string;
+  status: ColumnType<"new" | "investigating" | "confirmed" | "dismissed", "new" | "investigating" | "confirmed" | "dismissed" | undefined, "new" | "investigating" | "confirmed" | "dismissed">;
+  owner: string | null;
+  dismissed_reason: string | null;
+  dismissed_at_observed: number | null;
+  description: string;
+  first_seen_at: Generated<Date>;
+  changed_at: Generated<Date>;
+  seen_version: string;
+  observed: number;
+  expected: number;
+  lower: number;
+  prev_version: string | null;
+  prev_observed: number | null;
+  prev_expected: number | null;
+  prev_lower: number | null;
+  figures_changed_at: Generated<Date>;
+}
+
+/** Who changed what on a finding, and why. */
+export interface FindingEventTable {
+  event_id: Generated<string>;
+  finding_key: string;
+  at: Generated<Date>;
+  actor: string;
+  actor_sub: string | null;
+  kind: "found" | "status" | "owner" | "note" | "figures";
+  from_value: string | null;
+  to_value: string | null;
+  note: string | null;
+}
+
 // Warehouse tables are declared in warehouse-schema.ts and merged here.
 import type { WarehouseTables } from "./warehouse-schema.js";
 
@@ -32,6 +66,8 @@ export interface Database extends WarehouseTables {
   app_session: AppSessionTable;
   app_user: AppUserTable;
   app_user_visit: AppUserVisitTable;
+  finding_state: FindingStateTable;
+  finding_event: FindingEventTable;
 }
 
 export type AppUser = Selectable<AppUserTable>;

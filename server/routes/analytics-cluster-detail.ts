@@ -69,7 +69,7 @@ async function clusterDetail(db: Db, scope: ShopScope, id: string, query: Record
   return {
     cluster,
     components: found.components,
-    method: clusterMethod(found.query.standardise),
+    method: clusterMethod(found.query.standardise, found.query.level),
     caution: clusterCaution,
     lines: lines.rows,
     machines: [...machines.values()].sort((a, b) => b.failures - a.failures || a.serial.localeCompare(b.serial)),

@@ -2,9 +2,11 @@ import { Router } from "express";
 import { allow, requireScope } from "../auth/require-user.js";
 import type { Db } from "../db/database.js";
 import type { ClusterList } from "../../shared/schemas/analytics-clusters.js";
-import { clusterCaution, clusterMethod, clustersOf, findClusters } from "../services/cluster-finder.js";
+import { clusterCaution, clusterMethod, clustersOf, findClusters, findingsOf } from "../services/cluster-finder.js";
 import { analyticsRoles } from "../../shared/roles.js";
 import { AnswerCache, LARGE_ANSWERS } from "../services/answer-cache.js";
+import { recordFindings } from "../db/queries/findings.js";
+import { dataVersion } from "../db/queries/data-version.js";
 
 /** GET /api/analytics/clusters: the ranked clusters of the scan for the caller's scope and filters, kept per load. */
 export function analyticsClusterRoutes(db: Db): Router {
@@ -15,12 +17,19 @@ export function analyticsClusterRoutes(db: Db): Router {
     await answers.send(req, res, scope, async () => {
       const found = await findClusters(db, scope, req.query);
       const { components: comps, query: q, scan } = found;
+      const findings = findingsOf(found);
+      // the group-wide scan at its defaults is the one whose figures findings are tracked by (once per data version)
+      if (scope.kind === "all" && Object.keys(req.query).length === 0) {
+        await recordFindings(db, await dataVersion(db), findings.map((f) => ({ key: f.key, description: f.sentence, observed: f.lead.observed, expected: f.lead.expected, lower: f.lead.lower })));
+      }
       const body: ClusterList = {
         components: comps,
-        method: clusterMethod(q.standardise),
+        level: q.level,
+        method: clusterMethod(q.standardise, q.level),
         caution: clusterCaution,
         cellsTested: scan.cellsTested,
         qThreshold: scan.qThreshold,
+        findings: findings.slice(0, q.limit),
         clusters: clustersOf(found).slice(0, q.limit),
       };
       return body;

@@ -11,6 +11,7 @@ import { repairCsvRoutes, repairRoutes } from "./repairs.js";
 import { overviewRoutes } from "./overview.js";
 import { clusterDetailRoutes } from "./analytics-cluster-detail.js";
 import { batchRoutes, importRoutes } from "./imports.js";
+import { findingRoutes } from "./findings.js";
 
 /** Mounts the resource routers under /api. Each router declares its roles with allow(). */
 export function apiRoutes(
@@ -33,5 +34,6 @@ export function apiRoutes(
   router.use("/overview", overviewRoutes(db));
   router.use("/imports", importRoutes({ db, pool, storage: services.storage, boss: services.boss, ...imports }));
   router.use("/batches", batchRoutes({ db }));
+  router.use("/findings", findingRoutes(db));
   return router;
 }

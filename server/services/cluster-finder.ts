@@ -2,7 +2,11 @@ import { createHash } from "node:crypto";
 import type { Db } from "../db/database.js";
 import type { ShopScope } from "../../shared/schemas/me.js";
 import { analyticsFiltersSchema, type AnalyticsFilters } from "../../shared/schemas/analytics-filters.js";
-import { clusterQuerySchema, type Cluster, type ClusterQuery } from "../../shared/schemas/analytics-clusters.js";
+import { clusterQuerySchema, type Cluster, type ClusterQuery, type Finding } from "../../shared/schemas/analytics-clusters.js";
+import { ALL } from "../analytics/cluster-scan.js";
+import { facetWords, findingSentence, groupFindings } from "../analytics/findings.js";
+import { findingKey } from "../../shared/finding-key.js";
+import { hourBandLabel, temperatureBandLabel } from "../../shared/bands.js";
 import { scanCells } from "../db/queries/analytics-clusters.js";
 import type { ClusterSignal } from "../analytics/cluster-scan.js";
 import { scanOnWorker } from "./cluster-scan/scan-pool.js";
@@ -11,10 +15,14 @@ import { ResultCache } from "./result-cache.js";
 import { dataVersion } from "../db/queries/data-version.js";
 import { components } from "../../shared/catalog.js";
 
-export const clusterMethod = (standardise: "hour" | "hour+temperature") =>
-  standardise === "hour+temperature"
-    ? "Expected failures from the scanned group's own rates per engine hour in each hour band × temperature band (indirect standardisation), so cold weather alone is not a cluster; one-sided exact Poisson p-value per cell, Benjamini–Hochberg q over all cells tested."
-    : "Expected failures from the scanned group's own rates per engine hour in each hour band (indirect standardisation); one-sided exact Poisson p-value per cell, Benjamini–Hochberg q over all cells tested.";
+export const clusterMethod = (standardise: "hour" | "hour+temperature", level: "component" | "system" = "component") =>
+  (level === "component"
+    ? "Each part is scanned on its own: a cell counts the failures of one part, and a supplier lot is charged only with failures of the part it supplied (the heater-plug lot with heater-plug failures). "
+    : "The parts are scanned together; the supplier-lot dimension applies only when the heater plug is the one part scanned. ") +
+  (standardise === "hour+temperature"
+    ? "Expected failures from the part's own rates per engine hour in each hour band × temperature band of the scanned group (indirect standardisation), so cold weather alone is not a cluster; one-sided exact Poisson p-value per cell, Benjamini–Hochberg q over the cells of each part."
+    : "Expected failures from the part's own rates per engine hour in each hour band of the scanned group (indirect standardisation); one-sided exact Poisson p-value per cell, Benjamini–Hochberg q over the cells of each part.") +
+  " Signals that describe the same failures are grouped into one finding, the narrower ones shown as its facets.";
 
 export const clusterCaution =
   "A cluster is an association in the data, a place to look: confirm it against the repair lines and the parts before acting on it.";
@@ -50,9 +58,9 @@ export async function findClusters(db: Db, scope: ShopScope, raw: Record<string,
   const filters = analyticsFiltersSchema.parse({ ...raw, components: comps.join(",") });
   let cache = caches.get(db);
   if (!cache) caches.set(db, (cache = new ResultCache<ScanSummary>(50)));
-  const key = JSON.stringify([scope, filters, query.standardise, query.q]);
+  const key = JSON.stringify([scope, filters, query.standardise, query.q, query.level]);
   const scan = await cache.get(key, await dataVersion(db), async () => {
-    const rows = await scanCells(db, scope, filters);
+    const rows = await scanCells(db, scope, filters, query.level);
     // the CPU-bound part on a worker thread, so other requests are answered meanwhile
     return scanOnWorker({ rows, standardise: query.standardise, subject: subjectFor(comps), qThreshold: query.q });
   });
@@ -77,6 +85,35 @@ export const toCluster = (comps: string[], s: ClusterSignal): Cluster => ({
 });
 
 const listed = new WeakMap<ScanSummary, Cluster[]>();
+const grouped = new WeakMap<ScanSummary, Finding[]>();
+
+const partName = (code: string) => components.find((c) => c.code === code)?.name ?? code;
+
+/** The scan's signals as findings (one per underlying signal, server/analytics/findings.ts), worked out once per scan. */
+export function findingsOf(found: Pick<ClusterFinding, "components" | "scan" | "query">): Finding[] {
+  let list = grouped.get(found.scan);
+  if (!list) {
+    const byDims = new Map(found.scan.signals.map((s, i) => [s, clustersOf(found)[i]]));
+    const labels = { temperatureBand: (id: string) => temperatureBandLabel(id, "F"), hourBand: hourBandLabel };
+    const subject = subjectFor(found.components);
+    list = groupFindings(found.scan.signals).map((f) => {
+      const part = f.lead.dimensions.component && f.lead.dimensions.component !== ALL ? f.lead.dimensions.component : null;
+      return {
+        id: byDims.get(f.lead)!.id,
+        key: findingKey(f.lead.dimensions),
+        rank: f.rank,
+        part,
+        partName: part ? partName(part) : subject,
+        sentence: findingSentence(f, { partName, subject, standardise: found.query.standardise, labels }),
+        lead: byDims.get(f.lead)!,
+        facets: f.facets.map((x, i) => ({ cluster: byDims.get(x)!, kind: f.facetKinds[i], words: facetWords(f.lead.dimensions, x.dimensions, labels) })),
+        cells: f.cells,
+      };
+    });
+    grouped.set(found.scan, list);
+  }
+  return list;
+}
 
 /** Every signal of a scan as the API shows it, worked out once per scan (ids are hashes; lists are long). */
 export function clustersOf(found: Pick<ClusterFinding, "components" | "scan">): Cluster[] {

@@ -6,12 +6,16 @@ export const clusterQuerySchema = z.object({
   components: z.preprocess((v) => (v === undefined || v === "" ? undefined : String(v).split(",").filter(Boolean)), z.array(z.string().max(40)).optional()),
   q: z.coerce.number().gt(0).lt(1).default(0.05),
   standardise: z.enum(["hour", "hour+temperature"]).default("hour+temperature"),
+  /** part by part (each finding names the part; a lot is charged only with its own part's failures) or the parts together */
+  level: z.enum(["component", "system"]).default("component"),
   limit: z.coerce.number().int().min(1).max(200).default(50),
 });
 export type ClusterQuery = z.infer<typeof clusterQuerySchema>;
 
 const monthRange = z.object({ from: z.string(), to: z.string() });
 export const clusterDimensionsSchema = z.object({
+  /** the part a cell counts (part-by-part scans); absent at the system level */
+  component: z.string().optional(),
   engineFamily: z.string(),
   build: z.union([z.literal("all"), monthRange]),
   supplierLot: z.string(),
@@ -38,13 +42,36 @@ export const clusterSchema = z.object({
 });
 export type Cluster = z.infer<typeof clusterSchema>;
 
+/** One underlying signal: the cluster that leads it and the narrower or overlapping clusters inside it (server/analytics/findings.ts). */
+export const findingSchema = z.object({
+  /** the lead cluster's id */
+  id: z.string(),
+  /** the key its state is kept under from load to load (GET /api/findings) */
+  key: z.string(),
+  rank: z.number(),
+  /** the part it counts (a component code), or null at the system level */
+  part: z.string().nullable(),
+  partName: z.string(),
+  /** what, where, how much worse than expected with its interval, and what it is not */
+  sentence: z.string(),
+  lead: clusterSchema,
+  facets: z.array(z.object({ cluster: clusterSchema, kind: z.enum(["narrower", "same-failures"]), words: z.string() })),
+  /** significant cells of the scan that support it */
+  cells: z.number(),
+});
+export type Finding = z.infer<typeof findingSchema>;
+
 /** GET /api/analytics/clusters */
 export const clusterListSchema = z.object({
   components: z.array(z.string()),
+  level: z.enum(["component", "system"]),
   method: z.string(),
   caution: z.string(),
   cellsTested: z.number(),
   qThreshold: z.number(),
+  /** the scan's signals grouped, one per underlying signal, ranked by their leads */
+  findings: z.array(findingSchema),
+  /** every kept signal (the findings' leads and facets), ranked */
   clusters: z.array(clusterSchema),
 });
 export type ClusterList = z.infer<typeof clusterListSchema>;

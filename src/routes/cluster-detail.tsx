@@ -12,7 +12,9 @@ import { pagePaths } from "@/app/page-paths";
 import type { PrimeCache } from "@/app/page-loader";
 import { hourBandLabel, temperatureBandLabel } from "@shared/bands";
 import type { ClusterDetail } from "@shared/schemas/analytics-clusters";
-import { claimRoles } from "@shared/roles";
+import { claimRoles, findingReadRoles } from "@shared/roles";
+import { findingKey } from "@shared/finding-key";
+import { FindingWorkPanel } from "@/features/clusters/components/finding-work";
 import { meQueries } from "@/features/session/api/me-queries";
 
 function Summary({ d }: { d: ClusterDetail }) {
@@ -52,6 +54,7 @@ export function Component() {
   const q = useQuery(clusterQueries.detail(id, search));
   const { data: me } = useSuspenseQuery(meQueries.current());
   const canClaim = (me?.roles ?? []).some((r) => (claimRoles as readonly string[]).includes(r));
+  const readsFindings = (me?.roles ?? []).some((r) => (findingReadRoles as readonly string[]).includes(r));
   return (
     <div className="space-y-4">
       <Link to={`/clusters${search ? `?${search}` : ""}`} className="text-sm text-accent">← All clusters</Link>
@@ -63,13 +66,12 @@ export function Component() {
               {canClaim ? (
                 <Link to={`${pagePaths.claimNew}?cluster=${encodeURIComponent(d.cluster.id)}`} className="rounded bg-accent px-3 py-2 text-sm font-semibold text-white">Open a warranty case</Link>
               ) : (
-                <div className="text-right">
-                  <button type="button" disabled aria-describedby="case-reason" className="cursor-not-allowed rounded bg-line px-3 py-2 text-sm font-semibold text-muted">Open a warranty case</button>
-                  <p id="case-reason" className="mt-1 max-w-64 text-xs text-muted">A warranty clerk or a shop manager opens warranty cases; send them this page's link.</p>
-                </div>
+                // not offered to a role that cannot open one: said, so the analyst knows whom to send the page to
+                <p className="max-w-64 text-right text-xs text-muted">A warranty clerk or a shop manager opens warranty cases from this page; send them its link.</p>
               )}
             </div>
             <Summary d={d} />
+            {readsFindings && <FindingWorkPanel findingKey={findingKey(d.cluster.dimensions)} />}
             <div className="grid gap-4 lg:grid-cols-2">
               <div className="lg:col-span-2">
                 <ChartCard title="Failures by month" subtitle="When the cluster's repair orders opened" options={clusterTimelineChart(d, palette)} rows={d.timeline} columns={[{ key: "month", label: "Month" }, { key: "failures", label: "Failures" }]} filename={`cluster-${d.cluster.id}-months.csv`} />

@@ -76,6 +76,8 @@ const BENCHMARKS: readonly Role[] = ["admin", "analyst", "director", "manager"];
 const CLAIMS: readonly Role[] = ["clerk", "manager"];
 const ADMIN: readonly Role[] = ["admin"];
 const IMPORTS: readonly Role[] = ["admin", "analyst", "manager"];
+const FINDINGS_READ: readonly Role[] = ["analyst", "director", "clerk", "admin"];
+const FINDINGS_WORK: readonly Role[] = ["analyst", "director", "admin"];
 /** an upload or batch id no caller has: past the role check the answer is 404 in words */
 const NO_SUCH = "999999999";
 
@@ -202,6 +204,14 @@ const ACCESS: Record<string, Entry> = {
   "GET /api/claims/:id/lines.csv": { shop: "resource", req: (f, side) => ({ path: apiPaths.claimLinesCsv(f.claim[mine(side)]) }), expect: gate(CLAIMS, 200, 404) },
   "POST /api/claims/:id/send": { shop: "resource", req: (f, side) => ({ path: apiPaths.claimSend(f.claim[mine(side)]) }), expect: gate(CLAIMS, 503, 404) },
 
+  "GET /api/findings": { req: () => ({ path: apiPaths.findings() }), expect: gate(FINDINGS_READ, 200) },
+  // a key no finding has: past the role check the answer is 404 in words
+  "GET /api/findings/:key": { req: () => ({ path: apiPaths.finding("part=none;lot=none") }), expect: gate(FINDINGS_READ, 404) },
+  "POST /api/findings/:key": {
+    req: () => ({ path: apiPaths.finding("part=none;lot=none"), body: { status: "investigating" } }),
+    expect: gate(FINDINGS_WORK, 404),
+    invalid: () => ({ path: apiPaths.finding("part=none;lot=none"), body: { status: "dismissed" } }),
+  },
   "GET /api/imports": { req: () => ({ path: apiPaths.imports() }), expect: gate(IMPORTS, 200) },
   "GET /api/imports/profiles": { req: () => ({ path: apiPaths.importProfiles() }), expect: gate(IMPORTS, 200) },
   // a form without a file: an allowed caller is told to choose one (400); nothing is stored

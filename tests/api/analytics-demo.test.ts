@@ -54,6 +54,44 @@ describe("GET /api/analytics/clusters on the demo world", () => {
     expect(top.description).toMatch(/lot BT-2109: \d+ failures where [\d.]+ were expected/);
   });
 
+  it("makes the planted lot one finding at the top, of heater-plug failures only, with its shop and temperature cells inside it", async () => {
+    const body = await get<ClusterList>("/api/analytics/clusters");
+    expect(body.level).toBe("component");
+    const top = body.findings[0];
+    expect(top.part).toBe("ENG-CSA-HPLUG");
+    expect(top.lead.dimensions).toMatchObject({ component: "ENG-CSA-HPLUG", supplierLot: "BT-2109", engineFamily: "K26-4R" });
+    expect(top.sentence).toMatch(/^Heater-plug set failures with lot BT-2109 \(engine family K26-4R, built [A-Z][a-z]{2}.*\) happen about [\d.]+ times as often as expected for the same engine hours and weather \(95 % CI [\d.]+–[\d.]+\)/);
+    // the preheat relay has no finding of its own on this world (nothing is planted on it)
+    expect(body.findings.filter((f) => f.part === "ENG-CSA-RELAY")).toEqual([]);
+    // no other finding is of that lot: its slices are facets
+    expect(body.findings.slice(1).filter((f) => f.lead.dimensions.supplierLot === "BT-2109")).toEqual([]);
+    const facetDims = top.facets.map((x) => x.cluster.dimensions);
+    expect(facetDims.some((d) => d.shop !== "all")).toBe(true);
+    expect(facetDims.some((d) => d.temperatureBand !== "all")).toBe(true);
+    expect(top.cells).toBeGreaterThan(top.facets.length);
+    // every line the lot finding holds is a heater-plug line (no preheat relay, fuse or grid heater lines)
+    const lines = [...new Set([top.lead, ...top.facets.map((x) => x.cluster)].flatMap((c) => c.repairLineIds))];
+    const parts = await t.pool.query<{ code: string; n: number }>(
+      `SELECT c.component_code AS code, count(*)::int AS n FROM fact_repair_line f JOIN dim_component c USING (component_key)
+       WHERE f.repair_line_key = ANY($1::bigint[]) GROUP BY 1`,
+      [lines],
+    );
+    expect(parts.rows).toEqual([{ code: "ENG-CSA-HPLUG", n: lines.length }]);
+  });
+
+  it("charges no lot to a part other than the heater plug, and reports neither the hose nor the comeback shop as a lot", async () => {
+    const body = await get<ClusterList>("/api/analytics/clusters?components=ENG-CSA-HPLUG,ENG-CSA-RELAY,ENG-CSA-GRID,HYD-LIN-HOSE");
+    for (const c of body.clusters) {
+      if (c.dimensions.component !== "ENG-CSA-HPLUG") expect(["all", "not tracked"]).toContain(c.dimensions.supplierLot);
+    }
+    // the comeback shop's excess, if any shows, is a shop's, never a lot's
+    for (const f of body.findings.filter((x) => x.lead.dimensions.shop === "S5")) expect(f.lead.dimensions.supplierLot).toBe("all");
+    // at the system level the parts are counted together and the plug's lot is not charged with them
+    const system = await get<ClusterList>("/api/analytics/clusters?level=system");
+    expect(system.level).toBe("system");
+    for (const c of system.clusters) expect(c.dimensions.supplierLot).toBe("all");
+  });
+
   it("answers 401 without a session and 400 with a filter in words", async () => {
     await request(t.app).get("/api/analytics/clusters").expect(401);
     const res = await request(t.app).get("/api/analytics/clusters?from=2024-13-01").set("Cookie", analyst).expect(400);

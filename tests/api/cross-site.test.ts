@@ -22,6 +22,7 @@ const MOUNTS: Record<string, string> = {
   "server/routes/admin-profiles.ts": "/api/admin/profiles",
   "server/routes/claims.ts": "/api/claims",
   "server/routes/imports.ts": "/api/imports",
+  "server/routes/findings.ts": "/api/findings",
 };
 
 function stateChangingRoutes(): { file: string; method: string; path: string }[] {

@@ -24,26 +24,46 @@ describe("the analyst's week in Chromium", () => {
     await env.browser.screenshot("analyst-01-overview");
   }, 180_000);
 
-  it("finds the planted heater-plug cluster (lot BT-2109, K26-4R) at the top of Clusters", async () => {
+  it("finds the planted heater-plug lot (BT-2109, K26-4R) as the first finding of Clusters, its slices inside it", async () => {
     await nav("Clusters").click();
-    const first = page().getByRole("list", { name: "Ranked clusters" }).getByRole("listitem").first();
+    const first = page().getByRole("list", { name: "Findings" }).getByRole("listitem").first();
     await first.waitFor(SLOW);
     const text = await first.innerText();
-    expect(text).toMatch(/lot BT-2109/);
-    expect(text).toMatch(/K26-4R/);
+    expect(text).toMatch(/^HEATER-PLUG SET|Heater-plug set/);
+    expect(text).toMatch(/Heater-plug set failures with lot BT-2109 \(engine family K26-4R/);
+    expect(text).toMatch(/Inside this finding \(\d+\)/);
+    // no second finding names the lot
+    expect(await page().getByRole("list", { name: "Findings" }).getByRole("listitem").filter({ hasText: "lot BT-2109" }).count()).toBe(1);
     await env.browser.screenshot("analyst-02-clusters");
   }, 180_000);
 
   let lineIds: string[] = [];
   it("opens the cluster and sees its repair lines, machines and charts", async () => {
-    await page().getByRole("list", { name: "Ranked clusters" }).getByRole("listitem").first().getByRole("link").click();
+    await page().getByRole("list", { name: "Findings" }).getByRole("listitem").first().getByRole("link").first().click();
     await page().getByRole("heading", { name: /^Repair lines \(\d+\)$/ }).waitFor(SLOW);
     const hrefs = await page().locator('a[href^="/repairs/"]').evaluateAll((as) => as.map((a) => a.getAttribute("href")!));
     lineIds = [...new Set(hrefs.map((h) => h.slice("/repairs/".length)))];
     expect(lineIds.length).toBeGreaterThan(10);
     expect(await chartCount()).toBeGreaterThanOrEqual(3);
-    await page().getByRole("button", { name: "Open a warranty case" }).or(page().getByRole("link", { name: "Open a warranty case" })).waitFor();
+    // an analyst is not offered a warranty case (it would be refused), but is told who opens one; the finding is theirs to work
+    expect(await page().getByRole("button", { name: "Open a warranty case" }).or(page().getByRole("link", { name: "Open a warranty case" })).count()).toBe(0);
+    await page().getByText("A warranty clerk or a shop manager opens warranty cases from this page").waitFor();
+    await page().getByRole("heading", { name: "Working this finding" }).waitFor();
     await env.browser.screenshot("analyst-03-cluster-detail");
+  }, 180_000);
+
+  it("sets the finding to investigating with a note, and sees it in its history and on the list", async () => {
+    const panel = page().getByRole("region", { name: "Working this finding" });
+    await panel.getByLabel("Status").selectOption("investigating");
+    await panel.getByLabel("Note").fill("asking two cold shops for the removed plugs");
+    await panel.getByRole("button", { name: "Save" }).click();
+    const history = panel.getByRole("list", { name: "History of the finding" });
+    await history.getByText(/status New → Investigating — asking two cold shops for the removed plugs/).waitFor(SLOW);
+    await history.getByText(/found by the scan/).waitFor();
+    await nav("Clusters").click();
+    const first = page().getByRole("list", { name: "Findings" }).getByRole("listitem").first();
+    await first.getByText("Investigating", { exact: true }).waitFor(SLOW);
+    await env.browser.screenshot("analyst-03b-finding-investigating");
   }, 180_000);
 
   it("opens a repair with compression readings and sees the table with average and spread", async () => {
@@ -86,7 +106,8 @@ describe("the analyst's week in Chromium", () => {
     await page().getByRole("heading", { name: /Weibull probability plot/ }).waitFor(SLOW);
     await page().getByRole("heading", { name: /Kaplan–Meier/ }).waitFor(SLOW);
     await page().getByRole("heading", { name: /mean cumulative function/ }).waitFor(SLOW);
-    expect(await chartCount()).toBe(3);
+    await page().getByRole("heading", { name: /cost MCF/ }).waitFor(SLOW);
+    expect(await chartCount()).toBe(4);
     await page().getByRole("columnheader", { name: /β shape/ }).waitFor();
     expect(await page().locator("[data-testid=chart] svg circle").count()).toBeGreaterThan(20);
     await page().getByRole("combobox", { name: "Compare", exact: true }).selectOption("lot");

@@ -2,10 +2,11 @@
  * The cluster scan's CPU work — building every cell of the cube and testing it — as one function of plain
  * data, so it can run on a worker thread (scan-pool.ts) and never hold up the requests on the main one.
  */
-import { buildScanCells, failureIdsIn, type Standardisation } from "../../analytics/cluster-cells.js";
+import { buildPartCells, buildScanCells, failureIdsIn, type Standardisation } from "../../analytics/cluster-cells.js";
 import { scanClusters, type ClusterScanResult } from "../../analytics/cluster-scan.js";
 import type { CubeRow } from "../../analytics/cluster-cells.js";
 import { hourBandLabel, temperatureBandLabel } from "../../../shared/bands.js";
+import { components } from "../../../shared/catalog.js";
 
 export interface ScanTask {
   rows: CubeRow[];
@@ -19,19 +20,39 @@ export type ScanSummary = Pick<ClusterScanResult, "signals" | "qThreshold" | "le
 
 export function runScan(t: ScanTask): ScanSummary {
   // cells without repair-line keys: only the kept signals need them, looked up after the test
-  const cells = buildScanCells(t.rows, t.standardise, { withIds: false });
-  const scan = scanClusters(cells, {
+  const options = {
     subject: t.subject,
     qThreshold: t.qThreshold,
-    labels: { temperatureBand: (id) => temperatureBandLabel(id, "F"), hourBand: hourBandLabel },
+    labels: {
+      component: (code: string) => components.find((c) => c.code === code)?.name ?? code,
+      temperatureBand: (id: string) => temperatureBandLabel(id, "F"),
+      hourBand: hourBandLabel,
+    },
+  };
+  // rows labelled with a part: a scan part by part, each part's cells tested as a family of their own (one
+  // question per part: the false-discovery control of one part is not loosened by another part's strong signals);
+  // rows without: the parts together, the system level
+  const parts = [...new Set(t.rows.map((r) => r.component ?? ""))].sort();
+  const scans = parts.map((part) => {
+    const rows = part ? t.rows.filter((r) => r.component === part) : t.rows;
+    return { rows, scan: scanClusters(part ? buildPartCells(rows, t.standardise, { withIds: false }) : buildScanCells(rows, t.standardise, { withIds: false }), options) };
   });
+  const signals = scans
+    .flatMap(({ rows, scan }) => scan.signals.map((s) => ({ ...s, repairLineIds: failureIdsIn(rows, s.dimensions) })))
+    .sort((a, b) => a.pValue - b.pValue || b.observed - b.expected - (a.observed - a.expected))
+    .map((s, i) => ({ ...s, rank: i + 1 }));
   return {
-    signals: scan.signals.map((s) => ({ ...s, repairLineIds: failureIdsIn(t.rows, s.dimensions) })),
-    qThreshold: scan.qThreshold,
-    level: scan.level,
-    cellsTested: scan.tested.length,
-    cellsDropped: scan.dropped.length,
+    signals,
+    qThreshold: t.qThreshold,
+    level: scans[0]?.scan.level ?? 0.95,
+    cellsTested: scans.reduce((n, x) => n + x.scan.tested.length, 0),
+    cellsDropped: scans.reduce((n, x) => n + x.scan.dropped.length, 0),
   };
 }
 
 export default runScan;
+
+/** Does nothing: run by worker-pool.ts's keepWarm, so the thread is up before a load's scan is asked for. */
+export function ping(): true {
+  return true;
+}

@@ -46,7 +46,7 @@ async function clusterById(db: Db, scope: ShopScope, id: string, query: Record<s
       "No cluster with that id in the current scan: the data may have been reloaded since the link was made, or the scan's filters differ. Pick the cluster again from the list.",
     );
   }
-  return { cluster: { ...cluster, repairLineIds: [...cluster.repairLineIds] }, components, method: clusterMethod(q.standardise), caution: clusterCaution, query, takenAt: new Date().toISOString() };
+  return { cluster: { ...cluster, repairLineIds: [...cluster.repairLineIds] }, components, method: clusterMethod(q.standardise, q.level), caution: clusterCaution, query, takenAt: new Date().toISOString() };
 }
 
 /** Campaign deadline: claim days after the newest RO close among its lines (the last line still in time). */
