@@ -1,12 +1,14 @@
 import { Router } from "express";
 import { allow, requireScope, requireUser } from "../auth/require-user.js";
 import type { Db } from "../db/database.js";
-import { NEW_CLUSTERS_SHOWN, type Overview } from "../../shared/schemas/overview.js";
+import { NEW_CLUSTERS_SHOWN, type DataAsOf, type Overview } from "../../shared/schemas/overview.js";
 import { recordVisit, type LoadRow } from "../db/queries/overview.js";
 import { listShops } from "../db/queries/shops.js";
-import { clustersOf, findClusters } from "../services/cluster-finder.js";
-import { overviewSummary } from "../services/overview-summary.js";
-import { AnswerCache } from "../services/answer-cache.js";
+import { clustersOf, findClusters, type ClusterFinding } from "../services/cluster-finder.js";
+import { overviewSummary, type OverviewSummary } from "../services/overview-summary.js";
+import { RevalidatingCache, wantsFresh, type Served } from "../services/revalidating-cache.js";
+import { dataVersion, versionBatch } from "../db/queries/data-version.js";
+import { logger } from "../logger.js";
 import { analyticsRoles } from "../../shared/roles.js";
 
 export const ATTENTION_DEFINITION =
@@ -30,30 +32,45 @@ function loadsByShop(rows: LoadRow[], names: Map<string, string>): Overview["loa
     });
 }
 
+const asOf = (s: Served<unknown>): DataAsOf => {
+  const b = versionBatch(s.version);
+  return { batchId: b > 0n ? String(b) : null, computedAt: s.computedAt.toISOString(), current: s.current };
+};
+
 /**
- * GET /api/overview: what changed since the last load and the last visit. The warehouse summary is kept
- * per shop scope until the next load (the cluster scan is kept by the cluster finder); the visit is
- * recorded on every request.
+ * GET /api/overview: what changed since the last load and the last visit. The warehouse summary and the
+ * cluster scan are kept per shop scope and data version; after a load the previous ones are answered at
+ * once, each marked with the data it was computed for (`asOf`, `clusters.asOf`), while the new ones are
+ * computed in the background, so the page never waits for a scan (a request with `X-Answer-Fresh: 1`, as
+ * the answer warm-up sends, waits for them). Shop names and the caller's visit are read per request.
  */
 export function overviewRoutes(db: Db): Router {
   const router = Router();
-  const summaries = new AnswerCache(db, 50);
+  const warn = (err: unknown) => logger.warn({ err }, "overview: background computation failed");
+  const summaries = new RevalidatingCache<OverviewSummary>(() => dataVersion(db), 50, warn);
+  const scans = new RevalidatingCache<ClusterFinding>(() => dataVersion(db), 50, warn);
   router.get("/", allow(...analyticsRoles), async (req, res) => {
     const scope = requireScope(req);
     const user = requireUser(req);
-    const [{ loads, headlines, attention }, shops, found] = await Promise.all([
-      summaries.get(scope, () => overviewSummary(db, scope)),
+    const waitFresh = wantsFresh(req);
+    const key = JSON.stringify(scope);
+    const [summary, shops, scan] = await Promise.all([
+      summaries.get(key, () => overviewSummary(db, scope), { fresh: waitFresh }),
       listShops(db, scope),
-      findClusters(db, scope, {}),
+      scans.get(key, () => findClusters(db, scope, {}), { fresh: waitFresh }),
     ]);
+    const { loads, headlines, attention } = summary.value;
+    const found = scan.value;
     const clusters = clustersOf(found);
     const visit = await recordVisit(db, user.sub, clusters.map((c) => c.id));
     const seen = new Set(visit.previousClusterIds ?? []);
     const fresh = clusters.filter((c) => !seen.has(c.id));
     const body: Overview = {
+      asOf: asOf(summary),
       loads: loadsByShop(loads, new Map(shops.map((s) => [s.code, s.name]))),
       headlines,
       clusters: {
+        asOf: asOf(scan),
         firstVisit: visit.previousClusterIds === null,
         previousVisitAt: visit.previousVisitAt?.toISOString() ?? null,
         total: clusters.length,

@@ -25,11 +25,25 @@ const headlineSchema = z.object({
 });
 export type Headline = z.infer<typeof headlineSchema>;
 
+/**
+ * Which data an answer (or a part of one) was computed for: the last batch the warehouse held then, and when.
+ * `current: false` means the warehouse has changed since (a load or a refresh): the answer shown is the
+ * previous one, kept while the new one is computed (stale-while-revalidate); ask again shortly.
+ */
+export const dataAsOfSchema = z.object({
+  batchId: z.string().nullable(),
+  computedAt: z.string(),
+  current: z.boolean(),
+});
+export type DataAsOf = z.infer<typeof dataAsOfSchema>;
+
 /** GET /api/overview */
 /** New clusters the Overview lists by name; the rest are counted and reached through the Clusters page. */
 export const NEW_CLUSTERS_SHOWN = 10;
 
 export const overviewSchema = z.object({
+  /** the data behind the loads, headlines and attention list (the clusters carry their own) */
+  asOf: dataAsOfSchema.optional(),
   loads: z.array(
     z.object({
       /** null: files spanning the group (machine master, telematics hours) */
@@ -49,6 +63,8 @@ export const overviewSchema = z.object({
     method: z.string(),
   }),
   clusters: z.object({
+    /** the data behind the cluster scan these counts come from */
+    asOf: dataAsOfSchema.optional(),
     firstVisit: z.boolean(),
     previousVisitAt: z.string().nullable(),
     total: z.number(),

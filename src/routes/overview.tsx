@@ -1,6 +1,6 @@
 import { useQuery } from "@tanstack/react-query";
 import { Link } from "react-router-dom";
-import { overviewQueries } from "@/features/overview/api/overview-queries";
+import { overviewQueries, overviewUpdating } from "@/features/overview/api/overview-queries";
 import { QueryView } from "@/features/filters/components/query-view";
 import { Card, EmptyState } from "@/components/ui/states";
 import type { PrimeCache } from "@/app/page-loader";
@@ -147,6 +147,17 @@ export const primeCache: PrimeCache = (qc) => {
   void qc.prefetchQuery(overviewQueries.current());
 };
 
+/** Which data the page shows: said only while the server is still computing the answer for a newer load. */
+function AsOf({ o }: { o: Overview }) {
+  if (!overviewUpdating(o)) return null;
+  const at = [o.asOf, o.clusters.asOf].filter((a) => a && !a.current).map((a) => a!.computedAt).sort()[0];
+  return (
+    <p role="status" className="text-sm text-muted">
+      Computed for the data as of {when(at ?? null)}; new data has been loaded since and the page is updating…
+    </p>
+  );
+}
+
 export function Component() {
   const q = useQuery(overviewQueries.current());
   return (
@@ -155,6 +166,7 @@ export function Component() {
       <QueryView query={q} label="the overview" lines={8}>
         {(o) => (
           <div className="grid gap-4 lg:grid-cols-2">
+            <div className="lg:col-span-2 empty:hidden"><AsOf o={o} /></div>
             <Card title="Failure rates against last year"><Headlines h={o.headlines} /></Card>
             <Card title="New clusters since your last visit"><NewClusters c={o.clusters} /></Card>
             <div className="lg:col-span-2"><Card title="Last loads per shop"><Loads loads={o.loads} /></Card></div>

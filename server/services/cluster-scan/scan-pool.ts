@@ -3,6 +3,9 @@ import path from "node:path";
 import type { ScanSummary, ScanTask } from "./scan-task.js";
 import { runOnWorker } from "../worker-pool.js";
 
+/** The scan's task module, whose thread worker-pool.ts keeps. */
+export const SCAN_TASK_FILE = path.join(import.meta.dirname, "scan-task.ts");
+
 export function scanOnWorker(task: ScanTask): Promise<ScanSummary> {
-  return runOnWorker<ScanSummary>(path.join(import.meta.dirname, "scan-task.ts"), task);
+  return runOnWorker<ScanSummary>(SCAN_TASK_FILE, task);
 }

@@ -7,8 +7,10 @@ import { HttpError } from "../../errors.js";
 import { csvCell } from "../../../shared/csv-cell.js";
 import type { ShopScope } from "../../../shared/schemas/me.js";
 import type { Batch, RejectPage } from "../../../shared/schemas/imports.js";
+import { warmStateOf } from "../answer-warmer.js";
+import { dashboardsFor } from "../dashboards-current.js";
 
-function present(b: BatchRow): Batch {
+function present(b: BatchRow, db: Db): Batch {
   return {
     id: b.batch_id,
     fileName: b.file_name,
@@ -26,11 +28,12 @@ function present(b: BatchRow): Batch {
     unchanged: b.rows_unchanged,
     rejected: b.rows_rejected,
     importId: b.upload_id,
+    dashboards: dashboardsFor({ id: b.batch_id, status: b.status, inserted: b.rows_inserted, updated: b.rows_updated }, warmStateOf(db)),
   };
 }
 
 export async function batchHistory(db: Db, scope: ShopScope, user: string, o: { shop?: string; limit: number }): Promise<Batch[]> {
-  return (await listBatches(db, scope, user, o)).map(present);
+  return (await listBatches(db, scope, user, o)).map((b) => present(b, db));
 }
 
 async function visibleBatch(db: Db, scope: ShopScope, user: string, id: string): Promise<BatchRow> {
@@ -53,7 +56,7 @@ export async function batchRejects(db: Db, scope: ShopScope, user: string, id: s
   const later = await laterBatchesOf(db, id, keys.filter((k): k is string => k !== null));
   const total = q.reason ? (reasons.find((r) => r.code === q.reason)?.count ?? 0) : reasons.reduce((n, r) => n + r.count, 0);
   return {
-    batch: present(b),
+    batch: present(b, db),
     total,
     reasons,
     columns: columnsOf(b, rows),

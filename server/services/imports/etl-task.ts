@@ -23,3 +23,8 @@ export default async function run(task: EtlTask): Promise<void> {
     await db.destroy();
   }
 }
+
+/** Does nothing: run by worker-pool.ts's keepWarm, so the thread is up (module graph loaded) before an upload's job. */
+export function ping(): true {
+  return true;
+}

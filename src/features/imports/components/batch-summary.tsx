@@ -4,6 +4,7 @@ import type { Batch } from "@shared/schemas/imports";
 import { Counts } from "./counts";
 import { dateTimeInWords, kindLabels, secondsInWords } from "../import-words";
 import { BatchStatus } from "./status-pill";
+import { DashboardsState } from "./dashboards-state";
 
 /** One batch in a few lines: the file, how it was read, who loaded it and when, and what it did. */
 export function BatchSummary({ batch: b }: { batch: Batch }) {
@@ -24,6 +25,7 @@ export function BatchSummary({ batch: b }: { batch: Batch }) {
         {fact("Started", <time dateTime={b.startedAt}>{dateTimeInWords(b.startedAt)}</time>)}
         {fact("Took", b.durationMs === null ? "—" : secondsInWords(b.durationMs / 1000))}
       </dl>
+      <DashboardsState batch={b} />
       <Counts label={`What batch ${b.id} did`} items={[["Rows read", b.read], ["Inserted", b.inserted], ["Updated", b.updated], ["Unchanged", b.unchanged], ["Rejected", b.rejected]]} />
     </div>
   );

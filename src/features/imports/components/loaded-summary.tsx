@@ -3,6 +3,7 @@ import { Link } from "react-router-dom";
 import { batchQueries } from "../api/batch-queries";
 import { batchPath } from "../batch-path";
 import { Counts } from "./counts";
+import { DashboardsState } from "./dashboards-state";
 import { count, secondsInWords } from "../import-words";
 
 /** A finished load: what the batch did, and the way to its rejects. */
@@ -18,6 +19,7 @@ export function LoadedSummary({ batchId, fileName }: { batchId: string; fileName
               ? `This file was loaded before, so nothing changed (batch ${b.id}).`
               : `Batch ${b.id}${b.durationMs === null ? "" : `, loaded in ${secondsInWords(b.durationMs / 1000)}`}.`}
           </p>
+          <DashboardsState batch={b} />
           <Counts label={`What loading ${fileName} did`} items={[["Rows read", b.read], ["Inserted", b.inserted], ["Updated", b.updated], ["Unchanged", b.unchanged], ["Rejected", b.rejected]]} />
         </>
       ) : q.isError ? (
