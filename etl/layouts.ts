@@ -10,7 +10,7 @@ export const layouts = {
   machines: [
     "serial", "model_code", "engine_serial", "build_date", "delivery_date", "delivery_hours", "home_shop",
     "heater_plug_lot", "block_heater_fitted", "block_heater_date",
-    "warranty_base_months", "warranty_base_hours", "warranty_engine_months", "warranty_engine_hours",
+    "warranty_base_months", "warranty_base_hours", "warranty_engine_months", "warranty_engine_hours", "home_shop_since",
   ],
   jobs: [
     "shop_code", "ro_number", "line_no", "serial", "opened_date", "closed_date", "hour_meter", "meter_note",

@@ -5,19 +5,23 @@ import { sql, type Kysely, type RawBuilder } from "kysely";
  * (machine_key, lo, hi) lists each machine whose exposure must be computed again and the days [lo, hi)
  * to compute (±infinity for the whole trail).
  *
- * A machine's exposure depends on its master row (cohort, home shop, build lot), its valid hour readings
- * with their meter generations (delivery and hours-export readings, repair-line meters), its heater-plug
- * failure lines, and its home shop's weather. The ETL stamps a row with the batch that wrote it whenever
+ * A machine's exposure depends on its master row (cohort, build lot), its home shops over time
+ * (machine_home_shop), its valid hour readings with their meter generations (delivery and hours-export
+ * readings, repair-line meters), its heater-plug failure lines, and the weather of the shop it was homed at
+ * on each day. The ETL stamps a row with the batch that wrote it whenever
  * its content changes (batch_id), and never deletes one, so:
- * - dim_machine, fact_meter_reading and fact_repair_line rows stamped after the batch name their machine;
+ * - dim_machine, machine_home_shop, fact_meter_reading and fact_repair_line rows stamped after the batch name
+ *   their machine (a move of home shop stamps the master row and the period it opens: the machine is computed
+ *   again whole);
  * - a repair line that moved to another machine is found through the prior version the load kept in
  *   fact_repair_line_history (replaced_by_batch);
  * - the one change not stamped: a jobs load judges the hour meters of every line of its file again, lines it
  *   leaves unchanged too, and may give one another meter generation or set it aside. Unusual verdicts are
  *   few (the partial index fact_repair_line_notable_reading_idx holds them): they are compared with the set
  *   seen at the last refresh (agg_exposure_notable_reading), whenever a jobs batch came since;
- * - weather rows stamped after the batch name a shop and days: every machine homed there is computed
- *   again from the first to the last month those days fall in (its other months keep their figures).
+ * - weather rows stamped after the batch name a shop and days: every machine homed there at some time in
+ *   those months is computed again from the first to the last month those days fall in (its other months keep
+ *   their figures; a machine homed at two such shops, over the months of both).
  */
 
 /** The repair lines whose hour-meter verdict is unusual now. */
@@ -82,6 +86,7 @@ export async function scopeChanges(db: Kysely<any>, since: number): Promise<Chan
     INSERT INTO exposure_scope
     SELECT machine_key, '-infinity', 'infinity' FROM (
       SELECT machine_key FROM dim_machine WHERE batch_id > ${since}
+      UNION SELECT machine_key FROM machine_home_shop WHERE batch_id > ${since}
       UNION SELECT machine_key FROM fact_meter_reading WHERE batch_id > ${since}
       UNION SELECT machine_key FROM fact_repair_line WHERE batch_id > ${since}
       UNION SELECT (prior_row ->> 'machine_key')::bigint FROM fact_repair_line_history WHERE replaced_by_batch > ${since}
@@ -94,11 +99,13 @@ export async function scopeChanges(db: Kysely<any>, since: number): Promise<Chan
   `.execute(db);
   const weather = await sql`
     INSERT INTO exposure_scope
-    SELECT k.machine_key, w.lo, w.hi
+    SELECT h.machine_key, min(w.lo), max(w.hi)
     FROM (SELECT shop_key, date_trunc('month', min(date)::timestamp)::date AS lo,
                  (date_trunc('month', max(date)::timestamp) + interval '1 month')::date AS hi
           FROM fact_weather_day WHERE batch_id > ${since} GROUP BY shop_key) w
-    JOIN agg_exposure_cohort k USING (shop_key)
+    JOIN machine_home_shop h ON h.shop_key = w.shop_key AND h.valid_from < w.hi AND (h.valid_to IS NULL OR h.valid_to > w.lo)
+    JOIN agg_exposure_cohort k ON k.machine_key = h.machine_key
+    GROUP BY h.machine_key
     ON CONFLICT (machine_key) DO NOTHING
   `.execute(db);
   await sql`ANALYZE exposure_scope`.execute(db);

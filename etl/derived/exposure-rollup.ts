@@ -3,7 +3,8 @@ import { reloadTable } from "./reload-table.js";
 
 /**
  * agg_exposure and agg_exposure_fleet from the machines' shares (agg_exposure_machine, counted under their
- * agg_exposure_cohort row): summed whole, or changed by the difference a refresh found.
+ * agg_exposure_cohort row and at the shop each share row carries: the machine's home shop on those days):
+ * summed whole, or changed by the difference a refresh found.
  */
 
 const GRAIN = ["engine_family", "model_line", "build_month", "lot", "shop_key", "month", "temp_band", "hour_band"];
@@ -17,10 +18,10 @@ export async function rollUpAll(db: Kysely<any>): Promise<number> {
   const r = await reloadTable(db, "agg_exposure", () =>
     sql`
       INSERT INTO agg_exposure (${cols(GRAIN)}, machines, machine_days, engine_hours)
-      SELECT k.engine_family, k.model_line, k.build_month, c.lot, k.shop_key, c.month, c.temp_band, c.hour_band,
+      SELECT k.engine_family, k.model_line, k.build_month, c.lot, c.shop_key, c.month, c.temp_band, c.hour_band,
              0, sum(c.machine_days), sum(c.engine_hours)
       FROM agg_exposure_machine c JOIN agg_exposure_cohort k USING (machine_key)
-      GROUP BY k.engine_family, k.model_line, k.build_month, c.lot, k.shop_key, c.month, c.temp_band, c.hour_band
+      GROUP BY k.engine_family, k.model_line, k.build_month, c.lot, c.shop_key, c.month, c.temp_band, c.hour_band
     `.execute(db),
   );
   await reloadTable(db, "agg_exposure_fleet", () =>

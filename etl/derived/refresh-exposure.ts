@@ -9,18 +9,19 @@ import { refreshMachineTrail } from "./machine-trail.js";
 
 /**
  * Keeps agg_exposure and agg_exposure_fleet current after loads: machine-days and engine hours per cohort ×
- * home shop × month × daily-minimum temperature band × engine-hour band × heater-plug lot.
+ * home shop × month × daily-minimum temperature band × engine-hour band × heater-plug lot. The home shop is the
+ * one the machine had on each day (machine_home_shop), so a machine that moved counts at both shops.
  *
  *   refreshExposure(db)                 fold in what the batches since the last refresh changed (after a load)
  *   refreshExposure(db, { full: true }) rebuild everything (after a migration; scripts/refresh-derived.ts)
  *
  * Why incremental. Rebuilding means going over every machine's whole hour trail; its cost grows with the
  * warehouse while a monthly export touches a few thousand machines. So each machine's share of the aggregate
- * is kept (agg_exposure_machine, with the cohort it was counted under in agg_exposure_cohort), and a refresh
- * (fold-in-changes.ts):
+ * is kept (agg_exposure_machine, by day's home shop, with the cohort it was counted under in agg_exposure_cohort), and a
+ * refresh (fold-in-changes.ts):
  * 1. finds what the batches since agg_refresh.last_batch touched (exposure-changes.ts): machines whose master
- *    row, readings, meter verdicts or heater-plug lines changed, computed again whole; shops whose weather
- *    changed, whose machines are computed again for the months concerned;
+ *    row, home shops, readings, meter verdicts or heater-plug lines changed, computed again whole; shops whose
+ *    weather changed, whose machines (those homed there in the months concerned) are computed again for those months;
  * 2. computes those machines' shares (machine-exposure.ts) and keeps the rows that differ from the stored ones
  *    (a new reading at the end of a trail changes a month or two of it; the rest is neither written nor
  *    added up again, so groups nothing touched keep their exact figures);
@@ -92,7 +93,7 @@ async function rebuildAll(db: Kysely<any>): Promise<{ rows: number; machines: nu
   await rebuildBandDays(db, "all");
   await reloadTable(db, "agg_exposure_machine", () =>
     sql`
-      INSERT INTO agg_exposure_machine (machine_key, month, lot, temp_band, hour_band, machine_days, engine_hours)
+      INSERT INTO agg_exposure_machine (machine_key, month, lot, temp_band, hour_band, shop_key, machine_days, engine_hours)
       ${machineExposureSql(false)}
     `.execute(db),
   );

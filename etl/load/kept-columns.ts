@@ -7,6 +7,8 @@ import type { ExportKind } from "../profiles/profile-schema.js";
  * the names differ; the merges leave the columns of absent canonical columns as they are on lines they update.
  */
 const FILLS: Partial<Record<ExportKind, Record<string, string[]>>> = {
+  // the date of a move of home shop fills no column of dim_machine (machine_home_shop; etl/load/merge-others.ts)
+  machines: { home_shop_since: [] },
   jobs: {
     ambient_temp: ["ambient_temp_c"],
     fault_codes: ["fault_codes_raw"],

@@ -286,7 +286,7 @@ export async function finishJobs(client: pg.PoolClient, batchId: number, blocks:
   }
 
   // stored readings after a reading of this file that arrives late are judged again
-  await rejudgeLaterReadings(client, batchId, `SELECT machine_key, opened_date AS d FROM stg WHERE reject_code IS NULL AND hour_meter IS NOT NULL`);
+  await rejudgeLaterReadings(client, batchId, `SELECT machine_key, opened_date AS d, repair_line_key AS k FROM stg WHERE reject_code IS NULL AND hour_meter IS NOT NULL`);
 
   const accepted = acceptedBeforeHours - backwards;
   let { inserted, updated } = blocks;

@@ -27,9 +27,69 @@ const MACHINE_COLS = [
   "warranty_base_months", "warranty_base_hours", "warranty_engine_months", "warranty_engine_hours", "row_hash", "batch_id",
 ];
 
-/** Machine master rows into dim_machine (upsert on the normalised serial) plus the delivery hour reading. */
+/** The day a row's home shop applies from when it names another one than the warehouse's: its home_shop_since, else the load date. */
+const MOVE_DATE = `coalesce(s.home_shop_since, s.load_date)`;
+
+/**
+ * Rows that would move a machine to another home shop on or before the day its current home shop began
+ * (machine_home_shop): the move would rewrite the machine's history, so the row is rejected, never applied.
+ */
+async function rejectBackdatedMoves(client: pg.PoolClient): Promise<void> {
+  await client.query(
+    `UPDATE stg t SET reject_code = 'backdated_move',
+       reject_reason = format('moves machine %s from %s to %s on %s (%s), but it has been at %s only since %s; '
+         || 'a move dated on or before that day would rewrite where the machine was, so the row was not loaded '
+         || '(give a later home shop since, or leave the home shop as it is)',
+         s.serial, cur.shop_code, s.home_shop, ${MOVE_DATE},
+         CASE WHEN s.home_shop_since IS NULL THEN 'the load date: the row gives no home shop since' ELSE 'its home shop since' END,
+         cur.shop_code, h.valid_from)
+     FROM stg s
+     JOIN machine_home_shop h ON h.machine_key = wh_key('machine|' || s.serial) AND h.valid_to IS NULL
+     JOIN dim_shop cur ON cur.shop_key = h.shop_key
+     WHERE t.row_no = s.row_no AND s.reject_code IS NULL AND cur.shop_code <> s.home_shop AND ${MOVE_DATE} <= h.valid_from`,
+  );
+}
+
+/**
+ * machine_home_shop after the master rows are in: a machine the file names at another home shop than its
+ * current period's has that period closed on the move's date and the next one opened there; a machine without
+ * any period (new, or one that had no home shop) gets its first, from -infinity. A row naming the current home
+ * shop changes nothing, whatever home_shop_since it gives. Rows of moves dated too early were rejected before.
+ */
+async function recordHomeShopMoves(client: pg.PoolClient, batchId: number): Promise<void> {
+  await client.query(
+    `CREATE TEMP TABLE home_shop_move ON COMMIT DROP AS
+     SELECT h.machine_key, sh.shop_key, ${MOVE_DATE} AS day
+     FROM stg s
+     JOIN machine_home_shop h ON h.machine_key = wh_key('machine|' || s.serial) AND h.valid_to IS NULL
+     JOIN dim_shop sh ON sh.shop_code = s.home_shop
+     WHERE s.reject_code IS NULL AND h.shop_key <> sh.shop_key`,
+  );
+  await client.query(
+    `UPDATE machine_home_shop h SET valid_to = mv.day FROM home_shop_move mv WHERE h.machine_key = mv.machine_key AND h.valid_to IS NULL`,
+  );
+  await client.query(
+    `INSERT INTO machine_home_shop (machine_key, shop_key, valid_from, valid_to, batch_id)
+     SELECT machine_key, shop_key, day, NULL, $1 FROM home_shop_move`,
+    [batchId],
+  );
+  await client.query(
+    `INSERT INTO machine_home_shop (machine_key, shop_key, valid_from, valid_to, batch_id)
+     SELECT m.machine_key, m.home_shop_key, '-infinity', NULL, $1
+     FROM stg s JOIN dim_machine m ON m.machine_key = wh_key('machine|' || s.serial)
+     WHERE s.reject_code IS NULL AND m.home_shop_key IS NOT NULL
+       AND NOT EXISTS (SELECT 1 FROM machine_home_shop h WHERE h.machine_key = m.machine_key)`,
+    [batchId],
+  );
+}
+
+/**
+ * Machine master rows into dim_machine (upsert on the normalised serial), their home shops over time into
+ * machine_home_shop, plus the delivery hour reading.
+ */
 export async function mergeMachines(client: pg.PoolClient, batchId: number, _blocks: unknown, file: { kept: string[] }): Promise<MergeCounts> {
   await rejectDuplicates(client, ["serial"], "machine serial %s");
+  await rejectBackdatedMoves(client);
   await registerShops(client, "home_shop");
   const accepted = await acceptedCount(client);
   await createChanged(client);
@@ -46,6 +106,7 @@ export async function mergeMachines(client: pg.PoolClient, batchId: number, _blo
     ),
     [batchId],
   );
+  await recordHomeShopMoves(client, batchId);
   await client.query(
     `INSERT INTO fact_meter_reading AS r (hour_reading_key, machine_key, reading_date, hours, source, row_hash, batch_id)
      SELECT wh_key('hour|delivery|' || s.serial), wh_key('machine|' || s.serial), s.delivery_date, s.delivery_hours, 'delivery',
@@ -141,6 +202,6 @@ export async function mergeHours(client: pg.PoolClient, batchId: number, _blocks
     ),
     [batchId],
   );
-  await rejudgeLaterReadings(client, batchId, `SELECT h.machine_key, s.reading_date AS d FROM stg s JOIN hr_out h ON h.row_no = s.row_no WHERE s.reject_code IS NULL`);
+  await rejudgeLaterReadings(client, batchId, `SELECT h.machine_key, s.reading_date AS d, h.rk AS k FROM stg s JOIN hr_out h ON h.row_no = s.row_no WHERE s.reject_code IS NULL`);
   return countChanges(client, accepted);
 }

@@ -15,7 +15,7 @@ import { keptColumns } from "./kept-columns.js";
 import { KeyCache, KeySeenFilter, whKeyWithSpare } from "./keys.js";
 import type { DimensionMembers } from "./merge-jobs.js";
 import { rowBuilder, stagedText } from "./row-shape.js";
-import { copyValue, keyColumns, stageColumns } from "./staging.js";
+import { copyValue, keyColumns, stageColumns, stagesLoadDate } from "./staging.js";
 
 type Transform = (f: FieldReader, shop: string | undefined) => Record<string, unknown>;
 
@@ -131,6 +131,8 @@ export class RowStager {
   private foundOverflow = false;
   /** the staged text of a row without record: reject columns filled in, every other column \N */
   private readonly emptyTail: string;
+  /** what every accepted row ends with after its keys: the load date, for kinds that stage it (outside the content hash) */
+  private readonly loadTail: string;
   /** per mapped field: its index, the longest value accepted, its label */
   private readonly limits: [index: number, max: number, label: string][];
   private readonly fieldLabels: string[];
@@ -166,7 +168,8 @@ export class RowStager {
     this.keyer = rowKeys[kind];
     this.seen = this.keyer ? new KeySeenFilter() : null;
     this.keyValues = new Array<string | null>(keyColumns[kind]?.length ?? 0).fill(null);
-    this.emptyTail = new Array(this.names.length + 1 + this.keyValues.length).fill("\\N").join("\t");
+    this.loadTail = stagesLoadDate.has(kind) ? "\t" + copyValue(today) : "";
+    this.emptyTail = new Array(this.names.length + 1 + this.keyValues.length + (this.loadTail ? 1 : 0)).fill("\\N").join("\t");
   }
 
   line(rec: CsvRecord): string {
@@ -242,7 +245,7 @@ export class RowStager {
       if (this.seen!.add(a, b)) this.blockRepeats = this.fileRepeats = true;
       this.collectMembers(record);
     }
-    return rec.line + "\t\\N\t\\N\t\\N\t" + text + "\t" + tail + "\n";
+    return rec.line + "\t\\N\t\\N\t\\N\t" + text + "\t" + tail + this.loadTail + "\n";
   }
 
   /**

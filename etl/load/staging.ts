@@ -13,7 +13,7 @@ export const stageColumns: Record<ExportKind, [string, string][]> = {
     ["engine_serial", "text"], ["build_date", "date"], ["delivery_date", "date"], ["delivery_hours", "numeric"],
     ["home_shop", "text"], ["heater_plug_lot", "text"], ["block_heater_fitted", "boolean"], ["block_heater_date", "date"],
     ["warranty_base_months", "smallint"], ["warranty_base_hours", "integer"], ["warranty_engine_months", "smallint"],
-    ["warranty_engine_hours", "integer"],
+    ["warranty_engine_hours", "integer"], ["home_shop_since", "date"],
   ],
   jobs: [
     ["shop_code", "text"], ["ro_number", "text"], ["line_no", "integer"], ["serial", "text"], ["opened_date", "date"],
@@ -44,9 +44,19 @@ export const keyColumns: Partial<Record<ExportKind, readonly string[]>> = {
   jobs: ["repair_line_key", "shop_key", "machine_key", "component_key", "failure_mode_key", "technician_key", "part_key"],
 };
 
-/** Every staged column of a kind after row_no/raw/reject: the record's, its content hash, then the keys. */
+/**
+ * Kinds whose rows are staged with the load's "today" (LoadFileOptions.today) as the column load_date, after
+ * the keys and outside the content hash (it says when the row was loaded, not what it says): the machines
+ * merge dates a move of home shop by it when the row gives no home_shop_since.
+ */
+export const stagesLoadDate: ReadonlySet<ExportKind> = new Set<ExportKind>(["machines"]);
+
+/** Every staged column of a kind after row_no/raw/reject: the record's, its content hash, the keys, then load_date. */
 export function stagedColumns(kind: ExportKind): [string, string][] {
-  return [...stageColumns[kind], ["row_hash", "text"], ...(keyColumns[kind] ?? []).map((k): [string, string] => [k, "bigint"])];
+  return [
+    ...stageColumns[kind], ["row_hash", "text"], ...(keyColumns[kind] ?? []).map((k): [string, string] => [k, "bigint"]),
+    ...(stagesLoadDate.has(kind) ? [["load_date", "date"] as [string, string]] : []),
+  ];
 }
 
 /**

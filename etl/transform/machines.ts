@@ -16,6 +16,8 @@ export interface MachineStage {
   delivery_date: string | null;
   delivery_hours: number | null;
   home_shop: string;
+  /** the day the machine came to home_shop (optional): the date of a move, when the row names another home shop than the warehouse's */
+  home_shop_since: string | null;
   heater_plug_lot: string | null;
   block_heater_fitted: boolean;
   block_heater_date: string | null;
@@ -63,6 +65,7 @@ export function transformMachine(f: FieldReader, shop: string | undefined): Mach
     delivery_date: delivered,
     delivery_hours: deliveryHours === null ? null : Math.round(deliveryHours * 10) / 10,
     home_shop: normaliseCode(f.text("home_shop") ?? shop ?? ""),
+    home_shop_since: f.date("home_shop_since", "home shop since"),
     heater_plug_lot: lot === null ? null : normaliseCode(lot),
     block_heater_fitted: f.flag("block_heater_fitted", "block heater fitted") ?? false,
     block_heater_date: f.date("block_heater_date", "block heater date"),

@@ -61,6 +61,10 @@ export async function amplifyWarehouse(pool: pg.Pool, copies: number, log: (line
       const mcols = await columnsOf(client, "dim_machine");
       const msel = mcols.map((c) => (c === "machine_key" ? "mm.new_key" : c === "serial" ? "mm.serial" : `t.${c}`));
       await client.query(`INSERT INTO dim_machine (${mcols.join(", ")}) SELECT ${msel.join(", ")} FROM dim_machine t JOIN machine_map mm ON mm.old_key = t.machine_key`);
+      // and their home shops over time, which the exposure and the failure lines are attributed by
+      await client.query(`
+        INSERT INTO machine_home_shop (machine_key, shop_key, valid_from, valid_to, batch_id)
+        SELECT mm.new_key, h.shop_key, h.valid_from, h.valid_to, h.batch_id FROM machine_home_shop h JOIN machine_map mm ON mm.old_key = h.machine_key`);
       log(`  machines copied ×${copies} in ${((Date.now() - t0) / 1000).toFixed(1)} s`);
       await withoutSecondaryIndexes(client, FACTS.map((f) => f.table), async () => {
         for (const f of FACTS) {

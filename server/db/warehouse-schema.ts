@@ -168,6 +168,18 @@ export interface DimMachineTable {
   batch_id: Bigint;
 }
 
+/**
+ * A machine's home shops over time (migrations/0054_record_home_shop_moves.ts): each valid on [valid_from, valid_to),
+ * the first from '-infinity', the current one with valid_to null (dim_machine.home_shop_key is its shop).
+ */
+export interface MachineHomeShopTable {
+  machine_key: Bigint;
+  shop_key: Bigint;
+  valid_from: string;
+  valid_to: string | null;
+  batch_id: Bigint;
+}
+
 export interface DimTechnicianTable {
   technician_key: Bigint;
   shop_key: Bigint;
@@ -334,17 +346,18 @@ export interface AggExposureMachineTable {
   lot: string;
   temp_band: string;
   hour_band: string;
+  /** the machine's home shop on those days (machine_home_shop) */
+  shop_key: Bigint;
   machine_days: number;
   engine_hours: number;
 }
 
-/** Derived: the cohort and home shop a machine's share of agg_exposure was counted under. */
+/** Derived: the cohort a machine's share of agg_exposure was counted under (its shop is per day, in the share's rows). */
 export interface AggExposureCohortTable {
   machine_key: Bigint;
   engine_family: string;
   model_line: string;
   build_month: string;
-  shop_key: Bigint;
 }
 
 /** Derived: each machine's first and last valid engine hours and first reading date (from v_engine_hours). */
@@ -398,6 +411,7 @@ export interface WarehouseTables {
   dim_failure_mode: DimFailureModeTable;
   dim_fmi: DimFmiTable;
   dim_machine: DimMachineTable;
+  machine_home_shop: MachineHomeShopTable;
   dim_technician: DimTechnicianTable;
   dim_part: DimPartTable;
   fact_repair_line: FactRepairLineTable;

@@ -1,4 +1,4 @@
-import { useState } from "react";
+import { useEffect, useRef, useState } from "react";
 import { useQuery, useQueryClient } from "@tanstack/react-query";
 import { Card, EmptyState, ErrorNotice, Skeleton } from "@/components/ui/states";
 import type { PrimeCache } from "@/app/page-loader";
@@ -23,6 +23,12 @@ export function Component() {
     void qc.invalidateQueries({ queryKey: shopQueries.all() });
     setEditing(null);
   });
+  // the saved form is gone: the keyboard continues from the words saying so, not from the top of the page
+  const status = useRef<HTMLParagraphElement>(null);
+  const said = saved && !editing ? saved : null;
+  useEffect(() => {
+    if (said) status.current?.focus();
+  }, [said]);
   const open = (e: Editing) => {
     save.reset();
     setSaved(null);
@@ -40,11 +46,10 @@ export function Component() {
           Add a shop
         </button>
       </div>
-      {saved && !editing && (
-        <p role="status" className="rounded border border-line bg-card px-3 py-2 text-sm">
-          {saved}
-        </p>
-      )}
+      {/* always in the page, so that a screen reader hears the words when they come */}
+      <p ref={status} role="status" tabIndex={-1} className={said ? "rounded border border-line bg-card px-3 py-2 text-sm outline-none" : "sr-only"}>
+        {said}
+      </p>
       {editing && q.data && (
         <Card>
           <ShopForm

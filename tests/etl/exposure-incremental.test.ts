@@ -21,8 +21,9 @@ import { fixture, TODAY } from "./helpers.js";
 
 /**
  * Reference implementation: the day-by-day rebuild the per-segment computation replaced. Every machine-day
- * between two consecutive valid readings gets its interpolated engine hours, its home shop's daily-minimum
- * band, its hour band and the heater-plug lot fitted that day, and the days are grouped.
+ * between two consecutive valid readings gets its interpolated engine hours, the home shop the machine had that
+ * day (machine_home_shop) and that shop's daily-minimum band, its hour band and the heater-plug lot fitted that
+ * day, and the days are grouped.
  */
 function referenceExposure() {
   const hAt = sql`d.h_at`;
@@ -46,7 +47,7 @@ function referenceExposure() {
       WHERE c.component_code = ${HEATER_PLUG} AND f.line_type = 'failure'
       ORDER BY f.machine_key, f.opened_date
     ), mach AS (
-      SELECT m.machine_key, m.engine_family, m.model_line, m.home_shop_key,
+      SELECT m.machine_key, m.engine_family, m.model_line,
              date_trunc('month', coalesce(m.build_date, m.delivery_date))::date AS build_month,
              coalesce(nullif(m.heater_plug_lot, ''), 'none') AS build_lot, r.repl_date, r.repl_lot
       FROM dim_machine m LEFT JOIN repl r USING (machine_key)
@@ -57,12 +58,13 @@ function referenceExposure() {
     )
     SELECT m.engine_family, m.model_line, m.build_month,
            CASE WHEN d.day >= m.repl_date THEN m.repl_lot ELSE m.build_lot END AS lot,
-           m.home_shop_key AS shop_key, coalesce(wd.month, date_trunc('month', d.day)::date) AS month,
+           hs.shop_key, coalesce(wd.month, date_trunc('month', d.day)::date) AS month,
            coalesce(wd.temp_band, ${UNKNOWN_BAND}) AS temp_band, ${hourBandSql(hAt)} AS hour_band,
            0 AS machines, count(*)::integer AS machine_days, sum(d.h_day) AS engine_hours
     FROM days d
     JOIN mach m ON m.machine_key = d.machine_key
-    LEFT JOIN wd ON wd.shop_key = m.home_shop_key AND wd.date = d.day
+    JOIN machine_home_shop hs ON hs.machine_key = d.machine_key AND hs.valid_from <= d.day AND (hs.valid_to IS NULL OR d.day < hs.valid_to)
+    LEFT JOIN wd ON wd.shop_key = hs.shop_key AND wd.date = d.day
     GROUP BY 1, 2, 3, 4, 5, 6, 7, 8
   `;
 }
@@ -134,6 +136,7 @@ const write = (name: string, lines: string[]) => {
 };
 const JOBS_HEADER = readFileSync(fixture("jobs-export-1.csv"), "utf8").split("\n")[0];
 const HOURS_HEADER = "serial,reading_date,hours,source,meter_note";
+const MACHINES_HEADER = readFileSync(fixture("machines.csv"), "utf8").split("\n")[0];
 
 /** A job line in the generic layout: shop, RO, serial, opened date, hour meter, component, part lot. */
 const job = (shop: string, ro: string, serial: string, day: string, hours: number, component = "HYD-LIN-HOSE", lot = "", labour = "1.0") =>
@@ -208,6 +211,26 @@ const steps: { name: string; file: string }[] = [
     ]),
   },
   { name: "the same master file again (already loaded)", file: path.join(dir, "machines-correction.csv") },
+  {
+    name: "a move of home shop dated in the middle of a machine's trail",
+    file: write("machines-move.csv", [MACHINES_HEADER + ",home_shop_since", "KT35-20001,T35,E26-60001,2021-10-04,2021-12-01,1.5,S5,BT-2109,N,,24,2000,36,3000,2024-01-15"]),
+  },
+  {
+    name: "weather of both shops in the months of the move",
+    file: write("weather-move.csv", ["shop_code,date,tmin,tmax", "S4,2024-01-20,-40,-31", ...weather("S5", "2024-02-16", 60, 5)]),
+  },
+  {
+    name: "a move back dated before the current home shop began (rejected), and one after it",
+    file: write("machines-move-back.csv", [
+      MACHINES_HEADER + ",home_shop_since",
+      "KT35-20001,T35,E26-60001,2021-10-04,2021-12-01,1.5,S4,BT-2109,N,,24,2000,36,3000,2024-01-10",
+      "KT18-20003,T18,E18-60003,2022-05-02,2022-06-30,0.8,S4,QL-2299,Y,2022-06-30,24,2000,36,3000,2024-02-01",
+    ]),
+  },
+  {
+    name: "a third home shop for the moved machine, from the middle of its trail",
+    file: write("machines-move-again.csv", [MACHINES_HEADER + ",home_shop_since", "KT35-20001,T35,E26-60001,2021-10-04,2021-12-01,1.5,S4,BT-2109,N,,24,2000,36,3000,2024-03-03"]),
+  },
 ];
 
 describe("exposure aggregates kept by difference", () => {
@@ -259,6 +282,30 @@ describe("exposure aggregates kept by difference", () => {
     expect([...seen("temp_band")].sort()).toEqual(["0-20F", "20-32F", "32-45F", "45F-up", "below-0F", UNKNOWN_BAND].sort());
     expect(seen("hour_band")).toEqual(new Set(["0-500", "500-1k", "1k-2k", "2k-3k", "3k-4k", "4k-6k"]));
     expect(seen("lot")).toEqual(new Set(["BT-2109", "BT-2301", "QL-2201", "QL-9090", "QL-2299"]));
+    // the moves: KT35-20001 at S4, at S5 from 2024-01-15, at S4 again from 2024-03-03; KT18-20003 at S4 from 2024-02-01;
+    // KL70-20002 at S5 from the load date of its correction
+    const periods = await sql<{ serial: string; shop: string; valid_from: string; valid_to: string | null }>`
+      SELECT m.serial, s.shop_code AS shop, h.valid_from::text AS valid_from, h.valid_to::text AS valid_to
+      FROM machine_home_shop h JOIN dim_machine m USING (machine_key) JOIN dim_shop s ON s.shop_key = h.shop_key
+      ORDER BY m.serial, h.valid_from`.execute(inc.db);
+    expect(periods.rows).toEqual([
+      { serial: "KL7020002", shop: "S4", valid_from: "-infinity", valid_to: TODAY },
+      { serial: "KL7020002", shop: "S5", valid_from: TODAY, valid_to: null },
+      { serial: "KT1820003", shop: "S5", valid_from: "-infinity", valid_to: "2024-02-01" },
+      { serial: "KT1820003", shop: "S4", valid_from: "2024-02-01", valid_to: null },
+      { serial: "KT3520001", shop: "S4", valid_from: "-infinity", valid_to: "2024-01-15" },
+      { serial: "KT3520001", shop: "S5", valid_from: "2024-01-15", valid_to: "2024-03-03" },
+      { serial: "KT3520001", shop: "S4", valid_from: "2024-03-03", valid_to: null },
+    ]);
+    const shops = await sql<{ serial: string; shops: string }>`
+      SELECT m.serial, string_agg(DISTINCT s.shop_code, ',' ORDER BY s.shop_code) AS shops
+      FROM agg_exposure_machine c JOIN dim_machine m USING (machine_key) JOIN dim_shop s ON s.shop_key = c.shop_key
+      GROUP BY m.serial ORDER BY m.serial`.execute(inc.db);
+    expect(shops.rows).toEqual([
+      { serial: "KL7020002", shops: "S4" },
+      { serial: "KT1820003", shops: "S4,S5" },
+      { serial: "KT3520001", shops: "S4,S5" },
+    ]);
     const lines = await sql<{ ro_number: string; serial: string; hour_valid: boolean; meter_generation: number }>`
       SELECT f.ro_number, m.serial, f.hour_valid, f.meter_generation FROM fact_repair_line f JOIN dim_machine m USING (machine_key)
       WHERE f.ro_number IN ('R-103', 'R-104', 'R-7') ORDER BY f.ro_number`.execute(inc.db);

@@ -64,14 +64,18 @@ export function exposureRelation(scope: ShopScope, f: AnalyticsFilters, cube = f
 }
 
 /**
- * Failure lines labelled like the exposure: the machine's cohort and home shop, the home shop's daily
- * minimum temperature band on the day the repair order opened, the engine-hour band of the hour meter,
- * and the heater-plug lot fitted at the time. Only line_type 'failure'; a line that begins within
+ * Failure lines labelled like the exposure: the machine's cohort and the home shop it had on the day the
+ * repair order opened (machine_home_shop: a machine that moved counts at its old shop before the move, at the
+ * new one from the move's day), that shop's daily minimum temperature band on that day, the engine-hour band
+ * of the hour meter, and the heater-plug lot fitted at the time. Only line_type 'failure'; a line that begins within
  * COMEBACK_DAYS and COMEBACK_HOURS of an earlier line's close on the same machine and component is a
  * comeback for the same fault and is not counted again. Failure lines are read from the partial failure
  * index and the comeback test probes (component_key, machine_key, opened_date) (migration 0050).
+ *
+ * `shopOf: "current"` labels every line with the machine's current home shop instead (dim_machine.home_shop_key),
+ * for the per-machine reads that count a machine's whole history at that shop (machinesCarrying: life units).
  */
-export function failureRelation(scope: ShopScope, f: AnalyticsFilters): RawBuilder<unknown> {
+export function failureRelation(scope: ShopScope, f: AnalyticsFilters, shopOf: "day" | "current" = "day"): RawBuilder<unknown> {
   const window: RawBuilder<unknown>[] = [sql`fl.line_type = 'failure'`];
   if (f.from) window.push(sql`fl.opened_date >= ${f.from}::date`);
   if (f.to) window.push(sql`fl.opened_date <= ${f.to}::date`);
@@ -79,7 +83,7 @@ export function failureRelation(scope: ShopScope, f: AnalyticsFilters): RawBuild
   return sql`(
     SELECT * FROM (
       SELECT fl.repair_line_key, fl.machine_key, fl.opened_date, fl.hour_meter::double precision AS hour_meter,
-             c.component_code, c.system, m.engine_family, m.model_line, s.shop_code, m.home_shop_key AS shop_key,
+             c.component_code, c.system, m.engine_family, m.model_line, s.shop_code, hs.shop_key,
              date_trunc('month', coalesce(m.build_date, m.delivery_date))::date AS build_month,
              date_trunc('month', fl.opened_date)::date AS month,
              CASE WHEN r.repl_date IS NOT NULL AND fl.opened_date > r.repl_date THEN r.repl_lot
@@ -89,8 +93,12 @@ export function failureRelation(scope: ShopScope, f: AnalyticsFilters): RawBuild
       FROM fact_repair_line fl
       JOIN dim_component c ON c.component_key = fl.component_key
       JOIN dim_machine m ON m.machine_key = fl.machine_key
-      JOIN dim_shop s ON s.shop_key = m.home_shop_key
-      LEFT JOIN fact_weather_day w ON w.shop_key = m.home_shop_key AND w.date = fl.opened_date
+      ${shopOf === "current"
+        ? sql`JOIN LATERAL (SELECT m.home_shop_key AS shop_key) hs ON hs.shop_key IS NOT NULL`
+        : sql`JOIN machine_home_shop hs ON hs.machine_key = fl.machine_key AND hs.valid_from <= fl.opened_date
+        AND (hs.valid_to IS NULL OR hs.valid_to > fl.opened_date)`}
+      JOIN dim_shop s ON s.shop_key = hs.shop_key
+      LEFT JOIN fact_weather_day w ON w.shop_key = hs.shop_key AND w.date = fl.opened_date
       LEFT JOIN (
         SELECT DISTINCT ON (p.machine_key) p.machine_key, p.opened_date AS repl_date,
                coalesce(nullif(p.supplier_lot, ''), 'replacement') AS repl_lot
@@ -122,7 +130,8 @@ export function familiesCarrying(componentCodes: readonly string[]): RawBuilder<
 }
 
 /**
- * Machines of the families that carry a component, with cohort labels and their engine-hour trail:
+ * Machines of the families that carry a component, with cohort labels (the shop: the current home shop, for the
+ * machine's whole history; join failureRelation(…, "current") to them) and their engine-hour trail:
  * install hours (the delivery reading), first and last valid engine hours and the first reading date.
  * Only machines that pass the machine-level filters (scope, shops, families, model lines, build window)
  * are returned, so the caller's later filter on the same labels leaves them all.

@@ -38,7 +38,9 @@ export async function lifeUnits(db: Db, scope: ShopScope, f: AnalyticsFilters, c
     WITH mach AS ${machinesCarrying(component, scope, unitFilter)}, fails AS (
       SELECT fr.machine_key, fr.repair_line_key, fr.hour_meter, coalesce(nullif(p.supplier_lot, ''), 'replacement') AS fitted_lot,
              row_number() OVER (PARTITION BY fr.machine_key ORDER BY fr.hour_meter, fr.opened_date) AS k
-      FROM ${failureRelation(scope, ff)} fr
+      -- labelled with the machine's current home shop, as its units are (machinesCarrying): a machine that moved
+      -- keeps the failures of its earlier home shops in its life
+      FROM ${failureRelation(scope, ff, "current")} fr
       JOIN fact_repair_line p ON p.repair_line_key = fr.repair_line_key
       WHERE fr.hour_meter IS NOT NULL
     ), units AS (

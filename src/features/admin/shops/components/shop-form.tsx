@@ -13,7 +13,9 @@ type Field = FieldPath<FormIn>;
 /** Every time zone the browser knows, for the time zone field's suggestions. */
 const timeZones: readonly string[] = typeof Intl.supportedValuesOf === "function" ? Intl.supportedValuesOf("timeZone") : [];
 
-const inputClass = "mt-1 block w-full rounded border border-line bg-white px-2 py-1.5 text-sm aria-[invalid=true]:border-alert";
+// the background apart: two background utilities on one element are settled by the stylesheet's order, not the class list's
+const fieldClass = "mt-1 block w-full rounded border border-line px-2 py-1.5 text-sm aria-[invalid=true]:border-alert";
+const inputClass = `${fieldClass} bg-white`;
 
 const text = (v: string | number | null) => (v === null ? "" : String(v));
 
@@ -112,7 +114,7 @@ export function ShopForm({ shop, profiles, pending, error, onSave, onCancel }: P
         {shop ? (
           <div>
             <label htmlFor={id("code")} className="text-sm font-semibold">Code</label>
-            <input id={id("code")} value={shop.code} readOnly aria-describedby={`${id("code")}-hint`} className={`${inputClass} bg-paper font-mono`} />
+            <input id={id("code")} value={shop.code} readOnly aria-describedby={`${id("code")}-hint`} className={`${fieldClass} bg-paper font-mono`} />
             <p id={`${id("code")}-hint`} className="mt-1 text-xs text-muted">Every export names the shop by its code, so it cannot change.</p>
           </div>
         ) : (
