@@ -19,6 +19,9 @@ export const apiPaths = {
   cluster: (id: string, search = "") => `/api/analytics/clusters/${encodeURIComponent(id)}${search ? `?${search}` : ""}`,
   rates: (what: "hour-bands" | "temperature-bands" | "components" | "monthly", search = "") => `/api/analytics/rates/${what}${search ? `?${search}` : ""}`,
   life: (what: "weibull" | "kaplan-meier" | "mcf", search = "") => `/api/analytics/life/${what}${search ? `?${search}` : ""}`,
+  rateCompare: (search: string) => `/api/analytics/rates/compare${search ? `?${search}` : ""}`,
+  costRates: (search = "") => `/api/analytics/rates/costs${search ? `?${search}` : ""}`,
+  lifeCostMcf: (search = "") => `/api/analytics/life/cost-mcf${search ? `?${search}` : ""}`,
   benchmarks: (what: "shops" | "funnel" | "trend" | "comebacks", params: Record<string, string | number | undefined> = {}) => {
     const q = new URLSearchParams(Object.entries(params).filter((e): e is [string, string | number] => e[1] !== undefined).map(([k, v]) => [k, String(v)]));
     return `/api/benchmarks/${what}${q.size ? `?${q}` : ""}`;

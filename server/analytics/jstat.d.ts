@@ -12,6 +12,14 @@ declare module "jstat" {
       cdf(x: number, dof: number): number;
       inv(p: number, dof: number): number;
     };
+    beta: {
+      /** Quantile of the Beta(a, b) distribution (inverse regularised incomplete beta). */
+      inv(p: number, a: number, b: number): number;
+    };
+    binomial: {
+      pdf(k: number, n: number, p: number): number;
+      cdf(k: number, n: number, p: number): number;
+    };
     /** Regularised lower incomplete gamma P(a, x). */
     lowRegGamma(a: number, x: number): number;
     /** ln Γ(x). */

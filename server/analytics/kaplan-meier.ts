@@ -11,19 +11,26 @@ export interface KaplanMeierStep {
   atRisk: number;
   events: number;
   survival: number;
-  /** Greenwood standard error of S: S·√Σ d/(n(n − d)). */
-  stdError: number;
+  /** Greenwood standard error of S: S·√Σ d/(n(n − d)); null once S = 0, where it is undefined (R survival: NA). */
+  stdError: number | null;
   /** Pointwise limits; null where the chosen transform is undefined (S = 0). */
   lower: number | null;
   upper: number | null;
 }
 
-export interface MedianSurvival {
-  /** null when the curve never reaches 0.5. */
+/** A quantile of the failure-time distribution read off the curve, with limits from the pointwise bands. */
+export interface SurvivalQuantile {
+  /** Fraction failed, F = 1 − S (0.5 = median, 0.1 = B10). */
+  p: number;
+  /** null when the curve never falls to 1 − p ("not reached"). */
   estimate: number | null;
+  /** Where the lower band falls to 1 − p; null when it never does. */
   lower: number | null;
+  /** Where the upper band falls to 1 − p; null when it never does ("not reached"). */
   upper: number | null;
 }
+
+export type MedianSurvival = Omit<SurvivalQuantile, "p">;
 
 export interface KaplanMeierCurve {
   steps: KaplanMeierStep[];
@@ -31,6 +38,8 @@ export interface KaplanMeierCurve {
   censoredTimes: number[];
   units: number;
   events: number;
+  /** Largest observed time, failed or censored: the end of the curve's last flat stretch. */
+  lastTime: number;
   level: number;
   confidenceType: KaplanMeierConfidenceType;
   median: MedianSurvival;
@@ -100,17 +109,65 @@ function limits(
   return { lower: survival ** Math.exp(spread), upper: survival ** Math.exp(-spread) };
 }
 
+/** R survival's default tolerance for "the curve sits exactly at 1 − p": sqrt(.Machine$double.eps). */
+const QUANTILE_TOLERANCE = Math.sqrt(2.220446049250313e-16);
+
 /**
- * First time at which a step curve falls to ≤ 0.5; if it sits exactly at 0.5, the midpoint to the next step
- * (the convention of R survival's quantile.survfit). null when it never gets there.
+ * Where a step curve of F = 1 − S (values `f` just after each time in `times`, F = 0 before the first) reaches p,
+ * by the rules of R survival's quantile.survfit (its findq): F within the tolerance of p on a flat stretch gives
+ * the midpoint of that stretch (to the next jump, or to `lastTime` when the stretch runs to the end of the curve);
+ * otherwise the first time F ≥ p. Repeated values are dropped first (the first time at each level is kept) and
+ * undefined band values (null, where S = 0) are skipped. null when the curve never reaches p.
  */
-function firstAtOrBelowHalf(times: readonly number[], values: readonly (number | null)[]): number | null {
+function curveQuantile(times: readonly number[], f: readonly (number | null)[], p: number, lastTime: number): number | null {
+  const xs: number[] = [0];
+  const ys: (number | null)[] = [0];
+  const seen = new Set<number | null>([0]);
   for (let i = 0; i < times.length; i++) {
-    const v = values[i] ?? 0;
-    if (Math.abs(v - 0.5) < 1e-12) return i + 1 < times.length ? (times[i] + times[i + 1]) / 2 : times[i];
-    if (v < 0.5) return times[i];
+    if (seen.has(f[i])) continue;
+    seen.add(f[i]);
+    xs.push(times[i]);
+    ys.push(f[i]);
   }
-  return null;
+  let highest = -Infinity;
+  for (const y of ys) if (y !== null && y > highest) highest = y;
+  if (highest < p) return null;
+  // R reads the index off approx(y ± tol, 1:n, p, "constant", f = 1), which sorts by y: the point with the
+  // smallest F at or above the line (for a monotone curve, simply the first one).
+  const lowestAtOrAbove = (shift: number): number | null => {
+    let best: number | null = null;
+    for (let i = 0; i < ys.length; i++) {
+      const y = ys[i];
+      if (y !== null && y + shift >= p && (best === null || y < (ys[best] as number))) best = i;
+    }
+    return best;
+  };
+  const i1 = lowestAtOrAbove(QUANTILE_TOLERANCE);
+  if (i1 === null) return null;
+  const last = ys[ys.length - 1];
+  if (last !== null && Math.abs(p - last) < QUANTILE_TOLERANCE) return (xs[i1] + lastTime) / 2;
+  const i2 = lowestAtOrAbove(-QUANTILE_TOLERANCE);
+  if (i2 === null) return null;
+  return (xs[i1] + xs[i2]) / 2;
+}
+
+/**
+ * The age by which a fraction p of units has failed (p = 0.5: median; p = 0.1: B10 life), with its limits, by
+ * the conventions of R survival's quantile.survfit: the estimate is where a horizontal line at S = 1 − p meets
+ * the curve (the midpoint of a flat stretch that sits exactly at 1 − p, within √ε); the lower and upper limits
+ * are where it meets the lower and upper pointwise bands; a curve or band that never gets down to 1 − p gives
+ * null ("not reached"), never the last time observed.
+ */
+export function kaplanMeierQuantile(curve: KaplanMeierCurve, p: number): SurvivalQuantile {
+  if (!(p > 0 && p < 1)) throw new RangeError(`p must be in (0, 1), got ${p}`);
+  const times = curve.steps.map((s) => s.time);
+  const failed = (v: number | null) => (v === null ? null : 1 - v);
+  return {
+    p,
+    estimate: curveQuantile(times, curve.steps.map((s) => 1 - s.survival), p, curve.lastTime),
+    lower: curveQuantile(times, curve.steps.map((s) => failed(s.lower)), p, curve.lastTime),
+    upper: curveQuantile(times, curve.steps.map((s) => failed(s.upper)), p, curve.lastTime),
+  };
 }
 
 /**
@@ -120,7 +177,8 @@ function firstAtOrBelowHalf(times: readonly number[], values: readonly (number |
  * at tᵢ is still at risk at tᵢ (censoring after events). Var log Ŝ = Σ d/(n(n − d)) (Greenwood).
  * Interval types: "log" (default) Ŝ·exp(±z·se(log Ŝ)), upper capped at 1; "plain" Ŝ ± z·se(Ŝ), clipped to
  * [0, 1]; "log-log" Ŝ^{exp(±z·se(log Ŝ)/|log Ŝ|)}. z = Φ⁻¹(1 − (1 − level)/2), default 95 %.
- * Median: the first time with Ŝ ≤ 0.5; its limits are where the lower and upper bands reach 0.5.
+ * Median and other quantiles by R survival's quantile.survfit conventions ({@link kaplanMeierQuantile}); where
+ * Ŝ reaches 0 the standard error and the limits are undefined (null), as R reports NA there.
  * Time unit is the caller's (engine hours since install). Steps are listed at failure times only.
  */
 export function kaplanMeier(observations: readonly LifeObservation[], options: KaplanMeierOptions = {}): KaplanMeierCurve {
@@ -137,23 +195,23 @@ export function kaplanMeier(observations: readonly LifeObservation[], options: K
     survival *= 1 - events / atRisk;
     greenwood += atRisk > events ? events / (atRisk * (atRisk - events)) : Infinity;
     const { lower, upper } = limits(survival, greenwood, z, confidenceType);
-    const stdError = survival > 0 ? survival * Math.sqrt(greenwood) : 0;
+    const stdError = survival > 0 && Number.isFinite(greenwood) ? survival * Math.sqrt(greenwood) : null;
     steps.push({ time, atRisk, events, survival, stdError, lower, upper });
   }
-  const times = steps.map((s) => s.time);
-  return {
+  const censoredTimes = observations.filter((o) => o.event === 0).map((o) => o.time).sort((a, b) => a - b);
+  const curve: KaplanMeierCurve = {
     steps,
-    censoredTimes: observations.filter((o) => o.event === 0).map((o) => o.time).sort((a, b) => a - b),
+    censoredTimes,
     units: observations.length,
     events: steps.reduce((n, s) => n + s.events, 0),
+    lastTime: Math.max(steps.at(-1)?.time ?? 0, censoredTimes.at(-1) ?? 0),
     level,
     confidenceType,
-    median: {
-      estimate: firstAtOrBelowHalf(times, steps.map((s) => s.survival)),
-      lower: firstAtOrBelowHalf(times, steps.map((s) => s.lower)),
-      upper: firstAtOrBelowHalf(times, steps.map((s) => s.upper)),
-    },
+    median: { estimate: null, lower: null, upper: null },
   };
+  const { estimate, lower, upper } = kaplanMeierQuantile(curve, 0.5);
+  curve.median = { estimate, lower, upper };
+  return curve;
 }
 
 /** Ŝ(t) read off a curve: the survival of the last step at or before t (1 before the first failure). */

@@ -2,14 +2,22 @@ import { Router, type Request } from "express";
 import { allow, requireScope } from "../auth/require-user.js";
 import type { Db } from "../db/database.js";
 import { analyticsFiltersSchema } from "../../shared/schemas/analytics-filters.js";
-import type {
-  ComponentRates,
-  HourBandRates,
-  MonthlyRates,
-  Rate,
-  TemperatureBandRates,
+import {
+  costRatesSchema,
+  rateCompareQuerySchema,
+  type ComponentRates,
+  type CostRates,
+  type RateComparisonAnswer,
+  type HourBandRates,
+  type MonthlyRates,
+  type Rate,
+  type TemperatureBandRates,
 } from "../../shared/schemas/analytics-rates.js";
-import { countsByComponent, countsByHourBand, countsByMonth, countsByTemperatureBand } from "../db/queries/analytics-rates.js";
+import { countsByComponent, countsByHourBand, countsByMonth, countsByTemperatureBand, countsForTwoGroups } from "../db/queries/analytics-rates.js";
+import { costsByShopAndComponent } from "../db/queries/analytics-costs.js";
+import { compareRates } from "../analytics/rate-ratio.js";
+import { costTable } from "../analytics/cost-rates.js";
+import { rateComparisonSentence } from "../analytics/comparison-words.js";
 import { poissonRate, type RateEstimate } from "../analytics/poisson.js";
 import { uChart } from "../analytics/control-chart.js";
 import { hourBands, temperatureBands } from "../../shared/bands.js";
@@ -110,6 +118,50 @@ export function analyticsRateRoutes(db: Db): Router {
         outOfControl: chart.points[i].outOfControl,
       })),
     };
+  };
+  router.get("/compare", async (req, res) => {
+    await answers.send(req, res, requireScope(req), () => comparison(req));
+  });
+  const comparison = async (req: Request): Promise<RateComparisonAnswer> => {
+    const q = rateCompareQuerySchema.parse(req.query);
+    const f = analyticsFiltersSchema.parse(req.query);
+    const filters = q.component ? { ...f, components: [q.component] } : f;
+    const counts = await countsForTwoGroups(db, requireScope(req), filters, q.compareBy, q.a, q.b || undefined);
+    const noun = { lot: "lot", engineFamily: "engine family", shop: "shop" }[q.compareBy];
+    const plural = { lot: "lots", engineFamily: "engine families", shop: "shops" }[q.compareBy];
+    const labelA = `${noun} ${q.a}`;
+    const labelB = q.b ? `${noun} ${q.b}` : `all other ${plural}`;
+    const c = compareRates(counts.a.failures, counts.a.engineHours, counts.b.failures, counts.b.engineHours);
+    const group = (label: string, g: { failures: number; engineHours: number }) => ({ label, ...g, perThousandHours: rate(poissonRate(g.failures, g.engineHours)) });
+    return {
+      compareBy: q.compareBy,
+      component: q.component ?? null,
+      a: group(labelA, counts.a),
+      b: group(labelB, counts.b),
+      comparison: c && { ratio: c.ratio, lower: c.lower, upper: c.upper, level: c.level, pValue: c.pValue, expectedA: c.expectedA },
+      sentence: rateComparisonSentence(labelA, labelB, c),
+      method: "Failures (first visit for a fault; comebacks excluded) per 1,000 engine hours in each group (a lot is the heater-plug lot fitted at the time, a shop the machine's home shop on the day); rate ratio A ÷ B with the exact conditional test (given the total, A's count is binomial with p = hours A ÷ all hours under equal rates): two-sided p-value and Clopper–Pearson 95 % interval as R's poisson.test gives them.",
+    };
+  };
+
+  router.get("/costs", async (req, res) => {
+    await answers.send(req, res, requireScope(req), () => costRates(req));
+  });
+  const costRates = async (req: Request): Promise<CostRates> => {
+    const f = analyticsFiltersSchema.parse(req.query);
+    const { rows, hoursByShop } = await costsByShopAndComponent(db, requireScope(req), f);
+    const t = costTable(rows, hoursByShop);
+    const name = (code: string) => components.find((c) => c.code === code)?.name ?? code;
+    return costRatesSchema.parse({
+      currency: "the exports' currency",
+      method: "Parts + labour cost of every failure line (comeback visits included), by the machine's home shop on the day the order opened, per 1,000 engine hours of that shop's fleet; a component's cost over all shops per 1,000 engine hours of the whole fleet. Missing costs count as 0; the lot, temperature-band and hour-band filters do not apply to costs.",
+      shops: t.shops,
+      components: t.components.map((c) => ({ ...c, name: name(c.component) })),
+      rows: t.rows.map((r) => ({ ...r, name: name(r.component) })),
+      engineHours: t.engineHours,
+      cost: t.cost,
+      perThousandHours: t.perThousandHours,
+    });
   };
   return router;
 }

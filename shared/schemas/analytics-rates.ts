@@ -69,3 +69,64 @@ export const monthlyRatesSchema = z.object({
   method: z.string(),
 });
 export type MonthlyRates = z.infer<typeof monthlyRatesSchema>;
+
+/** GET /api/analytics/rates/compare: two lots, engine families or shops compared on failures per 1,000 engine hours. */
+export const rateCompareQuerySchema = z.object({
+  compareBy: z.enum(["lot", "engineFamily", "shop"], { error: "compareBy must be lot, engineFamily or shop" }),
+  /** group A */
+  a: z.string({ error: "name group A with a=…" }).trim().min(1, { error: "name group A with a=…" }).max(40),
+  /** group B; without it, everything else in the filters */
+  b: z.string().trim().max(40).optional(),
+  /** one component's failures (code); without it, every component */
+  component: z.string().max(40).optional(),
+});
+export type RateCompareQuery = z.infer<typeof rateCompareQuerySchema>;
+
+const compareGroupSchema = z.object({ label: z.string(), failures: z.number(), engineHours: z.number(), perThousandHours: rateSchema.nullable() });
+
+export const rateComparisonSchema = z.object({
+  compareBy: z.enum(["lot", "engineFamily", "shop"]),
+  component: z.string().nullable(),
+  a: compareGroupSchema,
+  b: compareGroupSchema,
+  /** null when either group has no exposure or neither has a failure */
+  comparison: z
+    .object({
+      ratio: z.number().nullable(),
+      lower: z.number(),
+      upper: z.number().nullable(),
+      level: z.number(),
+      pValue: z.number(),
+      expectedA: z.number(),
+    })
+    .nullable(),
+  /** the result in words, e.g. "Lot A fails 2.4 times as often as lot B per 1,000 engine hours (95 % CI 1.3–4.4, p = 0.004)" */
+  sentence: z.string(),
+  method: z.string(),
+});
+export type RateComparisonAnswer = z.infer<typeof rateComparisonSchema>;
+
+/** GET /api/analytics/rates/costs: repair cost per 1,000 engine hours by component and shop. */
+export const costRatesSchema = z.object({
+  currency: z.string(),
+  method: z.string(),
+  shops: z.array(z.object({ shop: z.string(), engineHours: z.number(), cost: z.number(), lines: z.number(), perThousandHours: z.number().nullable() })),
+  components: z.array(z.object({ component: z.string(), name: z.string(), cost: z.number(), lines: z.number(), perThousandHours: z.number().nullable() })),
+  rows: z.array(
+    z.object({
+      shop: z.string(),
+      component: z.string(),
+      name: z.string(),
+      lines: z.number(),
+      partsCost: z.number(),
+      labourCost: z.number(),
+      cost: z.number(),
+      engineHours: z.number(),
+      perThousandHours: z.number().nullable(),
+    }),
+  ),
+  engineHours: z.number(),
+  cost: z.number(),
+  perThousandHours: z.number().nullable(),
+});
+export type CostRates = z.infer<typeof costRatesSchema>;

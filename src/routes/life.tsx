@@ -1,36 +1,43 @@
+import { useState } from "react";
 import { useQuery } from "@tanstack/react-query";
 import { useSearchParams } from "react-router-dom";
 import { lifeQueries } from "@/features/life/api/life-queries";
-import { kaplanMeierChart, mcfChart, weibullChart } from "@/features/life/charts/life-charts";
+import { costMcfChart, kaplanMeierChart, mcfChart, weibullChart } from "@/features/life/charts/life-charts";
+import { rateQueries } from "@/features/rates/api/rate-queries";
+import { RateComparisonView } from "@/features/rates/components/rate-comparison-view";
+import { shopQueries } from "@/features/filters/api/shop-queries";
 import { FilterBar } from "@/features/filters/components/filter-bar";
 import { QueryView } from "@/features/filters/components/query-view";
 import { readFilters, useFilters } from "@/features/filters/use-filters";
-import { readLifeParams } from "@/features/life/life-params";
+import { parseBLife, readLifeParams } from "@/features/life/life-params";
 import type { PrimeCache } from "@/app/page-loader";
 import { ChartCard } from "@/components/chart-card";
 import { Card } from "@/components/ui/states";
 import { palette } from "@/lib/palette";
 import { components, engineFamilies } from "@shared/catalog";
-import type { WeibullResponse } from "@shared/schemas/analytics-life";
+import type { BLife, WeibullResponse } from "@shared/schemas/analytics-life";
 
 const COMPARISONS = [
   { id: "", label: "No comparison" },
   { id: "lot", label: "A lot against the rest" },
   { id: "engineFamily", label: "One engine family against another" },
   { id: "climate", label: "Cold shops against mild shops" },
+  { id: "shop", label: "One shop against another" },
 ] as const;
 
 const h = (v: number | null | undefined) => (v === null || v === undefined ? "—" : Math.round(v).toLocaleString("en-US"));
 const interval = (i: { lower: number | null; upper: number | null } | null, f = h) => (i ? `${f(i.lower)} – ${f(i.upper)}` : "—");
 const p = (v: number) => (v < 0.001 ? "< 0.001" : v.toFixed(3));
 const field = "mt-1 block rounded border border-line bg-white px-2 py-1 text-sm";
+const bLifeText = (b: BLife) => `${h(b.estimate)} (${h(b.lower)} – ${b.upper === null ? "not reached" : h(b.upper)})`;
 
 function FitTable({ d }: { d: WeibullResponse }) {
+  const extra = d.groups.map((g) => (g.fit.status === "fitted" ? g.fit.bLife : null)).find((b) => b !== null && b.percent !== 10) ?? null;
   return (
     <div className="overflow-x-auto">
       <table className="w-full text-left text-sm">
         <thead className="text-muted">
-          <tr className="border-b border-line"><th className="py-1.5 pr-3">Group</th><th className="pr-3 text-right">Units</th><th className="pr-3 text-right">Failures</th><th className="pr-3">β shape (90 %)</th><th className="pr-3">η scale, h (90 %)</th><th>B10 life, h (90 %)</th></tr>
+          <tr className="border-b border-line"><th className="py-1.5 pr-3">Group</th><th className="pr-3 text-right">Units</th><th className="pr-3 text-right">Failures</th><th className="pr-3">β shape (90 %)</th><th className="pr-3">η scale, h (90 %)</th><th className="pr-3">B10 life, h (90 %)</th>{extra && <th>B{extra.percent} life, h (90 %)</th>}</tr>
         </thead>
         <tbody>
           {d.groups.map((g) => (
@@ -42,10 +49,11 @@ function FitTable({ d }: { d: WeibullResponse }) {
                 <>
                   <td className="pr-3 tabular-nums">{g.fit.shape.toFixed(2)} ({interval(g.fit.shapeInterval, (v) => (v === null || v === undefined ? "—" : v.toFixed(2)))})</td>
                   <td className="pr-3 tabular-nums">{h(g.fit.scale)} ({interval(g.fit.scaleInterval)})</td>
-                  <td className="tabular-nums">{h(g.fit.b10)} ({interval(g.fit.b10Interval)})</td>
+                  <td className="pr-3 tabular-nums">{h(g.fit.b10)} ({interval(g.fit.b10Interval)})</td>
+                  {extra && <td className="tabular-nums" data-testid="weibull-b-life">{bLifeText(g.fit.bLife)}</td>}
                 </>
               ) : (
-                <td colSpan={3} className="text-muted">Not fitted: {g.fit.reason}. See the Kaplan–Meier curve below.</td>
+                <td colSpan={extra ? 4 : 3} className="text-muted">Not fitted: {g.fit.reason}. See the Kaplan–Meier curve below.</td>
               )}
             </tr>
           ))}
@@ -66,12 +74,20 @@ export const primeCache: PrimeCache = (qc, { url }) => {
   void qc.prefetchQuery(lifeQueries.weibull(lifeSearch));
   void qc.prefetchQuery(lifeQueries.kaplanMeier(lifeSearch));
   void qc.prefetchQuery(lifeQueries.mcf(mcfSearch));
+  void qc.prefetchQuery(lifeQueries.costMcf(mcfSearch));
 };
 
 export function Component() {
   const { search } = useFilters();
   const [params, setParams] = useSearchParams();
-  const { component, compareBy, compareValue, compareOther, mcfComponent, lifeSearch, mcfSearch } = readLifeParams(params, search);
+  const { component, compareBy, compareValue, compareOther, mcfComponent, bLife, lifeSearch, mcfSearch, rateCompareSearch } = readLifeParams(params, search);
+  const [bLifeError, setBLifeError] = useState<string | null>(null);
+  const applyBLife = (text: string) => {
+    const parsed = parseBLife(text);
+    if ("error" in parsed) return setBLifeError(parsed.error);
+    setBLifeError(null);
+    set({ bLife: parsed.value === 10 ? "" : String(parsed.value) });
+  };
   const set = (next: Record<string, string>) => {
     const p2 = new URLSearchParams(params);
     for (const [k, v] of Object.entries(next)) (v ? p2.set(k, v) : p2.delete(k));
@@ -80,6 +96,9 @@ export function Component() {
   const weibull = useQuery(lifeQueries.weibull(lifeSearch));
   const km = useQuery(lifeQueries.kaplanMeier(lifeSearch));
   const recurrences = useQuery(lifeQueries.mcf(mcfSearch));
+  const costs = useQuery(lifeQueries.costMcf(mcfSearch));
+  const rateComparison = useQuery({ ...rateQueries.compare(rateCompareSearch ?? ""), enabled: rateCompareSearch !== null });
+  const shops = useQuery({ ...shopQueries.list(), enabled: compareBy === "shop" });
   const compName = components.find((c) => c.code === component)?.name ?? component;
 
   return (
@@ -117,8 +136,43 @@ export function Component() {
               ))}
             </>
           )}
+          {compareBy === "shop" && (
+            <>
+              {(["compareValue", "compareOther"] as const).map((k) => (
+                <label key={k} className="text-xs font-semibold uppercase tracking-wide text-muted">{k === "compareValue" ? "Shop" : "against"}
+                  <select className={field} value={k === "compareValue" ? compareValue : compareOther} onChange={(e) => set({ [k]: e.target.value })}>
+                    <option value="">{k === "compareValue" ? "choose…" : "all other shops"}</option>
+                    {(shops.data?.shops ?? []).map((s) => <option key={s.code} value={s.code}>{s.code} {s.name}</option>)}
+                  </select>
+                </label>
+              ))}
+            </>
+          )}
+          <label className="text-xs font-semibold uppercase tracking-wide text-muted">B-life (B1–B50)
+            <span className="mt-1 flex items-center gap-1 text-sm normal-case tracking-normal text-ink">B
+              <input
+                key={bLife}
+                aria-label="B-life percent"
+                aria-invalid={bLifeError !== null}
+                aria-describedby={bLifeError ? "b-life-error" : undefined}
+                inputMode="numeric"
+                className="block w-16 rounded border border-line bg-white px-2 py-1 text-sm"
+                defaultValue={String(bLife)}
+                onBlur={(e) => applyBLife(e.target.value)}
+                onKeyDown={(e) => e.key === "Enter" && applyBLife(e.currentTarget.value)}
+              />
+            </span>
+            {bLifeError && <span id="b-life-error" role="alert" className="mt-1 block text-xs normal-case tracking-normal text-red-700">{bLifeError}</span>}
+          </label>
         </div>
       </Card>
+      {rateCompareSearch !== null && (
+        <Card title={`Failure rates compared: ${compName}`}>
+          <QueryView query={rateComparison} label="the rate comparison" lines={3}>
+            {(d) => <RateComparisonView d={d} />}
+          </QueryView>
+        </Card>
+      )}
       <QueryView query={weibull} label="the Weibull fit" isEmpty={(d) => d.groups.every((g) => g.fit.units === 0)} emptyText={`No ${compName.toLowerCase()} units match these filters.`}>
         {(d) => (
           <ChartCard
@@ -142,7 +196,15 @@ export function Component() {
               rows={d.groups.flatMap((g) => g.steps.map((s) => ({ group: g.label, ...s })))}
               columns={[{ key: "group", label: "Group" }, { key: "time", label: "Engine hours" }, { key: "atRisk", label: "At risk" }, { key: "survival", label: "Survival" }, { key: "lower", label: "95 % lower" }, { key: "upper", label: "95 % upper" }]}
               filename="life-kaplan-meier.csv"
-              footer={d.method}
+              footer={
+                <>
+                  <p className="mb-1 text-sm text-ink" data-testid="km-b-life">
+                    B{bLife} life read off the curve:{" "}
+                    {d.groups.map((g, i) => <span key={g.label}>{i > 0 && "; "}{g.label} {g.bLife.estimate === null ? "not reached" : bLifeText(g.bLife)} h</span>)} (95 %)
+                  </p>
+                  {d.method}
+                </>
+              }
             />
           )}
         </QueryView>
@@ -163,6 +225,19 @@ export function Component() {
               columns={[{ key: "group", label: "Group" }, { key: "age", label: "Engine hours" }, { key: "mcf", label: "Mean repairs" }, { key: "lower", label: "95 % lower" }, { key: "upper", label: "95 % upper" }, { key: "atRisk", label: "Machines" }]}
               filename="life-mcf.csv"
               footer={d.method}
+            />
+          )}
+        </QueryView>
+        <QueryView query={costs} label="the cost mean cumulative function" isEmpty={(d) => d.groups.every((g) => g.machines === 0)} emptyText="No machines match these filters.">
+          {(d) => (
+            <ChartCard
+              title="Repair cost per machine (Nelson cost MCF)"
+              subtitle={`Parts + labour of ${components.find((c) => c.code === mcfComponent)?.name.toLowerCase() ?? mcfComponent} repairs${d.groups[0]?.slopePerThousandHours != null ? ` · ${Math.round(d.groups[0].slopePerThousandHours).toLocaleString("en-US")} per machine per 1,000 h` : ""}`}
+              options={costMcfChart(d, palette)}
+              rows={d.groups.flatMap((g) => g.steps.map((s) => ({ group: g.label, ...s })))}
+              columns={[{ key: "group", label: "Group" }, { key: "age", label: "Engine hours" }, { key: "mcf", label: "Mean cost" }, { key: "lower", label: "95 % lower" }, { key: "upper", label: "95 % upper" }, { key: "atRisk", label: "Machines" }]}
+              filename="life-cost-mcf.csv"
+              footer={<>{d.method} Cost in {d.currency}.</>}
             />
           )}
         </QueryView>

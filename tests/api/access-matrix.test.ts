@@ -154,6 +154,9 @@ const ACCESS: Record<string, Entry> = {
   "GET /api/analytics/life/weibull": { shop: "filter", req: filtered((s) => apiPaths.life("weibull", s)), expect: gate(ANALYTICS, 200, "as-empty") },
   "GET /api/analytics/life/kaplan-meier": { shop: "filter", req: filtered((s) => apiPaths.life("kaplan-meier", s)), expect: gate(ANALYTICS, 200, "as-empty") },
   "GET /api/analytics/life/mcf": { shop: "filter", req: filtered((s) => apiPaths.life("mcf", s)), expect: gate(ANALYTICS, 200, "as-empty") },
+  "GET /api/analytics/life/cost-mcf": { shop: "filter", req: filtered((s) => apiPaths.lifeCostMcf(s)), expect: gate(ANALYTICS, 200, "as-empty") },
+  "GET /api/analytics/rates/compare": { shop: "filter", req: filtered((s) => apiPaths.rateCompare(`compareBy=engineFamily&a=K18-3G&b=K26-4R&${s}`)), expect: gate(ANALYTICS, 200, "as-empty") },
+  "GET /api/analytics/rates/costs": { shop: "filter", req: filtered((s) => apiPaths.costRates(s)), expect: gate(ANALYTICS, 200, "as-empty") },
   "GET /api/analytics/clusters": { shop: "filter", req: filtered((s) => apiPaths.clusters(s)), expect: gate(ANALYTICS, 200, "as-empty") },
   // a cluster of the scan filtered to a shop, asked for with the same filter: outside a manager's shops it is not in their scan
   "GET /api/analytics/clusters/:id": {

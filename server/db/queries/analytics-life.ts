@@ -133,3 +133,54 @@ export async function recurrences(db: Db, scope: ShopScope, f: AnalyticsFilters,
     };
   });
 }
+
+export interface CostRecurrenceRow extends RecurrenceRow {
+  /** parts + labour cost of each repair, in the order of `ages` (a missing cost counts as 0) */
+  costs: number[];
+}
+
+/**
+ * {@link recurrences} with each repair's cost (parts_cost + labor_cost of the failure line), for the cost mean
+ * cumulative function: the same machines, observation windows and repairs.
+ */
+export async function costRecurrences(db: Db, scope: ShopScope, f: AnalyticsFilters, component: string): Promise<CostRecurrenceRow[]> {
+  const unitFilter: AnalyticsFilters = { ...f, tempBands: [], hourBands: [], lots: [] };
+  const res = await analyticsRead(db, sql<{
+    machine_key: string; repairs: { age: number; cost: number }[] | null; start_age: number; end_age: number; lot: string;
+    shop_code: string; climate_zone: string | null; engine_family: string;
+  }>`
+    WITH mach AS ${machinesCarrying(component, scope, unitFilter)}
+    SELECT m.machine_key, m.build_lot AS lot, m.shop_code, m.climate_zone, m.engine_family,
+           greatest(m.first_h - m.install_h, 0) AS start_age, m.last_h - m.install_h AS end_age,
+           (SELECT json_agg(json_build_object(
+                     'age', fl.hour_meter::double precision - m.install_h,
+                     'cost', coalesce(fl.parts_cost, 0)::double precision + coalesce(fl.labor_cost, 0)::double precision)
+                   ORDER BY fl.hour_meter, fl.repair_line_key)
+              FROM fact_repair_line fl JOIN dim_component c ON c.component_key = fl.component_key
+             WHERE fl.machine_key = m.machine_key AND c.component_code = ${component} AND fl.line_type = 'failure'
+               AND fl.hour_meter IS NOT NULL
+               ${f.from ? sql`AND fl.opened_date >= ${f.from}::date` : sql``}
+               ${f.to ? sql`AND fl.opened_date <= ${f.to}::date` : sql``}) AS repairs
+    FROM mach m
+    WHERE m.last_h > m.install_h
+    ORDER BY m.machine_key -- a fixed order, so sums over machines come out the same to the last digit
+  `);
+  return res.rows
+    .filter((r) => Number(r.end_age) > Number(r.start_age))
+    .map((r) => {
+      const start = Number(r.start_age);
+      const end = Number(r.end_age);
+      const kept = (r.repairs ?? []).map((x) => ({ age: Number(x.age), cost: Math.max(0, Number(x.cost)) })).filter((x) => x.age > start && x.age <= end);
+      return {
+        machineKey: String(r.machine_key),
+        ages: kept.map((x) => x.age),
+        costs: kept.map((x) => x.cost),
+        startAge: start,
+        endAge: end,
+        lot: r.lot,
+        shopCode: r.shop_code,
+        climateZone: r.climate_zone,
+        engineFamily: r.engine_family,
+      };
+    });
+}

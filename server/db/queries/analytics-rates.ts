@@ -43,3 +43,39 @@ export async function countsByComponent(db: Db, scope: ShopScope, f: AnalyticsFi
     rows: fails.rows.map((r) => ({ component: r.component_code, failures: Number(r.failures) })),
   };
 }
+
+export type CompareBy = "lot" | "engineFamily" | "shop";
+
+/**
+ * Failures and engine hours of two groups of the filtered fleet: group A has the attribute (heater-plug lot,
+ * engine family or home shop) equal to `a`; group B equal to `b`, or, without `b`, every other value.
+ * Failures and exposure carry the same labels (failureRelation / exposureRelation), so each group's rate is
+ * its own failures over its own hours. A lot comparison reads agg_exposure, which keeps the lot.
+ */
+export async function countsForTwoGroups(
+  db: Db,
+  scope: ShopScope,
+  f: AnalyticsFilters,
+  by: CompareBy,
+  a: string,
+  b: string | undefined,
+): Promise<{ a: { failures: number; engineHours: number }; b: { failures: number; engineHours: number } }> {
+  const value = by === "shop" ? (v: string) => v.toUpperCase() : (v: string) => v;
+  const group = (t: string) => {
+    const c = sql.ref(`${t}.${by === "lot" ? "lot" : by === "engineFamily" ? "engine_family" : "shop_code"}`);
+    return sql`CASE WHEN ${c} = ${value(a)} THEN 'A' WHEN ${b === undefined ? sql`${c} <> ${value(a)}` : sql`${c} = ${value(b)}`} THEN 'B' END`;
+  };
+  const res = await analyticsRead(db, sql<{ grp: string; failures: string | null; engine_hours: number | null }>`
+    WITH e AS (SELECT ${group("ex")} AS grp, sum(engine_hours)::double precision AS engine_hours
+               FROM ${exposureRelation(scope, f, by === "lot")} ex GROUP BY 1),
+         fl AS (SELECT ${group("fr")} AS grp, count(*)::bigint AS failures FROM ${failureRelation(scope, f)} fr GROUP BY 1)
+    SELECT coalesce(e.grp, fl.grp) AS grp, fl.failures, e.engine_hours
+    FROM e FULL JOIN fl ON fl.grp = e.grp
+    WHERE coalesce(e.grp, fl.grp) IS NOT NULL
+  `);
+  const pick = (g: string) => {
+    const r = res.rows.find((x) => x.grp === g);
+    return { failures: Number(r?.failures ?? 0), engineHours: Number(r?.engine_hours ?? 0) };
+  };
+  return { a: pick("A"), b: pick("B") };
+}

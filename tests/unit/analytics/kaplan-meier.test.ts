@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { kaplanMeier, logRankTest, survivalAt } from "../../../server/analytics/kaplan-meier.js";
+import { kaplanMeier, kaplanMeierQuantile, logRankTest, survivalAt } from "../../../server/analytics/kaplan-meier.js";
 import { placeboArm, sixMpArm } from "./fixtures/reference-datasets.js";
 
 // REFERENCE case D: Freireich et al. (1963) 6-MP arm. S(t) to 4 d.p. is PUBLISHED in Le, Introductory
@@ -122,5 +122,64 @@ describe("logRankTest(groupA, groupB)", () => {
 
   it("gives a statistic of 0 when the groups are identical (common practice, no source)", () => {
     expect(logRankTest(sixMpArm, sixMpArm).statistic).toBeCloseTo(0, 12);
+  });
+});
+
+// R survival's conventions for quantiles of a survfit curve: the help page of quantile.survfit (survival
+// package, man/quantile.survfit.Rd: "it is possible for the curve to have a horizontal segment at exactly 1-k,
+// in which case the midpoint of the horizontal segment is returned … If the survival curve does not fall to
+// 1-k, then that quantile is undefined", with the tolerance sqrt(.Machine$double.eps) for round-off) and its
+// code (R/quantile.survfit.R, findq: a flat stretch at the end runs to the last time observed).
+describe("kaplanMeierQuantile(curve, p)", () => {
+  it("returns the midpoint 10.5 for the median of 20 uncensored distinct times, where the product (19/20)…(10/11) stands for 0.5 (R survival quantile.survfit help page, its own example)", () => {
+    const curve = kaplanMeier(Array.from({ length: 20 }, (_, i) => ({ time: i + 1, event: 1 as const })));
+    expect(kaplanMeierQuantile(curve, 0.5).estimate).toBe(10.5);
+    expect(curve.median.estimate).toBe(10.5);
+  });
+
+  it("takes the midpoint of a flat stretch that runs to the end of the curve: failures at 1 and 2, censored at 3 and 4 → median (2 + 4)/2 = 3 (R survival quantile.survfit help page: midpoint of the horizontal segment; R/quantile.survfit.R findq: the end of the curve is the last time)", () => {
+    const curve = kaplanMeier([
+      { time: 1, event: 1 },
+      { time: 2, event: 1 },
+      { time: 3, event: 0 },
+      { time: 4, event: 0 },
+    ]);
+    expect(curve.lastTime).toBe(4);
+    expect(kaplanMeierQuantile(curve, 0.5).estimate).toBe(3);
+  });
+
+  it("reports a quantile the curve never reaches as null, not the last time: the 6-MP curve stops at 0.4482, so F = 0.6 has no estimate, while the lower band (0.3370 at 22 weeks, REFERENCE case D) does reach 0.4 (R survival quantile.survfit help page: 'that quantile is undefined')", () => {
+    const curve = kaplanMeier(sixMpArm);
+    expect(kaplanMeierQuantile(curve, 0.6)).toEqual({ p: 0.6, estimate: null, lower: 22, upper: null });
+  });
+
+  it("reports an upper band that never falls to 0.5 as not reached (null), even where S itself reaches 0 (R survival: limits NA where S = 0, dropped by quantile.survfit; arithmetic written out for 3 failures at 1, 2, 3)", () => {
+    // S = 2/3, 1/3, 0. Upper (log) = min(1, S·exp(1.96·√Σ d/(n(n−d)))): 1 at t = 1 and t = 2, undefined at t = 3.
+    const curve = kaplanMeier([1, 2, 3].map((time) => ({ time, event: 1 as const })));
+    expect(curve.median).toEqual({ estimate: 2, lower: 1, upper: null });
+  });
+
+  it("gives B10 = 6 weeks with limits [6, 16] for the 6-MP arm (REFERENCE case D table: S(6) = 0.8571, lower band 0.7198 at 6, upper band 0.8960 at 16 is the first below 0.9; read by R survival quantile.survfit's rule)", () => {
+    expect(kaplanMeierQuantile(kaplanMeier(sixMpArm), 0.1)).toEqual({ p: 0.1, estimate: 6, lower: 6, upper: 16 });
+  });
+
+  it("throws RangeError for p outside (0, 1) (common practice, no source)", () => {
+    expect(() => kaplanMeierQuantile(kaplanMeier(sixMpArm), 0)).toThrow(RangeError);
+    expect(() => kaplanMeierQuantile(kaplanMeier(sixMpArm), 1)).toThrow(RangeError);
+  });
+});
+
+describe("kaplanMeier(observations) where S reaches 0", () => {
+  it("leaves the standard error and both limits undefined (null), not 0, at and after S = 0 (R survival survfit: std.err and limits NA where the curve is 0)", () => {
+    const curve = kaplanMeier([1, 2, 3].map((time) => ({ time, event: 1 as const })));
+    const last = curve.steps.at(-1)!;
+    expect(last.survival).toBe(0);
+    expect(last.stdError).toBeNull();
+    expect(last.lower).toBeNull();
+    expect(last.upper).toBeNull();
+    for (const type of ["plain", "log-log"] as const) {
+      const step = kaplanMeier([1, 2, 3].map((time) => ({ time, event: 1 as const })), { confidenceType: type }).steps.at(-1)!;
+      expect([step.stdError, step.lower, step.upper]).toEqual([null, null, null]);
+    }
   });
 });

@@ -1,5 +1,6 @@
 import { describe, expect, it } from "vitest";
 import {
+  costMeanCumulativeFunction,
   mcfAt,
   mcfDifference,
   mcfSlope,
@@ -107,5 +108,75 @@ describe("mcfDifference(a, b, ages)", () => {
     const [point] = mcfDifference(curve, curve, [653]);
     expect(point.difference).toBe(0);
     expect(point.stdError).toBeCloseTo(Math.SQRT2 * 0.311656, 6);
+  });
+});
+
+// Nelson's (1988) artificial repair data with costs, as printed in the SAS/QC PROC RELIABILITY documentation
+// ("Recurrence Data from Repairable Systems", table "System Repair Histories for Artificial Data": age in months,
+// cost in $100, "+" = end of history). The documentation's worked MCF table could not be retrieved, so the
+// expected values below are hand-worked from the data (marked so), and the reduction to the count MCF is checked
+// against REFERENCE case I.
+const artificial = [
+  { id: "1", repairs: [{ age: 19, cost: 2 }, { age: 39, cost: 2 }], endAge: 42 },
+  { id: "2", repairs: [{ age: 8, cost: 2 }, { age: 14, cost: 1 }, { age: 26, cost: 1 }], endAge: 33 },
+  { id: "3", repairs: [{ age: 18, cost: 3 }], endAge: 29 },
+  { id: "4", repairs: [{ age: 2, cost: 1 }, { age: 8, cost: 1 }, { age: 16, cost: 2 }], endAge: 20 },
+  { id: "5", repairs: [], endAge: 16 },
+  { id: "6", repairs: [{ age: 5, cost: 3 }, { age: 12, cost: 1 }], endAge: 12 },
+];
+
+describe("costMeanCumulativeFunction(units)", () => {
+  const curve = costMeanCumulativeFunction(artificial);
+
+  it("gives the cost MCF 0.1667, 0.6667, …, 5.5167 ($100 per system) at the 10 repair ages of Nelson's artificial data (data: SAS/QC PROC RELIABILITY documentation, Nelson 1988; values hand-worked: Σ cost/r, e.g. 1/6 at 2 months, + 3/6 at 5, + 3/6 at 8, … + 2/1 at 39)", () => {
+    const expected: [number, number, number][] = [
+      [2, 6, 1 / 6], [5, 6, 4 / 6], [8, 6, 7 / 6], [12, 6, 8 / 6], [14, 5, 8 / 6 + 1 / 5], [16, 5, 8 / 6 + 3 / 5],
+      [18, 4, 8 / 6 + 3 / 5 + 3 / 4], [19, 4, 8 / 6 + 3 / 5 + 5 / 4], [26, 3, 8 / 6 + 3 / 5 + 5 / 4 + 1 / 3], [39, 1, 8 / 6 + 3 / 5 + 5 / 4 + 1 / 3 + 2],
+    ];
+    expect(curve.steps.map((s) => s.age)).toEqual(expected.map((e) => e[0]));
+    curve.steps.forEach((s, i) => {
+      expect(s.atRisk).toBe(expected[i][1]);
+      expect(s.mcf).toBeCloseTo(expected[i][2], 12);
+    });
+    expect(curve.steps.at(-1)!.mcf).toBeCloseTo(5.516667, 6);
+    expect(curve.totalCost).toBe(19);
+    expect(curve.repairs).toBe(11);
+  });
+
+  it("gives robust variance 30/1296 and 264/1296 and naive variance 30/1296 and 300/1296 at 2 and 5 months (hand-worked from the formulas of Nelson 1995 / Lawless–Nadeau and the naive form, written out in the comment)", () => {
+    // At 2 (r = 6, costs 1 on system 4): terms (1 − 1/6)/6 = 5/36 and −1/36 for the five others → Σ = 30/1296;
+    // naive (Σc² − C²/r)/r² = (1 − 1/6)/36 = 30/1296. At 5 (r = 6, cost 3 on system 6): robust terms 2/36
+    // (system 4), 14/36 (system 6), −4/36 (four others) → 264/1296; naive adds (9 − 9/6)/36 = 270/1296 → 300/1296.
+    const [at2, at5] = curve.steps;
+    expect(at2.stdErrorRobust ** 2).toBeCloseTo(30 / 1296, 14);
+    expect(at2.stdErrorNaive ** 2).toBeCloseTo(30 / 1296, 14);
+    expect(at5.stdErrorRobust ** 2).toBeCloseTo(264 / 1296, 14);
+    expect(at5.stdErrorNaive ** 2).toBeCloseTo(300 / 1296, 14);
+    expect(at5.stdError).toBe(at5.stdErrorRobust);
+    expect(costMeanCumulativeFunction(artificial, { variance: "naive" }).steps[1].stdError).toBe(at5.stdErrorNaive);
+  });
+
+  it("reduces exactly to the count MCF and its Lawless–Nadeau SE when every cost is 1: 1.542688 and 0.311656 at 653 days (REFERENCE case I, valve seats)", () => {
+    const costed = valveSeats.map((e) => ({ id: e.id, repairs: e.replacements.map((age) => ({ age, cost: 1 })), endAge: e.end }));
+    const cost = costMeanCumulativeFunction(costed);
+    const count = meanCumulativeFunction(engines);
+    expect(cost.steps.map((s) => [s.age, s.atRisk, s.repairs, s.mcf, s.stdErrorRobust, s.lower, s.upper])).toEqual(
+      count.steps.map((s) => [s.age, s.atRisk, s.events, s.mcf, s.stdErrorLawlessNadeau, s.lower, s.upper]),
+    );
+    const at653 = cost.steps.find((s) => s.age === 653)!;
+    expect(Math.abs(at653.mcf - 1.542688)).toBeLessThanOrEqual(1e-6);
+    expect(Math.abs(at653.stdErrorRobust - 0.311656)).toBeLessThanOrEqual(1e-6);
+  });
+
+  it("scales with the currency: costs × 100 give MCF and SE × 100 (common practice, no source)", () => {
+    const cents = costMeanCumulativeFunction(artificial.map((u) => ({ ...u, repairs: u.repairs.map((r) => ({ ...r, cost: r.cost * 100 })) })));
+    cents.steps.forEach((s, i) => {
+      expect(s.mcf).toBeCloseTo(100 * curve.steps[i].mcf, 9);
+      expect(s.stdErrorRobust).toBeCloseTo(100 * curve.steps[i].stdErrorRobust, 9);
+    });
+  });
+
+  it("refuses a negative cost (common practice, no source)", () => {
+    expect(() => costMeanCumulativeFunction([{ id: "x", repairs: [{ age: 2, cost: -5 }], endAge: 10 }])).toThrow(RangeError);
   });
 });

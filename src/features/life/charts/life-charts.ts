@@ -1,6 +1,6 @@
 import * as Plot from "@observablehq/plot";
 import type { Palette } from "@/lib/palette";
-import type { KaplanMeierResponse, McfResponse, WeibullResponse } from "@shared/schemas/analytics-life";
+import type { CostMcfResponse, KaplanMeierResponse, McfResponse, WeibullResponse } from "@shared/schemas/analytics-life";
 
 /** Weibull plot scale: y = ln(−ln(1 − F)), so a Weibull distribution is a straight line against log time. */
 export const weibullY = (F: number) => Math.log(-Math.log(1 - F));
@@ -65,6 +65,24 @@ export function mcfChart(d: McfResponse, c: Palette): Plot.PlotOptions {
       Plot.areaY(steps, { x: "age", y1: "lower", y2: "upper", fill: "group", fillOpacity: 0.15, curve: "step-after" }),
       Plot.lineY(steps, { x: "age", y: "mcf", stroke: "group", strokeWidth: 2, curve: "step-after" }),
       Plot.tip(steps, Plot.pointerX({ x: "age", y: "mcf", title: (s: (typeof steps)[number]) => `${s.group}\n${Math.round(s.age).toLocaleString("en-US")} h: ${s.mcf.toFixed(2)} repairs per machine (95 % ${s.lower.toFixed(2)}–${s.upper.toFixed(2)})\n${s.atRisk} machines observed` })),
+    ],
+  };
+}
+
+/** Mean cumulative repair cost per machine (Nelson's cost MCF) with its 95 % limits. */
+export function costMcfChart(d: CostMcfResponse, c: Palette): Plot.PlotOptions {
+  const steps = d.groups.flatMap((g) => [{ group: g.label, age: 0, mcf: 0, lower: 0, upper: 0, atRisk: g.machines }, ...g.steps.map((s) => ({ group: g.label, ...s }))]);
+  const money = (v: number) => Math.round(v).toLocaleString("en-US");
+  return {
+    height: 320,
+    marginLeft: 64,
+    x: { label: "Engine hours since delivery", grid: true },
+    y: { label: "Repair cost per machine (mean cumulative)", grid: true, zero: true },
+    color: { domain: d.groups.map((g) => g.label), range: c.series.slice(0, d.groups.length), legend: true },
+    marks: [
+      Plot.areaY(steps, { x: "age", y1: "lower", y2: "upper", fill: "group", fillOpacity: 0.15, curve: "step-after" }),
+      Plot.lineY(steps, { x: "age", y: "mcf", stroke: "group", strokeWidth: 2, curve: "step-after" }),
+      Plot.tip(steps, Plot.pointerX({ x: "age", y: "mcf", title: (s: (typeof steps)[number]) => `${s.group}\n${Math.round(s.age).toLocaleString("en-US")} h: ${money(s.mcf)} per machine (95 % ${money(s.lower)}–${money(s.upper)})\n${s.atRisk} machines observed` })),
     ],
   };
 }

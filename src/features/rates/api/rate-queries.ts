@@ -1,7 +1,7 @@
 import { queryOptions } from "@tanstack/react-query";
 import { apiGet } from "@/lib/api-client";
 import { apiPaths } from "@shared/api-paths";
-import { componentRatesSchema, hourBandRatesSchema, monthlyRatesSchema, temperatureBandRatesSchema } from "@shared/schemas/analytics-rates";
+import { componentRatesSchema, costRatesSchema, hourBandRatesSchema, monthlyRatesSchema, rateComparisonSchema, temperatureBandRatesSchema } from "@shared/schemas/analytics-rates";
 
 export const rateQueries = {
   all: () => ["rates"] as const,
@@ -13,4 +13,9 @@ export const rateQueries = {
     queryOptions({ queryKey: [...rateQueries.all(), "components", search] as const, queryFn: ({ signal }) => apiGet(apiPaths.rates("components", search), componentRatesSchema, signal) }),
   monthly: (search: string) =>
     queryOptions({ queryKey: [...rateQueries.all(), "monthly", search] as const, queryFn: ({ signal }) => apiGet(apiPaths.rates("monthly", search), monthlyRatesSchema, signal) }),
+  /** `search` holds compareBy, a, b, component and the filters */
+  compare: (search: string) =>
+    queryOptions({ queryKey: [...rateQueries.all(), "compare", search] as const, queryFn: ({ signal }) => apiGet(apiPaths.rateCompare(search), rateComparisonSchema, signal) }),
+  costs: (search: string) =>
+    queryOptions({ queryKey: [...rateQueries.all(), "costs", search] as const, queryFn: ({ signal }) => apiGet(apiPaths.costRates(search), costRatesSchema, signal) }),
 };
