@@ -19,7 +19,7 @@ export function analyticsClusterRoutes(db: Db): Router {
       const { components: comps, query: q, scan } = found;
       const findings = findingsOf(found);
       // the group-wide scan at its defaults is the one whose figures findings are tracked by (once per data version)
-      if (scope.kind === "all" && Object.keys(req.query).length === 0) {
+      if (scope.kind === "all" && Object.keys(req.query).every((k) => k === "unit")) {
         await recordFindings(db, await dataVersion(db), findings.map((f) => ({ key: f.key, description: f.sentence, observed: f.lead.observed, expected: f.lead.expected, lower: f.lead.lower })));
       }
       const body: ClusterList = {

@@ -9,7 +9,11 @@ import { overviewSummary, type OverviewSummary } from "../services/overview-summ
 import { RevalidatingCache, wantsFresh, type Served } from "../services/revalidating-cache.js";
 import { dataVersion, versionBatch } from "../db/queries/data-version.js";
 import { logger } from "../logger.js";
-import { analyticsRoles } from "../../shared/roles.js";
+import { analyticsRoles, findingReadRoles, type Role } from "../../shared/roles.js";
+import { listFindingStates } from "../db/queries/findings.js";
+import { findingNews } from "../analytics/finding-news.js";
+import { findingsOf } from "../services/cluster-finder.js";
+import { sql } from "kysely";
 
 export const ATTENTION_DEFINITION =
   "Over the 365 days up to the latest repair order: one point per failure visit, two more per comeback (a visit for the same component within 30 days and 100 engine hours of the previous one's close) and three more per component with three or more visits (a repeat repair). Highest score first.";
@@ -66,6 +70,7 @@ export function overviewRoutes(db: Db): Router {
     const seen = new Set(visit.previousClusterIds ?? []);
     const fresh = clusters.filter((c) => !seen.has(c.id));
     const body: Overview = {
+      findings: user.roles.some((r) => (findingReadRoles as readonly Role[]).includes(r)) ? await findingsSection(visit.previousVisitAt, found) : null,
       asOf: asOf(summary),
       loads: loadsByShop(loads, new Map(shops.map((s) => [s.code, s.name]))),
       headlines,
@@ -82,4 +87,21 @@ export function overviewRoutes(db: Db): Router {
     res.json(body);
   });
   return router;
+
+  /** Findings new or changed since the caller's last visit and since the last load, each linked to its lead in the current scan. */
+  async function findingsSection(previousVisitAt: Date | null, found: ClusterFinding): Promise<NonNullable<Overview["findings"]>> {
+    const [states, last] = await Promise.all([
+      listFindingStates(db),
+      sql<{ t: Date | null }>`SELECT max(finished_at) AS t FROM etl_batch WHERE status = 'loaded'`.execute(db),
+    ]);
+    const lastLoadAt = last.rows[0]?.t ?? null;
+    const idOf = new Map(findingsOf(found).map((f) => [f.key, f.id]));
+    const withId = (n: ReturnType<typeof findingNews>) => n.map((x) => ({ ...x, id: idOf.get(x.key) ?? null }));
+    return {
+      previousVisitAt: previousVisitAt?.toISOString() ?? null,
+      lastLoadAt: lastLoadAt?.toISOString() ?? null,
+      sinceVisit: withId(findingNews(states, previousVisitAt)),
+      sinceLoad: withId(lastLoadAt ? findingNews(states, lastLoadAt) : []),
+    };
+  }
 }

@@ -3,7 +3,7 @@ import type { Db } from "../db/database.js";
 import type { ShopScope } from "../../shared/schemas/me.js";
 import { analyticsFiltersSchema, type AnalyticsFilters } from "../../shared/schemas/analytics-filters.js";
 import { clusterQuerySchema, type Cluster, type ClusterQuery, type Finding } from "../../shared/schemas/analytics-clusters.js";
-import { ALL } from "../analytics/cluster-scan.js";
+import { ALL, describeCell, type DimensionLabels } from "../analytics/cluster-scan.js";
 import { facetWords, findingSentence, groupFindings } from "../analytics/findings.js";
 import { findingKey } from "../../shared/finding-key.js";
 import { hourBandLabel, temperatureBandLabel } from "../../shared/bands.js";
@@ -67,11 +67,16 @@ export async function findClusters(db: Db, scope: ShopScope, raw: Record<string,
   return { components: comps, filters, query, scan };
 }
 
-/** A ranked signal as the API shows it. */
-export const toCluster = (comps: string[], s: ClusterSignal): Cluster => ({
+type Unit = "C" | "F";
+const partName = (code: string) => components.find((c) => c.code === code)?.name ?? code;
+/** How the words of a scan name parts and bands, in the caller's temperature unit. */
+const labelsIn = (unit: Unit): DimensionLabels => ({ component: partName, temperatureBand: (id) => temperatureBandLabel(id, unit), hourBand: hourBandLabel });
+
+/** A ranked signal as the API shows it, its sentence in the caller's temperature unit. */
+export const toCluster = (comps: string[], s: ClusterSignal, unit: Unit = "C"): Cluster => ({
   id: clusterId(comps, s.dimensions),
   rank: s.rank,
-  description: s.description,
+  description: describeCell(s, subjectFor(comps), labelsIn(unit)),
   dimensions: s.dimensions,
   observed: s.observed,
   expected: s.expected,
@@ -84,19 +89,27 @@ export const toCluster = (comps: string[], s: ClusterSignal): Cluster => ({
   absorbed: s.absorbed.length,
 });
 
-const listed = new WeakMap<ScanSummary, Cluster[]>();
-const grouped = new WeakMap<ScanSummary, Finding[]>();
+/** Worked out once per scan and unit (ids are hashes; lists are long). */
+function perScan<T>(store: WeakMap<ScanSummary, Map<Unit, T>>, scan: ScanSummary, unit: Unit, make: () => T): T {
+  let byUnit = store.get(scan);
+  if (!byUnit) store.set(scan, (byUnit = new Map()));
+  let v = byUnit.get(unit);
+  if (v === undefined) byUnit.set(unit, (v = make()));
+  return v;
+}
+const listed = new WeakMap<ScanSummary, Map<Unit, Cluster[]>>();
+const grouped = new WeakMap<ScanSummary, Map<Unit, Finding[]>>();
 
-const partName = (code: string) => components.find((c) => c.code === code)?.name ?? code;
+type Found = Pick<ClusterFinding, "components" | "scan"> & { query: Pick<ClusterQuery, "standardise" | "unit"> };
 
-/** The scan's signals as findings (one per underlying signal, server/analytics/findings.ts), worked out once per scan. */
-export function findingsOf(found: Pick<ClusterFinding, "components" | "scan" | "query">): Finding[] {
-  let list = grouped.get(found.scan);
-  if (!list) {
+/** The scan's signals as findings (one per underlying signal, server/analytics/findings.ts), in the query's temperature unit. */
+export function findingsOf(found: Found): Finding[] {
+  const unit = found.query.unit;
+  return perScan(grouped, found.scan, unit, () => {
     const byDims = new Map(found.scan.signals.map((s, i) => [s, clustersOf(found)[i]]));
-    const labels = { temperatureBand: (id: string) => temperatureBandLabel(id, "F"), hourBand: hourBandLabel };
+    const labels = labelsIn(unit);
     const subject = subjectFor(found.components);
-    list = groupFindings(found.scan.signals).map((f) => {
+    return groupFindings(found.scan.signals).map((f) => {
       const part = f.lead.dimensions.component && f.lead.dimensions.component !== ALL ? f.lead.dimensions.component : null;
       return {
         id: byDims.get(f.lead)!.id,
@@ -110,14 +123,11 @@ export function findingsOf(found: Pick<ClusterFinding, "components" | "scan" | "
         cells: f.cells,
       };
     });
-    grouped.set(found.scan, list);
-  }
-  return list;
+  });
 }
 
-/** Every signal of a scan as the API shows it, worked out once per scan (ids are hashes; lists are long). */
-export function clustersOf(found: Pick<ClusterFinding, "components" | "scan">): Cluster[] {
-  let list = listed.get(found.scan);
-  if (!list) listed.set(found.scan, (list = found.scan.signals.map((s) => toCluster(found.components, s))));
-  return list;
+/** Every signal of a scan as the API shows it, in the query's temperature unit (default °C). */
+export function clustersOf(found: Pick<ClusterFinding, "components" | "scan"> & { query?: Pick<ClusterQuery, "unit"> }): Cluster[] {
+  const unit = found.query?.unit ?? "C";
+  return perScan(listed, found.scan, unit, () => found.scan.signals.map((s) => toCluster(found.components, s, unit)));
 }

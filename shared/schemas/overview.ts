@@ -41,6 +41,17 @@ export type DataAsOf = z.infer<typeof dataAsOfSchema>;
 /** New clusters the Overview lists by name; the rest are counted and reached through the Clusters page. */
 export const NEW_CLUSTERS_SHOWN = 10;
 
+const overviewFindingSchema = z.object({
+  key: z.string(),
+  /** the lead cluster of the finding in the current scan, to open it; null when the scan no longer shows it */
+  id: z.string().nullable(),
+  sentence: z.string(),
+  status: z.enum(["new", "investigating", "confirmed", "dismissed"]),
+  /** what changed, in words: found, stronger or weaker after a load, its status or owner, a note */
+  change: z.string(),
+  at: z.string(),
+});
+
 export const overviewSchema = z.object({
   /** the data behind the loads, headlines and attention list (the clusters carry their own) */
   asOf: dataAsOfSchema.optional(),
@@ -73,6 +84,16 @@ export const overviewSchema = z.object({
     /** the highest-ranked of those new clusters, at most NEW_CLUSTERS_SHOWN */
     newSinceLastVisit: z.array(clusterSchema.omit({ repairLineIds: true })),
   }),
+  /** findings new or changed since the caller's last visit and since the last load (group-wide roles; null for the others) */
+  findings: z
+    .object({
+      previousVisitAt: z.string().nullable(),
+      lastLoadAt: z.string().nullable(),
+      sinceVisit: z.array(overviewFindingSchema),
+      sinceLoad: z.array(overviewFindingSchema),
+    })
+    .nullable()
+    .optional(),
   attention: z.object({
     windowEnd: z.string().nullable(),
     definition: z.string(),

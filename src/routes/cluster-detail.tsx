@@ -3,7 +3,7 @@ import { Link, useParams } from "react-router-dom";
 import { clusterQueries } from "@/features/clusters/api/cluster-queries";
 import { clusterProfileChart, clusterTimelineChart } from "@/features/clusters/charts/cluster-charts";
 import { readFilters, useFilters } from "@/features/filters/use-filters";
-import { useTemperatureUnit } from "@/features/filters/hooks/use-temperature-unit";
+import { currentTemperatureUnit, useTemperatureUnit } from "@/features/filters/hooks/use-temperature-unit";
 import { QueryView } from "@/features/filters/components/query-view";
 import { ChartCard } from "@/components/chart-card";
 import { Card } from "@/components/ui/states";
@@ -44,14 +44,14 @@ function Summary({ d }: { d: ClusterDetail }) {
 
 // prefetched, not awaited: the detail is read from the cluster scan, which can take seconds on a fresh server
 export const primeCache: PrimeCache = (qc, { params, url }) => {
-  void qc.prefetchQuery(clusterQueries.detail(params.id ?? "", readFilters(url.searchParams).search));
+  void qc.prefetchQuery(clusterQueries.detail(params.id ?? "", readFilters(url.searchParams).search, currentTemperatureUnit()));
 };
 
 export function Component() {
   const { id = "" } = useParams();
   const { search } = useFilters();
   const [unit] = useTemperatureUnit();
-  const q = useQuery(clusterQueries.detail(id, search));
+  const q = useQuery(clusterQueries.detail(id, search, unit));
   const { data: me } = useSuspenseQuery(meQueries.current());
   const canClaim = (me?.roles ?? []).some((r) => (claimRoles as readonly string[]).includes(r));
   const readsFindings = (me?.roles ?? []).some((r) => (findingReadRoles as readonly string[]).includes(r));

@@ -6,6 +6,7 @@ import { findingReadRoles } from "@shared/roles";
 import { Link } from "react-router-dom";
 import { clusterQueries } from "@/features/clusters/api/cluster-queries";
 import { ClusterFigures, FindingCard } from "@/features/clusters/components/finding-card";
+import { currentTemperatureUnit, useTemperatureUnit } from "@/features/filters/hooks/use-temperature-unit";
 import { FilterBar } from "@/features/filters/components/filter-bar";
 import { QueryView } from "@/features/filters/components/query-view";
 import { readFilters, useFilters } from "@/features/filters/use-filters";
@@ -13,13 +14,14 @@ import type { PrimeCache } from "@/app/page-loader";
 
 // prefetched, not awaited: the cluster scan is the heaviest analysis; the page shows its skeleton meanwhile
 export const primeCache: PrimeCache = (qc, { url }) => {
-  void qc.prefetchQuery(clusterQueries.list(readFilters(url.searchParams).search));
+  void qc.prefetchQuery(clusterQueries.list(readFilters(url.searchParams).search, currentTemperatureUnit()));
 };
 
 export function Component() {
   const { filters, search } = useFilters();
   // the scan picks its own components (the cold-start aids) unless the filter names one
-  const q = useQuery(clusterQueries.list(search));
+  const [unit] = useTemperatureUnit();
+  const q = useQuery(clusterQueries.list(search, unit));
   const { data: me } = useSuspenseQuery(meQueries.current());
   const readsFindings = (me?.roles ?? []).some((r) => (findingReadRoles as readonly string[]).includes(r));
   const states = useQuery({ ...findingQueries.states(), enabled: readsFindings });

@@ -113,6 +113,40 @@ function NewClusters({ c }: { c: Overview["clusters"] }) {
   );
 }
 
+function FindingList({ items, empty }: { items: NonNullable<Overview["findings"]>["sinceVisit"]; empty: string }) {
+  if (!items.length) return <p className="text-sm text-muted">{empty}</p>;
+  return (
+    <ol className="mt-1 space-y-1.5">
+      {items.map((x) => (
+        <li key={x.key} className="text-sm">
+          <span className="mr-1 rounded-full border border-slate px-1.5 text-xs font-semibold">{x.change}</span>
+          {x.id ? (
+            <Link to={`/clusters/${x.id}`} className="text-accent underline-offset-2 hover:underline">{x.sentence}</Link>
+          ) : (
+            <span>{x.sentence}</span>
+          )}
+        </li>
+      ))}
+    </ol>
+  );
+}
+
+function FindingChanges({ f }: { f: NonNullable<Overview["findings"]> }) {
+  return (
+    <div className="space-y-3">
+      <div>
+        <h3 className="text-sm font-semibold">Since your last visit{f.previousVisitAt ? ` (${when(f.previousVisitAt)})` : ""}</h3>
+        <FindingList items={f.sinceVisit} empty="No finding is new or changed since your last visit." />
+      </div>
+      <div>
+        <h3 className="text-sm font-semibold">Since the last load{f.lastLoadAt ? ` (${when(f.lastLoadAt)})` : ""}</h3>
+        <FindingList items={f.sinceLoad} empty="The last load changed no finding." />
+      </div>
+      <Link to="/clusters" className="inline-block text-sm font-semibold text-accent">All findings →</Link>
+    </div>
+  );
+}
+
 function Attention({ a }: { a: Overview["attention"] }) {
   if (!a.machines.length) return <EmptyState title="No machine stands out">No failure visits in the last 365 days of data for your shops.</EmptyState>;
   return (
@@ -168,7 +202,11 @@ export function Component() {
           <div className="grid gap-4 lg:grid-cols-2">
             <div className="lg:col-span-2 empty:hidden"><AsOf o={o} /></div>
             <Card title="Failure rates against last year"><Headlines h={o.headlines} /></Card>
-            <Card title="New clusters since your last visit"><NewClusters c={o.clusters} /></Card>
+            {o.findings ? (
+              <Card title="Findings new or changed"><FindingChanges f={o.findings} /></Card>
+            ) : (
+              <Card title="New clusters since your last visit"><NewClusters c={o.clusters} /></Card>
+            )}
             <div className="lg:col-span-2"><Card title="Last loads per shop"><Loads loads={o.loads} /></Card></div>
             <div className="lg:col-span-2"><Card title="Machines most in need of attention"><Attention a={o.attention} /></Card></div>
           </div>

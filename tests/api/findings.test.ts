@@ -31,6 +31,18 @@ const states = async (cookie = analyst) => findingStateListSchema.parse((await r
 const work = async (key: string) => findingWorkSchema.parse((await request(t.app).get(apiPaths.finding(key)).set("Cookie", analyst).expect(200)).body);
 const change = (key: string, body: object, cookie = analyst) => request(t.app).post(apiPaths.finding(key)).set("Cookie", cookie).set("Origin", ORIGIN).send(body);
 
+describe("findings' words", () => {
+  it("follow the caller's temperature unit: °C by default, °F when asked, the figures the same", async () => {
+    const f = (await request(t.app).get(apiPaths.clusters("unit=F")).set("Cookie", analyst).expect(200)).body as ClusterList;
+    const words = (l: ClusterList) => [...l.findings.flatMap((x) => [x.sentence, ...x.facets.map((y) => y.words)]), ...l.clusters.map((c) => c.description)].join("\n");
+    expect(words(list)).toMatch(/°C/);
+    expect(words(list)).not.toMatch(/°F/);
+    expect(words(f)).toMatch(/°F/);
+    expect(words(f)).not.toMatch(/°C/);
+    expect(f.findings.map((x) => [x.key, x.lead.observed, x.lead.expected])).toEqual(list.findings.map((x) => [x.key, x.lead.observed, x.lead.expected]));
+  });
+});
+
 describe("findings' states", () => {
   it("are tracked for every finding of the group-wide scan, as new, found by the scan", async () => {
     expect(list.findings.length).toBeGreaterThan(0);

@@ -19,7 +19,7 @@ describe("the analyst's week in Chromium", () => {
   it("signs in through the provider and sees the overview with loads, rates, new clusters and machines", async () => {
     await signInThroughProvider(page(), env.stack.url, "analyst", DEMO_PASSWORD);
     await page().getByRole("heading", { name: "Machines most in need of attention" }).waitFor(SLOW);
-    await page().getByText("Your first visit").waitFor();
+    await page().getByRole("heading", { name: "Findings new or changed" }).waitFor();
     await page().getByRole("cell", { name: /S5 · / }).waitFor();
     await env.browser.screenshot("analyst-01-overview");
   }, 180_000);
@@ -34,6 +34,18 @@ describe("the analyst's week in Chromium", () => {
     expect(text).toMatch(/Inside this finding \(\d+\)/);
     // no second finding names the lot
     expect(await page().getByRole("list", { name: "Findings" }).getByRole("listitem").filter({ hasText: "lot BT-2109" }).count()).toBe(1);
+    // every temperature of the finding and its facets follows the unit switch
+    const openFacets = () => first.locator("details").first().evaluate((d) => ((d as HTMLDetailsElement).open = true));
+    await openFacets();
+    const temps = async () => (await first.innerText()).match(/°[CF]/g) ?? [];
+    expect(new Set(await temps())).toEqual(new Set(["°C"]));
+    const unitSwitch = page().getByRole("group", { name: "Temperature unit" });
+    await unitSwitch.getByRole("button", { name: "°F" }).click();
+    await page().waitForFunction(() => /°F/.test(document.querySelector('[aria-label="Findings"] li')?.textContent ?? ""), undefined, SLOW);
+    await openFacets();
+    expect(new Set(await temps())).toEqual(new Set(["°F"]));
+    await unitSwitch.getByRole("button", { name: "°C" }).click();
+    await page().waitForFunction(() => !/°F/.test(document.querySelector('[aria-label="Findings"] li')?.textContent ?? ""), undefined, SLOW);
     await env.browser.screenshot("analyst-02-clusters");
   }, 180_000);
 
@@ -64,6 +76,14 @@ describe("the analyst's week in Chromium", () => {
     const first = page().getByRole("list", { name: "Findings" }).getByRole("listitem").first();
     await first.getByText("Investigating", { exact: true }).waitFor(SLOW);
     await env.browser.screenshot("analyst-03b-finding-investigating");
+    // the Overview lists it among the findings changed since the last visit
+    await nav("Overview").click();
+    await page().getByRole("heading", { name: "Findings new or changed" }).waitFor(SLOW);
+    await page().getByText("worked: now investigating").first().waitFor(SLOW);
+    await env.browser.screenshot("analyst-03c-overview-finding-changed");
+    // back to the finding's evidence, where the next step starts
+    await page().getByRole("link", { name: /Heater-plug set failures with lot BT-2109/ }).first().click();
+    await page().getByRole("heading", { name: /^Repair lines \(\d+\)$/ }).waitFor(SLOW);
   }, 180_000);
 
   it("opens a repair with compression readings and sees the table with average and spread", async () => {

@@ -57,7 +57,7 @@ describe("route area error boundaries", { timeout: 20_000 }, () => {
   });
 
   it("says a cluster the page itself could not find was not found (the error thrown while rendering)", async () => {
-    answers[apiPaths.cluster("c0ffee")] = fail(404, "cluster_not_found", "That cluster is not in the current scan.");
+    answers[apiPaths.cluster("c0ffee", "unit=C")] = fail(404, "cluster_not_found", "That cluster is not in the current scan.");
     visit("/clusters/c0ffee");
     await screen.findByRole("heading", { name: /not found/i }, { timeout: 10_000 });
     expect(screen.getByText("That cluster is not in the current scan.")).toBeTruthy();

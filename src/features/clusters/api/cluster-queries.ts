@@ -3,11 +3,22 @@ import { apiGet } from "@/lib/api-client";
 import { apiPaths } from "@shared/api-paths";
 import { clusterDetailSchema, clusterListSchema } from "@shared/schemas/analytics-clusters";
 
-/** `search` carries the shared filters, so a cluster id is looked up in the same scan the list showed. */
+/** The filters' search with the temperature unit the words are to be written in. */
+const inUnit = (search: string, unit: "C" | "F") => (search ? `${search}&unit=${unit}` : `unit=${unit}`);
+
+/** `search` carries the shared filters, so a cluster id is looked up in the same scan the list showed; `unit` the words' temperature unit. */
 export const clusterQueries = {
   all: () => ["clusters"] as const,
-  list: (search: string) =>
-    queryOptions({ queryKey: [...clusterQueries.all(), "list", search] as const, queryFn: ({ signal }) => apiGet(apiPaths.clusters(search), clusterListSchema, signal), staleTime: 5 * 60_000 }),
-  detail: (id: string, search: string) =>
-    queryOptions({ queryKey: [...clusterQueries.all(), "detail", id, search] as const, queryFn: ({ signal }) => apiGet(apiPaths.cluster(id, search), clusterDetailSchema, signal), staleTime: 5 * 60_000 }),
+  list: (search: string, unit: "C" | "F" = "C") =>
+    queryOptions({
+      queryKey: [...clusterQueries.all(), "list", search, unit] as const,
+      queryFn: ({ signal }) => apiGet(apiPaths.clusters(inUnit(search, unit)), clusterListSchema, signal),
+      staleTime: 5 * 60_000,
+    }),
+  detail: (id: string, search: string, unit: "C" | "F" = "C") =>
+    queryOptions({
+      queryKey: [...clusterQueries.all(), "detail", id, search, unit] as const,
+      queryFn: ({ signal }) => apiGet(apiPaths.cluster(id, inUnit(search, unit)), clusterDetailSchema, signal),
+      staleTime: 5 * 60_000,
+    }),
 };

@@ -10,6 +10,9 @@ const read = (): "C" | "F" => {
   }
 };
 
+/** The unit as stored now, for code outside React (a page's cache priming). */
+export const currentTemperatureUnit = (): "C" | "F" => read();
+
 /**
  * The user's temperature unit (°C or °F), kept in this browser's localStorage and shared by every page.
  * Hand-written over useSyncExternalStore rather than a storage-hook library: one key with two values needs no dependency.
