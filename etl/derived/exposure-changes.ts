@@ -90,6 +90,8 @@ export async function scopeChanges(db: Kysely<any>, since: number): Promise<Chan
       UNION SELECT machine_key FROM fact_meter_reading WHERE batch_id > ${since}
       UNION SELECT machine_key FROM fact_repair_line WHERE batch_id > ${since}
       UNION SELECT (prior_row ->> 'machine_key')::bigint FROM fact_repair_line_history WHERE replaced_by_batch > ${since}
+      -- readings a late file re-judged (an hours export can change the verdict of a repair line it does not carry)
+      UNION SELECT machine_key FROM hour_verdict_change WHERE batch_id > ${since}
     ) touched
   `.execute(db);
   const jobs = await sql<{ any: boolean }>`SELECT EXISTS (SELECT 1 FROM etl_batch WHERE batch_id > ${since} AND kind = 'jobs') AS any`.execute(db);

@@ -101,7 +101,8 @@ function differences(a: unknown, b: unknown, at = "$"): string[] {
     return a.flatMap((x, i) => differences(x, b[i], `${at}[${i}]`));
   }
   if (a && b && typeof a === "object" && typeof b === "object" && !Array.isArray(a) && !Array.isArray(b)) {
-    const keys = [...new Set([...Object.keys(a), ...Object.keys(b)])].sort();
+    // when an answer was computed is a moment of the server that computed it, not data
+    const keys = [...new Set([...Object.keys(a), ...Object.keys(b)])].filter((k) => k !== "computedAt").sort();
     return keys.flatMap((k) => differences((a as Record<string, unknown>)[k], (b as Record<string, unknown>)[k], `${at}.${k}`));
   }
   return Object.is(a, b) ? [] : [`${at}: ${JSON.stringify(a)} ≠ ${JSON.stringify(b)}`];

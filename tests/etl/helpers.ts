@@ -1,4 +1,5 @@
 import { execFile } from "node:child_process";
+import { readFileSync, writeFileSync } from "node:fs";
 import path from "node:path";
 import { fileURLToPath } from "node:url";
 import { promisify } from "node:util";
@@ -58,3 +59,43 @@ export async function dropTestDb(t: { pool: pg.Pool; drop(): Promise<void> }): P
   await t.pool.end();
   await t.drop();
 }
+
+/** Splits a CSV line of the samples (no quoted fields in them). */
+const cells = (line: string) => line.split(",");
+
+/**
+ * A jobs export of `rows` lines built from the generic sample: its repair lines repeated with new RO numbers,
+ * spread over the machines the warehouse knows (at their home shops), one day for every hundred lines of a
+ * machine and hour meters that only go up, so every row is an ordinary line rather than a reject.
+ */
+export function bigJobsFile(file: string, rows: number, machines: { serial: string; shop: string; hours: number }[]): void {
+  const [head, ...sampleRows] = readFileSync(sample("generic-jobs.csv"), "utf8").trim().split("\n").map(cells);
+  const col = (name: string) => {
+    const i = head.indexOf(name);
+    if (i < 0) throw new Error(`generic-jobs.csv has no column ${name}`);
+    return i;
+  };
+  // lines with every column and a plausible labour figure serve as templates
+  const templates = sampleRows.filter((r) => r.length === head.length && Number(r[col("labor_hours")]) > 0);
+  if (templates.length < 2) throw new Error("generic-jobs.csv has too few complete lines to serve as templates");
+  const start = Date.UTC(2024, 0, 1);
+  const out: string[] = [head.join(",")];
+  for (let i = 0; i < rows; i++) {
+    const m = machines[i % machines.length];
+    const nth = Math.floor(i / machines.length);
+    const day = (offset: number) => new Date(start + (Math.floor(nth / 100) + offset) * 86_400_000).toISOString().slice(0, 10);
+    const r = [...templates[i % templates.length]];
+    r[col("shop_code")] = m.shop;
+    r[col("ro_number")] = `K-${i}`;
+    r[col("line_no")] = "1";
+    r[col("serial")] = m.serial;
+    r[col("opened_date")] = day(0);
+    r[col("closed_date")] = day(1);
+    r[col("hour_meter")] = (m.hours + nth * 0.1).toFixed(1);
+    r[col("part_ordered_date")] = day(0);
+    r[col("part_received_date")] = day(1);
+    out.push(r.join(","));
+  }
+  writeFileSync(file, out.join("\n") + "\n");
+}
+
