@@ -1,7 +1,8 @@
 import { describe, expect, it } from "vitest";
-import type { Locator, Page } from "playwright-core";
+import type { Locator } from "playwright-core";
 import { signInThroughProvider } from "../helpers/browser.js";
 import { browserJourney } from "../helpers/browser-journey.js";
+import { photograph } from "../helpers/photograph.js";
 import { DEMO_PASSWORD } from "../../server/auth/demo-accounts.js";
 
 // An administrator corrects an export profile in Chromium: a shop system that now writes its dates day first
@@ -11,8 +12,6 @@ import { DEMO_PASSWORD } from "../../server/auth/demo-accounts.js";
 
 const env = browserJourney({ demo: true });
 const SLOW = { timeout: 90_000 };
-const PHONE = { width: 390, height: 844 };
-const DESKTOP = { width: 1280, height: 860 };
 const HEADER =
   "shop_code,ro_number,line_no,serial,opened_date,closed_date,hour_meter,meter_note,complaint,cause,correction,component_code,failure_mode,labor_op,standard_hours,labor_hours,parts_cost,labor_cost,pay_type,line_type,tech_id,part_number,part_description,part_qty,supplier_lot,part_ordered_date,part_received_date,back_ordered,fault_codes,ambient_temp";
 
@@ -25,16 +24,7 @@ async function countsOf(list: Locator): Promise<Record<string, number>> {
   return Object.fromEntries(pairs);
 }
 
-const sidewaysOverflow = (p: Page) => p.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth);
 
-async function photograph(name: string) {
-  expect(await sidewaysOverflow(page())).toBeLessThanOrEqual(0);
-  await env.browser.screenshot(`${name}-desktop`);
-  await page().setViewportSize(PHONE);
-  expect(await sidewaysOverflow(page())).toBeLessThanOrEqual(0);
-  await env.browser.screenshot(`${name}-390px`);
-  await page().setViewportSize(DESKTOP);
-}
 
 describe("an administrator's profile edit tried on a sample and saved, in Chromium", () => {
   const sampleName = "s1-day-first.csv";
@@ -75,7 +65,7 @@ describe("an administrator's profile edit tried on a sample and saved, in Chromi
     // the rows land with their dates in the warehouse's form
     await page().getByRole("table", { name: `First rows of ${sampleName} as they would land` }).getByRole("cell", { name: "2024-06-20" }).first().waitFor();
     expect(await footprintNow()).toEqual(footprint);
-    await photograph("profile-trial");
+    await photograph(env.browser, "profile-trial");
   }, 120_000);
 
   it("saves the edit as version 2 with its note; the versions table shows both", async () => {
@@ -96,7 +86,7 @@ describe("an administrator's profile edit tried on a sample and saved, in Chromi
     await page().getByText(/an older version, shown as it was \(read only\)/).waitFor();
     expect(await page().getByLabel("Date format").inputValue()).toBe("iso");
     expect(await page().getByLabel("Date format").isDisabled()).toBe(true);
-    await photograph("profile-old-version");
+    await photograph(env.browser, "profile-old-version");
   }, 120_000);
 
   it("logs no console errors or failed requests", () => {

@@ -1,7 +1,8 @@
 import { beforeAll, describe, expect, it } from "vitest";
-import type { Locator, Page } from "playwright-core";
+import type { Locator } from "playwright-core";
 import { forgetSessions, signInThroughProvider } from "../helpers/browser.js";
 import { browserJourney } from "../helpers/browser-journey.js";
+import { photograph } from "../helpers/photograph.js";
 import { DEMO_PASSWORD } from "../../server/auth/demo-accounts.js";
 import { apiPaths } from "../../shared/api-paths.js";
 
@@ -12,8 +13,6 @@ import { apiPaths } from "../../shared/api-paths.js";
 // photographed at desktop and phone width. (The shop is a test shop: code T9, invented for this test.)
 
 const env = browserJourney({ demo: true });
-const PHONE = { width: 390, height: 844 };
-const DESKTOP = { width: 1280, height: 860 };
 const CODE = "T9";
 const NAME = "Test shop nine";
 const RENAMED = "Test shop nine, north yard";
@@ -31,22 +30,7 @@ beforeAll(() => {
   });
 });
 
-const sidewaysOverflow = (p: Page) => p.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth);
 
-/** Desktop and 390 px screenshots; at neither width may the page scroll sideways, and on the phone `inSight` must be on screen. */
-async function photograph(name: string, inSight?: Locator) {
-  expect(await sidewaysOverflow(page())).toBeLessThanOrEqual(0);
-  await env.browser.screenshot(`${name}-desktop`);
-  await page().setViewportSize(PHONE);
-  expect(await sidewaysOverflow(page())).toBeLessThanOrEqual(0);
-  if (inSight) {
-    const box = (await inSight.boundingBox())!;
-    expect(box.x).toBeGreaterThanOrEqual(0);
-    expect(box.x + box.width).toBeLessThanOrEqual(PHONE.width);
-  }
-  await env.browser.screenshot(`${name}-390px`);
-  await page().setViewportSize(DESKTOP);
-}
 
 /** The words shown beside a field: the text of the elements its aria-describedby names that are alerts. */
 async function problemOf(field: Locator): Promise<string | null> {
@@ -75,7 +59,7 @@ describe("an administrator's shop register, in Chromium", () => {
     await rowOf(shops[0].code).waitFor();
     expect(await register().locator("tbody tr").count()).toBe(shops.length);
     expect(await rowOf(CODE).count()).toBe(0);
-    await photograph("admin-shops", page().getByRole("button", { name: "Add a shop" }));
+    await photograph(env.browser, "admin-shops", page().getByRole("button", { name: "Add a shop" }));
   }, 180_000);
 
   it("refuses a latitude out of range and an unknown time zone in words beside each field, sending nothing", async () => {
@@ -101,7 +85,7 @@ describe("an administrator's shop register, in Chromium", () => {
     expect(await problemOf(form.getByLabel("Longitude"))).toBeNull();
     expect(writes).toEqual([]);
     expect(await stored(CODE)).toEqual([]);
-    await photograph("admin-shops-refused", form.getByText("latitude must lie between -90 and 90"));
+    await photograph(env.browser, "admin-shops-refused", form.getByText("latitude must lie between -90 and 90"));
   }, 60_000);
 
   it("saves the corrected shop and lists it", async () => {
@@ -119,7 +103,7 @@ describe("an administrator's shop register, in Chromium", () => {
     await row.getByRole("cell", { name: "Europe/Oslo", exact: true }).waitFor();
     expect(writes).toEqual([`POST ${apiPaths.adminShops()}`]);
     expect(await stored(CODE)).toEqual([{ name: NAME, lat: 59.91, lon: 10.75, time_zone: "Europe/Oslo" }]);
-    await photograph("admin-shops-added", row.getByRole("button", { name: `Edit shop ${CODE}` }));
+    await photograph(env.browser, "admin-shops-added", row.getByRole("button", { name: `Edit shop ${CODE}` }));
   }, 60_000);
 
   it("edits the shop's name, its code shown and unchangeable, and lists the new name", async () => {
@@ -137,14 +121,14 @@ describe("an administrator's shop register, in Chromium", () => {
     expect(await form.getByLabel("Latitude").inputValue()).toBe("59.91");
     expect(await form.getByLabel("Time zone").inputValue()).toBe("Europe/Oslo");
     await form.getByLabel("Name").fill(RENAMED);
-    await photograph("admin-shops-edit", form.getByRole("button", { name: "Save changes" }));
+    await photograph(env.browser, "admin-shops-edit", form.getByRole("button", { name: "Save changes" }));
     await form.getByRole("button", { name: "Save changes" }).click();
     await page().getByRole("status").getByText(`Shop ${CODE} (${RENAMED}) is saved.`).waitFor();
     await rowOf(CODE).getByRole("cell", { name: RENAMED, exact: true }).waitFor();
     expect(await register().getByRole("cell", { name: NAME, exact: true }).count()).toBe(0);
     expect(writes).toEqual([`POST ${apiPaths.adminShops()}`, `PUT ${apiPaths.adminShop(CODE)}`]);
     expect(await stored(CODE)).toEqual([{ name: RENAMED, lat: 59.91, lon: 10.75, time_zone: "Europe/Oslo" }]);
-    await photograph("admin-shops-renamed", rowOf(CODE).getByRole("button", { name: `Edit shop ${CODE}` }));
+    await photograph(env.browser, "admin-shops-renamed", rowOf(CODE).getByRole("button", { name: `Edit shop ${CODE}` }));
   }, 60_000);
 
   it("logs no console errors or failed requests", () => {
@@ -168,7 +152,7 @@ describe("a shop manager opening the register by its address, in Chromium", () =
     expect(await page().getByRole("button", { name: "Add a shop" }).count()).toBe(0);
     expect(await page().getByRole("button", { name: /retry|reload/i }).count()).toBe(0);
     await page().getByRole("navigation", { name: "Main" }).waitFor();
-    await photograph("admin-shops-manager-refused", refusal);
+    await photograph(env.browser, "admin-shops-manager-refused", refusal);
   }, 120_000);
 
   it("logged only the refusal it asked for, and no failed request", () => {

@@ -3,9 +3,10 @@ import { mkdtempSync, readFileSync, rmSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import path from "node:path";
 import { parse } from "csv-parse/sync";
-import type { Locator, Page } from "playwright-core";
+import type { Locator } from "playwright-core";
 import { signInThroughProvider } from "../helpers/browser.js";
 import { browserJourney } from "../helpers/browser-journey.js";
+import { photograph } from "../helpers/photograph.js";
 import { DEMO_PASSWORD } from "../../server/auth/demo-accounts.js";
 import { apiPaths } from "../../shared/api-paths.js";
 
@@ -18,8 +19,6 @@ import { apiPaths } from "../../shared/api-paths.js";
 const env = browserJourney({ demo: true });
 const work = mkdtempSync(path.join(tmpdir(), "ironledger-imports-e2e-"));
 const SLOW = { timeout: 90_000 };
-const PHONE = { width: 390, height: 844 };
-const DESKTOP = { width: 1280, height: 860 };
 const HEADER =
   "shop_code,ro_number,line_no,serial,opened_date,closed_date,hour_meter,meter_note,complaint,cause,correction,component_code,failure_mode,labor_op,standard_hours,labor_hours,parts_cost,labor_cost,pay_type,line_type,tech_id,part_number,part_description,part_qty,supplier_lot,part_ordered_date,part_received_date,back_ordered,fault_codes,ambient_temp";
 const BAD_DATE = "2024-13-40";
@@ -61,23 +60,7 @@ async function countsOf(list: Locator): Promise<Record<string, number>> {
   return Object.fromEntries(pairs);
 }
 
-/** The page is no wider than the window: anything wide scrolls inside its own box. */
-const sidewaysOverflow = (p: Page) => p.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth);
 
-/** Desktop and 390 px screenshots; at neither width may the page scroll sideways, and on the phone `inSight` must be on screen. */
-async function photograph(name: string, inSight?: Locator) {
-  expect(await sidewaysOverflow(page())).toBeLessThanOrEqual(0);
-  await env.browser.screenshot(`${name}-desktop`);
-  await page().setViewportSize(PHONE);
-  expect(await sidewaysOverflow(page())).toBeLessThanOrEqual(0);
-  if (inSight) {
-    const box = (await inSight.boundingBox())!;
-    expect(box.x).toBeGreaterThanOrEqual(0);
-    expect(box.x + box.width).toBeLessThanOrEqual(PHONE.width);
-  }
-  await env.browser.screenshot(`${name}-390px`);
-  await page().setViewportSize(DESKTOP);
-}
 
 describe("a shop manager's export checked, loaded and its reject mended, in Chromium", () => {
   const firstName = "s1-june.csv";
@@ -112,7 +95,7 @@ describe("a shop manager's export checked, loaded and its reject mended, in Chro
     await reject.getByText("(bad_date)").waitFor();
     // nothing is stored by the check
     expect(await c.getByRole("link", { name: /^Rejects of batch/ }).count()).toBe(0);
-    await photograph("imports-preview");
+    await photograph(env.browser, "imports-preview");
   }, 180_000);
 
   it("loads the file as a job and shows it loaded, at 100 %, with the batch's counts", async () => {
@@ -192,7 +175,7 @@ describe("a shop manager's export checked, loaded and its reject mended, in Chro
     const table = page().getByRole("table", { name: `Rejects of batch ${batch}` });
     const fixed = table.getByRole("link", { name: `fixed by batch ${later}` });
     await fixed.waitFor();
-    await photograph("imports-rejects", fixed);
+    await photograph(env.browser, "imports-rejects", fixed);
     await fixed.click();
     await page().getByRole("heading", { level: 1, name: `Rejects of batch ${later}` }).waitFor(SLOW);
     await page().getByText("This load rejected no rows.").waitFor();
@@ -212,7 +195,7 @@ describe("a manager's file naming another shop, in Chromium", () => {
     expect(await c.getByRole("button", { name: /^Load/ }).count()).toBe(0);
     // by now the load history holds both loads, one with a long file name
     await page().getByRole("table", { name: "Load history" }).locator("tbody tr").nth(1).waitFor();
-    await photograph("imports-refused");
+    await photograph(env.browser, "imports-refused");
   }, 120_000);
 
   it("logs no console errors or failed requests", () => {
