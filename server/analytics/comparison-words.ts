@@ -31,3 +31,26 @@ export function rateComparisonSentence(labelA: string, labelB: string, c: RateCo
   }
   return `${capitalise(labelA)} fails ${twoFigures(c.ratio)} times as often as ${labelB} per ${exposure} (${ci}, ${pWords(c.pValue)}).`;
 }
+
+/** A B-life in hours as read aloud: "688 h", "2,511 h". */
+const hoursWords = (h: number) => `${Math.round(h).toLocaleString("en-US")} h`;
+
+export interface LifeSide {
+  /** "lot BT-2109", "the family's other lots" */
+  label: string;
+  /** B10 from the Weibull fit (engine hours), or null when no fit */
+  b10: number | null;
+  units: number;
+  failures: number;
+}
+
+/**
+ * A finding's life comparison in words, from two Weibull fits of the part: e.g. "Life: 10 % of heater plugs from
+ * lot X have failed by 688 h, against 2,511 h for the family's other lots (B10 of Weibull fits over 410 and 2,300
+ * fitted parts)." Null when either side has no fit.
+ */
+export function lifeComparisonWords(part: string, a: LifeSide, b: LifeSide): string | null {
+  if (a.b10 === null || b.b10 === null) return null;
+  const shorter = a.b10 < b.b10 ? ` (about ${twoFigures(b.b10 / a.b10)} times shorter)` : "";
+  return `Life: 10 % of ${part} from ${a.label} have failed by ${hoursWords(a.b10)}, against ${hoursWords(b.b10)} for ${b.label}${shorter}; B10 of Weibull fits over ${a.units.toLocaleString("en-US")} and ${b.units.toLocaleString("en-US")} fitted parts.`;
+}

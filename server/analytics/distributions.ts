@@ -51,3 +51,18 @@ export function binomialPmf(r: number, n: number, p: number): number {
     jStat.gammaln(n + 1) - jStat.gammaln(r + 1) - jStat.gammaln(n - r + 1) + r * Math.log(p) + (n - r) * Math.log1p(-p);
   return Math.exp(logPmf);
 }
+
+/**
+ * Poisson quantile: the smallest integer x with P(X ≤ x | mean μ) ≥ p (R's qpois convention), p in (0, 1).
+ * Starts from the normal approximation and steps to the exact answer with the incomplete-gamma tail above,
+ * so it is exact for any mean (a step costs one tail evaluation; a few steps at most).
+ */
+export function poissonQuantile(p: number, mean: number): number {
+  if (!(p > 0 && p < 1)) throw new RangeError(`p must be in (0, 1), got ${p}`);
+  if (mean <= 0) return 0;
+  const cdf = (x: number) => 1 - poissonUpperTail(x + 1, mean);
+  let x = Math.max(0, Math.floor(mean + normalQuantile(p) * Math.sqrt(mean)));
+  while (x > 0 && cdf(x - 1) >= p) x--;
+  while (cdf(x) < p) x++;
+  return x;
+}

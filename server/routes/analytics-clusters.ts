@@ -7,6 +7,7 @@ import { analyticsRoles } from "../../shared/roles.js";
 import { AnswerCache, LARGE_ANSWERS } from "../services/answer-cache.js";
 import { recordFindings } from "../db/queries/findings.js";
 import { dataVersion } from "../db/queries/data-version.js";
+import { findingLifeWords } from "../services/finding-life.js";
 
 /** GET /api/analytics/clusters: the ranked clusters of the scan for the caller's scope and filters, kept per load. */
 export function analyticsClusterRoutes(db: Db): Router {
@@ -18,6 +19,8 @@ export function analyticsClusterRoutes(db: Db): Router {
       const found = await findClusters(db, scope, req.query);
       const { components: comps, query: q, scan } = found;
       const findings = findingsOf(found);
+      // life in words for the lot findings shown (a Weibull fit per finding on the worker threads)
+      const shown = await Promise.all(findings.slice(0, q.limit).map(async (f) => ({ ...f, life: await findingLifeWords(db, scope, f) })));
       // the group-wide scan at its defaults is the one whose figures findings are tracked by (once per data version)
       if (scope.kind === "all" && Object.keys(req.query).every((k) => k === "unit")) {
         await recordFindings(db, await dataVersion(db), findings.map((f) => ({ key: f.key, description: f.sentence, observed: f.lead.observed, expected: f.lead.expected, lower: f.lead.lower })));
@@ -29,7 +32,7 @@ export function analyticsClusterRoutes(db: Db): Router {
         caution: clusterCaution,
         cellsTested: scan.cellsTested,
         qThreshold: scan.qThreshold,
-        findings: findings.slice(0, q.limit),
+        findings: shown,
         clusters: clustersOf(found).slice(0, q.limit),
       };
       return body;

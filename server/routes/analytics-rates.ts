@@ -13,13 +13,16 @@ import {
   type Rate,
   type TemperatureBandRates,
 } from "../../shared/schemas/analytics-rates.js";
-import { countsByComponent, countsByHourBand, countsByMonth, countsByTemperatureBand, countsForTwoGroups } from "../db/queries/analytics-rates.js";
+import { countsByComponent, countsByHourBand, countsByMonthCell, countsByTemperatureBand, countsForTwoGroups } from "../db/queries/analytics-rates.js";
+import { shopMonthCoverage } from "../db/queries/month-coverage.js";
+import { COMPLETE_COVERAGE, incompleteMonthsWords, monthCompleteness } from "../analytics/month-completeness.js";
+import { expectedByMonth } from "../analytics/expected-by-month.js";
 import { costsByShopAndComponent } from "../db/queries/analytics-costs.js";
 import { compareRates } from "../analytics/rate-ratio.js";
 import { costTable } from "../analytics/cost-rates.js";
 import { rateComparisonSentence } from "../analytics/comparison-words.js";
 import { poissonRate, type RateEstimate } from "../analytics/poisson.js";
-import { uChart } from "../analytics/control-chart.js";
+import { flaggedMonthWords, standardisedChart, uChart } from "../analytics/control-chart.js";
 import { hourBands, temperatureBands } from "../../shared/bands.js";
 import { components } from "../../shared/catalog.js";
 import { analyticsRoles } from "../../shared/roles.js";
@@ -103,20 +106,52 @@ export function analyticsRateRoutes(db: Db): Router {
   });
   const monthlyRates = async (req: Request): Promise<MonthlyRates> => {
     const f = analyticsFiltersSchema.parse(req.query);
-    const rows = (await countsByMonth(db, requireScope(req), f)).filter((r) => r.engineHours > 0);
-    const chart = uChart(rows.map((r) => ({ failures: r.failures, exposure: r.engineHours })));
+    const scope = requireScope(req);
+    const [cells, coverageRows] = await Promise.all([countsByMonthCell(db, scope, f), shopMonthCoverage(db, scope, f.shops)]);
+    const completeness = new Map(monthCompleteness(coverageRows).map((m) => [m.month, m]));
+    const isComplete = (month: string) => completeness.get(month)?.complete ?? false;
+    const months = expectedByMonth(cells, isComplete).filter((m) => m.engineHours > 0);
+    const complete = months.filter((m) => isComplete(m.month));
+    const standardised = standardisedChart(months.map((m) => ({ observed: m.failures, expected: m.expected })));
+    // the plain u-chart's centre and limits come from the complete months only, as do its alarms
+    const plain = uChart(complete.map((m) => ({ failures: m.failures, exposure: m.engineHours })));
+    const plainOf = new Map(complete.map((m, i) => [m.month, plain.points[i]]));
+    const shown = months.filter((m) => completeness.has(m.month));
+    const left = shown.filter((m) => !isComplete(m.month)).map((m) => completeness.get(m.month)!);
+    const flagged: MonthlyRates["flagged"] = [];
+    const rows = months.map((m, i) => {
+      const ok = isComplete(m.month);
+      const s = standardised[i];
+      const p = plainOf.get(m.month);
+      const words = ok ? flaggedMonthWords(m.month, s) : null;
+      if (words) flagged.push({ month: m.month, direction: s.outOfControl!, words });
+      return {
+        month: m.month,
+        failures: m.failures,
+        engineHours: m.engineHours,
+        perThousandHours: rate(poissonRate(m.failures, m.engineHours)),
+        coverage: completeness.get(m.month)?.coverage ?? null,
+        complete: ok,
+        expected: m.expected,
+        ratio: s.ratio,
+        ratioLower: ok ? s.lower : null,
+        ratioUpper: ok ? s.upper : null,
+        controlLower: p?.lower ?? null,
+        controlUpper: p?.upper ?? null,
+        outOfControl: ok && s.outOfControl !== null,
+        outOfControlPlain: p?.outOfControl ?? false,
+      };
+    });
     return {
-      method: "u-chart: centre = all failures ÷ all engine hours; limits = centre ± 3·√(centre ÷ month's hours) (NIST/SEMATECH e-Handbook 6.3.3.2).",
-      centre: chart.centre,
-      rows: rows.map((r, i) => ({
-        month: r.band.slice(0, 7),
-        failures: r.failures,
-        engineHours: r.engineHours,
-        perThousandHours: rate(poissonRate(r.failures, r.engineHours)),
-        controlLower: chart.points[i].lower,
-        controlUpper: chart.points[i].upper,
-        outOfControl: chart.points[i].outOfControl,
-      })),
+      centre: plain.centre,
+      reference: complete.length ? { from: complete[0].month, to: complete[complete.length - 1].month, months: complete.length } : null,
+      completeCoverage: COMPLETE_COVERAGE,
+      incompleteNote: incompleteMonthsWords(left),
+      flagged,
+      rows,
+      method:
+        `Observed ÷ expected failures by month. Each month's expected failures are its engine hours in each hour band × temperature band at the failure rates those cells had over the complete months shown (indirect standardisation, as the cluster scan does), so an ageing fleet or a cold month raises the expectation rather than the alarm; the complete months together read 1. Limits are the 0.135 % and 99.865 % quantiles of a Poisson count with the month's expectation (exact probability limits, the tail areas of 3-sigma limits). A month counts as complete when hour readings cover at least ${Math.round(COMPLETE_COVERAGE * 100)} % of its machine-days in service (its rate is then at most about 5 % high); incomplete months are drawn hollow, without limits, and raise no alarm.`,
+      plainMethod: "u-chart over the complete months: centre = their failures ÷ their engine hours; limits = centre ± 3·√(centre ÷ month's hours) (NIST/SEMATECH e-Handbook 6.3.3.2).",
     };
   };
   router.get("/compare", async (req, res) => {

@@ -118,6 +118,7 @@ export function findingsOf(found: Found): Finding[] {
         part,
         partName: part ? partName(part) : subject,
         sentence: findingSentence(f, { partName, subject, standardise: found.query.standardise, labels }),
+        life: null, // filled for the findings shown (services/finding-life.ts): a fit per finding is too dear for every one
         lead: byDims.get(f.lead)!,
         facets: f.facets.map((x, i) => ({ cluster: byDims.get(x)!, kind: f.facetKinds[i], words: facetWords(f.lead.dimensions, x.dimensions, labels) })),
         cells: f.cells,

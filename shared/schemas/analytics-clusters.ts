@@ -56,6 +56,8 @@ export const findingSchema = z.object({
   partName: z.string(),
   /** what, where, how much worse than expected with its interval, and what it is not */
   sentence: z.string(),
+  /** a supplier-lot finding's life against the other lots, in words (B10 of Weibull fits); null where there is none */
+  life: z.string().nullable(),
   lead: clusterSchema,
   facets: z.array(z.object({ cluster: clusterSchema, kind: z.enum(["narrower", "same-failures"]), words: z.string() })),
   /** significant cells of the scan that support it */

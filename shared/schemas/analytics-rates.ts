@@ -52,21 +52,47 @@ export const componentRatesSchema = z.object({
 });
 export type ComponentRates = z.infer<typeof componentRatesSchema>;
 
-/** GET /api/analytics/rates/monthly: failures per 1,000 engine hours by month with u-chart limits. */
+/**
+ * GET /api/analytics/rates/monthly: each month's failures against what its own fleet predicts (observed ÷
+ * expected with exact probability limits), the plain rate per 1,000 engine hours with u-chart limits as a
+ * second view, and how complete each month's data is. Incomplete months carry no limits and raise no alarm.
+ */
 export const monthlyRatesSchema = z.object({
   centre: z.number().nullable(),
+  /** the months whose hour-band × temperature-band rates give the expectations ('YYYY-MM'); null without any */
+  reference: z.object({ from: z.string(), to: z.string(), months: z.number() }).nullable(),
+  /** the coverage a month needs to count as complete (0.95) */
+  completeCoverage: z.number(),
+  /** the months left out, in words; null when every month is complete */
+  incompleteNote: z.string().nullable(),
+  /** one sentence per month outside the observed ÷ expected limits */
+  flagged: z.array(z.object({ month: z.string(), direction: z.enum(["above", "below"]), words: z.string() })),
   rows: z.array(
     z.object({
       month: z.string(),
       failures: z.number(),
       engineHours: z.number(),
       perThousandHours: rateSchema.nullable(),
+      /** share of the month's in-service machine-days that hour readings cover (0–1); null when unknown */
+      coverage: z.number().nullable(),
+      complete: z.boolean(),
+      /** failures the month's hours by hour band × temperature band predict at the reference rates */
+      expected: z.number(),
+      /** observed ÷ expected with its exact probability limits (null: incomplete month or no expectation) */
+      ratio: z.number().nullable(),
+      ratioLower: z.number().nullable(),
+      ratioUpper: z.number().nullable(),
+      /** plain u-chart limits on the rate per 1,000 h (complete months only) */
       controlLower: z.number().nullable(),
       controlUpper: z.number().nullable(),
+      /** outside the observed ÷ expected limits (never for an incomplete month) */
       outOfControl: z.boolean(),
+      /** outside the plain u-chart limits (the second view; never for an incomplete month) */
+      outOfControlPlain: z.boolean(),
     }),
   ),
   method: z.string(),
+  plainMethod: z.string(),
 });
 export type MonthlyRates = z.infer<typeof monthlyRatesSchema>;
 

@@ -67,11 +67,13 @@ export const overviewSchema = z.object({
     }),
   ),
   headlines: z.object({
-    /** the twelve months ending with the last month of data, and the twelve before ('YYYY-MM') */
+    /** the twelve months ending with the last complete month, and the twelve before ('YYYY-MM') */
     thisYear: z.object({ from: z.string(), to: z.string() }).nullable(),
     lastYear: z.object({ from: z.string(), to: z.string() }).nullable(),
     rows: z.array(headlineSchema),
     method: z.string(),
+    /** which windows are compared and which newer (incomplete) months are left out, in words */
+    note: z.string().nullable(),
   }),
   clusters: z.object({
     /** the data behind the cluster scan these counts come from */

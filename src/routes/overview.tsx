@@ -65,9 +65,10 @@ function Loads({ loads }: { loads: Overview["loads"] }) {
 }
 
 function Headlines({ h }: { h: Overview["headlines"] }) {
-  if (!h.thisYear || !h.rows.length) return <EmptyState title="No exposure yet">Rates need machine hours in the warehouse; none are loaded for your shops.</EmptyState>;
+  if (!h.thisYear || !h.rows.length) return <EmptyState title="No exposure yet">{h.note ?? "Rates need machine hours in the warehouse; none are loaded for your shops."}</EmptyState>;
   return (
     <>
+      {h.note && <p className="mb-3 text-sm" data-testid="headline-windows">{h.note}</p>}
       <div className="grid gap-3 sm:grid-cols-3">
         {h.rows.map((r) => {
           const up = r.change !== null && r.change > 1;

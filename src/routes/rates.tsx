@@ -5,7 +5,8 @@ import { RateComparisonView } from "@/features/rates/components/rate-comparison-
 import { CostTable } from "@/features/rates/components/cost-table";
 import { shopQueries } from "@/features/filters/api/shop-queries";
 import { Card } from "@/components/ui/states";
-import { hourBandChart, monthlyChart, paretoChart, temperatureBandChart } from "@/features/rates/charts/rate-charts";
+import { hourBandChart, paretoChart, temperatureBandChart } from "@/features/rates/charts/rate-charts";
+import { MonthlyCard } from "@/features/rates/components/monthly-card";
 import { FilterBar } from "@/features/filters/components/filter-bar";
 import { QueryView } from "@/features/filters/components/query-view";
 import { readFilters, useFilters } from "@/features/filters/use-filters";
@@ -162,17 +163,7 @@ export function Component() {
           )}
         </QueryView>
         <QueryView query={months} label="monthly rates" isEmpty={(d) => d.rows.length === 0} emptyText={noFailures}>
-          {(d) => (
-            <ChartCard
-              title="Monthly failure rate with control limits"
-              subtitle="Red points fall outside the limits"
-              options={monthlyChart(d, palette)}
-              rows={d.rows.map((r) => ({ month: r.month, failures: r.failures, engineHours: r.engineHours, rate: r.perThousandHours?.rate, lower: r.controlLower, upper: r.controlUpper, out: r.outOfControl ? "yes" : "" }))}
-              columns={[{ key: "month", label: "Month" }, { key: "failures", label: "Failures" }, { key: "engineHours", label: "Engine hours", format: num }, { key: "rate", label: "Per 1,000 h", format: num }, { key: "lower", label: "Lower limit", format: num }, { key: "upper", label: "Upper limit", format: num }, { key: "out", label: "Outside" }]}
-              filename="rates-monthly.csv"
-              footer={d.method}
-            />
-          )}
+          {(d) => <MonthlyCard d={d} />}
         </QueryView>
       </div>
       <Card title="Repair cost per 1,000 engine hours">

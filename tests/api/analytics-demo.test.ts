@@ -79,6 +79,21 @@ describe("GET /api/analytics/clusters on the demo world", () => {
     expect(parts.rows).toEqual([{ code: "ENG-CSA-HPLUG", n: lines.length }]);
   });
 
+  it("says the lot finding's life in words: the lot's B10 against the family's other lots, from the Life page's fits", async () => {
+    const body = await get<ClusterList>("/api/analytics/clusters");
+    const top = body.findings[0];
+    const m = top.life?.match(/^Life: 10 % of heater-plug sets from lot BT-2109 have failed by ([\d,]+) h, against ([\d,]+) h for the other lots of engine family K26-4R/);
+    expect(m).not.toBeNull();
+    const [lotB10, restB10] = [Number(m![1].replace(/,/g, "")), Number(m![2].replace(/,/g, ""))];
+    expect(lotB10).toBeLessThan(restB10 / 2);
+    // the same figures as the Life page's lot comparison
+    const life = await get<WeibullResponse>("/api/analytics/life/weibull?component=ENG-CSA-HPLUG&compareBy=lot&compareValue=BT-2109&engineFamilies=K26-4R");
+    const fitted = life.groups.map((g) => (g.fit.status === "fitted" ? Math.round(g.fit.b10) : null));
+    expect(fitted).toEqual([lotB10, restB10]);
+    // a finding without a lot has no life comparison
+    for (const f of body.findings.filter((x) => x.lead.dimensions.supplierLot === "all")) expect(f.life).toBeNull();
+  });
+
   it("charges no lot to a part other than the heater plug, and reports neither the hose nor the comeback shop as a lot", async () => {
     const body = await get<ClusterList>("/api/analytics/clusters?components=ENG-CSA-HPLUG,ENG-CSA-RELAY,ENG-CSA-GRID,HYD-LIN-HOSE");
     for (const c of body.clusters) {

@@ -110,7 +110,10 @@ describe("the analyst's week in Chromium", () => {
 
   it("renders the four rate charts with data", async () => {
     await nav("Rates").click();
-    await page().getByRole("heading", { name: "Monthly failure rate with control limits" }).waitFor(SLOW);
+    await page().getByRole("heading", { name: "Monthly failures against what the fleet predicts" }).waitFor(SLOW);
+    // the newest months of the demo's exports are incomplete: drawn hollow, said in words, no alarm
+    await page().getByText(/Left out as incomplete \(hour readings cover less than 95 %/).waitFor();
+    await page().getByTestId("flagged-months").waitFor();
     await page().getByRole("heading", { name: "Failures by component (Pareto)" }).waitFor(SLOW);
     await page().getByRole("heading", { name: "Failure rate by daily minimum temperature" }).waitFor(SLOW);
     await page().getByRole("heading", { name: "Failure rate by engine-hour band" }).waitFor(SLOW);
@@ -119,6 +122,9 @@ describe("the analyst's week in Chromium", () => {
     await page().getByRole("button", { name: "°F" }).click();
     await page().getByText("Daily minimum temperature at the home shop (°F)").waitFor();
     await env.browser.screenshot("analyst-06-rates");
+    await page().getByRole("button", { name: "Plain rate" }).click();
+    await page().getByRole("heading", { name: "Monthly failure rate with control limits" }).waitFor();
+    await page().getByRole("button", { name: "Against expected" }).click();
   }, 180_000);
 
   it("renders the Weibull plot with its fit table, Kaplan–Meier and the mean cumulative function", async () => {

@@ -79,3 +79,15 @@ export async function countsForTwoGroups(
   };
   return { a: pick("A"), b: pick("B") };
 }
+
+/** Failures and engine hours by month × hour band × temperature band: the cells of the standardised monthly chart. */
+export async function countsByMonthCell(db: Db, scope: ShopScope, f: AnalyticsFilters): Promise<{ month: string; hourBand: string; tempBand: string; failures: number; engineHours: number }[]> {
+  const res = await analyticsRead(db, sql<{ month: string; hour_band: string; temp_band: string; failures: string | null; engine_hours: number | null }>`
+    WITH e AS (SELECT month, hour_band, temp_band, sum(engine_hours) AS engine_hours FROM ${exposureRelation(scope, f)} ex GROUP BY 1, 2, 3),
+         fl AS (SELECT month, hour_band, temp_band, count(*)::bigint AS failures FROM ${failureRelation(scope, f)} fr GROUP BY 1, 2, 3)
+    SELECT to_char(coalesce(e.month, fl.month), 'YYYY-MM') AS month, coalesce(e.hour_band, fl.hour_band) AS hour_band,
+           coalesce(e.temp_band, fl.temp_band) AS temp_band, fl.failures, e.engine_hours
+    FROM e FULL JOIN fl ON fl.month = e.month AND fl.hour_band = e.hour_band AND fl.temp_band = e.temp_band
+  `);
+  return res.rows.map((r) => ({ month: r.month, hourBand: r.hour_band, tempBand: r.temp_band, failures: Number(r.failures ?? 0), engineHours: Number(r.engine_hours ?? 0) }));
+}

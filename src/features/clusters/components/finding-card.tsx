@@ -36,6 +36,7 @@ export function FindingCard({ f, search, state }: { f: Finding; search: string; 
           <Link id={`finding-${f.id}`} to={to(f.id)} className="block font-semibold text-ink hover:text-accent hover:underline">
             {f.sentence}
           </Link>
+          {f.life && <p className="text-sm" data-testid="finding-life">{f.life}</p>}
           <ClusterFigures c={f.lead} />
           <p className="text-xs text-muted">
             {f.cells === 1 ? "1 significant cell supports it" : `${f.cells.toLocaleString("en-US")} significant cells support it`}

@@ -78,26 +78,72 @@ export function paretoChart(d: ComponentRates, c: Palette): Plot.PlotOptions {
   };
 }
 
-/** u-chart: monthly rate with its centre line and 3-sigma limits; months outside the limits marked. */
+type MonthRow = MonthlyRates["rows"][number];
+const monthDate = (m: string) => new Date(`${m}-01T00:00:00Z`);
+const coverageWords = (r: MonthRow) => (r.complete ? "" : `\nincomplete: hour readings cover ${Math.floor((r.coverage ?? 0) * 100)} % of its machine-days (no alarm)`);
+
+/**
+ * Observed ÷ expected by month: 1 is what the month's own fleet (hours by age band, weather) predicts; the band is
+ * the exact probability limits of complete months; incomplete months are hollow and carry no limits.
+ */
+export function standardisedMonthlyChart(d: MonthlyRates, c: Palette): Plot.PlotOptions {
+  const rows = d.rows.filter((r) => r.ratio !== null).map((r) => ({ ...r, date: monthDate(r.month), ratio: r.ratio! }));
+  const complete = rows.filter((r) => r.complete);
+  const top = Math.max(2, ...rows.map((r) => r.ratio)) * 1.1;
+  return {
+    height: 300,
+    marginLeft: 56,
+    x: { label: "Month the repair order opened", type: "utc" },
+    y: { label: "Failures ÷ expected for the month's fleet", grid: true, domain: [0, top] },
+    marks: [
+      Plot.areaY(complete, { x: "date", y1: (r: MonthRow) => r.ratioLower ?? 0, y2: (r: MonthRow) => Math.min(r.ratioUpper ?? top, top), fill: c.accentSoft, curve: "step" }),
+      Plot.ruleY([1], { stroke: c.muted, strokeDasharray: "5,3" }),
+      Plot.lineY(complete, { x: "date", y: "ratio", stroke: c.series[0] }),
+      Plot.dot(complete, { x: "date", y: "ratio", fill: (r: MonthRow) => (r.outOfControl ? c.alert : c.series[0]), r: 3 }),
+      Plot.dot(rows.filter((r) => !r.complete), { x: "date", y: "ratio", stroke: c.muted, fill: "none", r: 3.5 }),
+      Plot.tip(
+        rows,
+        Plot.pointerX({
+          x: "date",
+          y: "ratio",
+          title: (r: MonthRow & { ratio: number }) =>
+            `${r.month}: ${r.failures} failures, ${r.expected.toFixed(1)} expected (${r.ratio.toFixed(2)} ×)${r.ratioUpper !== null ? `\nlimits ${r.ratioLower!.toFixed(2)}–${r.ratioUpper.toFixed(2)}` : ""}${r.outOfControl ? "\noutside the limits" : ""}${coverageWords(r)}`,
+        }),
+      ),
+    ],
+  };
+}
+
+/** u-chart: the plain monthly rate with its centre line and 3-sigma limits (complete months); incomplete months hollow. */
 export function monthlyChart(d: MonthlyRates, c: Palette): Plot.PlotOptions {
   const rows = d.rows
     .filter((r) => r.perThousandHours)
-    .map((r) => ({ date: new Date(`${r.month}-01T00:00:00Z`), month: r.month, rate: r.perThousandHours!.rate, lower: r.controlLower ?? 0, upper: r.controlUpper ?? 0, failures: r.failures, hours: r.engineHours, out: r.outOfControl }));
+    .map((r) => ({ date: monthDate(r.month), month: r.month, rate: r.perThousandHours!.rate, lower: r.controlLower, upper: r.controlUpper, failures: r.failures, hours: r.engineHours, out: r.outOfControlPlain, complete: r.complete, coverage: r.coverage }));
+  type Row = (typeof rows)[number];
+  const complete = rows.filter((r) => r.complete);
   const centre = d.centre;
   // months with little exposure have very wide limits: keep the axis on the rates, clip the band
-  const top = Math.max(...rows.map((r) => r.rate), centre ?? 0) * 1.4 || 1;
+  const top = Math.max(...rows.map((r) => r.rate), centre ?? 0) * 1.15 || 1;
   return {
     height: 300,
     marginLeft: 56,
     x: { label: "Month the repair order opened", type: "utc" },
     y: { label: "Failures per 1,000 engine hours", grid: true, domain: [0, top] },
-    color: { domain: [false, true], range: [c.series[0], c.alert], legend: false },
     marks: [
-      Plot.areaY(rows, { x: "date", y1: "lower", y2: (r: (typeof rows)[number]) => Math.min(r.upper, top), fill: c.accentSoft, curve: "step" }),
+      Plot.areaY(complete, { x: "date", y1: (r: Row) => r.lower ?? 0, y2: (r: Row) => Math.min(r.upper ?? top, top), fill: c.accentSoft, curve: "step" }),
       ...(centre !== null ? [Plot.ruleY([centre], { stroke: c.muted, strokeDasharray: "5,3" })] : []),
-      Plot.lineY(rows, { x: "date", y: "rate", stroke: c.series[0] }),
-      Plot.dot(rows, { x: "date", y: "rate", fill: "out", r: 3 }),
-      Plot.tip(rows, Plot.pointerX({ x: "date", y: "rate", title: (r: (typeof rows)[number]) => `${r.month}: ${per(r.rate)} per 1,000 h\n${r.failures} failures, ${Math.round(r.hours).toLocaleString("en-US")} h\nlimits ${per(r.lower)}–${per(r.upper)}${r.out ? "\noutside the control limits" : ""}` })),
+      Plot.lineY(complete, { x: "date", y: "rate", stroke: c.series[0] }),
+      Plot.dot(complete, { x: "date", y: "rate", fill: (r: Row) => (r.out ? c.alert : c.series[0]), r: 3 }),
+      Plot.dot(rows.filter((r) => !r.complete), { x: "date", y: "rate", stroke: c.muted, fill: "none", r: 3.5 }),
+      Plot.tip(
+        rows,
+        Plot.pointerX({
+          x: "date",
+          y: "rate",
+          title: (r: Row) =>
+            `${r.month}: ${per(r.rate)} per 1,000 h\n${r.failures} failures, ${Math.round(r.hours).toLocaleString("en-US")} h${r.lower !== null && r.upper !== null ? `\nlimits ${per(r.lower)}–${per(r.upper)}` : ""}${r.out ? "\noutside the control limits" : ""}${r.complete ? "" : `\nincomplete: hour readings cover ${Math.floor((r.coverage ?? 0) * 100)} % of its machine-days (no alarm)`}`,
+        }),
+      ),
     ],
   };
 }
