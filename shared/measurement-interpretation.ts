@@ -114,9 +114,16 @@ export function classifyRailVoltage(volts: number, hasFaultCode: boolean): { ver
   return { verdict: "good", label: "about 12 V: the preheat circuit is supplied", provenance: "common practice, no source" };
 }
 
-/** The cautions shown wherever Ironledger interprets a reading or suggests work on a machine. */
-export const safetyCautions: readonly string[] = [
-  "Hot tips: a heater plug under test reaches about 1,400–1,500 °F. Clamp it, never lay it hot near rags, fuel or plastic, and test installed plugs only on a cool engine.",
+/**
+ * The cautions shown wherever Ironledger interprets a reading or suggests work on a machine, with temperatures in
+ * the reader's unit (a plug tip of about 1,400–1,500 °F is about 760–815 °C; the conversion of NIST SP 811).
+ */
+export function safetyCautionsIn(unit: "C" | "F"): readonly string[] {
+  const hotTip = unit === "F" ? "about 1,400–1,500 °F" : "about 760–815 °C";
+  return [`Hot tips: a heater plug under test reaches ${hotTip}. Clamp it, never lay it hot near rags, fuel or plastic, and test installed plugs only on a cool engine.`, ...otherCautions];
+}
+
+const otherCautions: readonly string[] = [
   "Bench tests with a battery can spark: work away from fuel, vapour and charging batteries, with a fused lead and eye protection.",
   "Cranking with the plugs out: disable the injectors and use a remote starter; chock the machine, ground the attachments, keep people clear of the fan, belts and linkages, and respect the starter's duty cycle. Fuel spray from open ports is a fire and injection-injury hazard.",
   "Never use ether or starting spray on engines with glow plugs or an intake grid heater: explosion and fire.",

@@ -459,6 +459,8 @@ export interface WarrantyClaimTable {
   note: string | null;
   cluster_id: string | null;
   cluster_snapshot: unknown;
+  /** the unit the packet states temperatures in: the creating clerk's (migration 0058) */
+  temperature_unit: Generated<"C" | "F">;
   created_by: string;
   created_by_name: string;
   created_at: ColumnType<Date, Date | undefined, never>;

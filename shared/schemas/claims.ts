@@ -16,24 +16,32 @@ export const claimStatusLabels: Record<ClaimStatus, string> = {
   credited: "Credited",
 };
 
+const temperatureUnit = z.enum(["C", "F"], { error: "unit must be C or F" });
 const keyString = z.string().refine(isInt64, "must be a repair line id (digits, within a 64-bit integer)");
 
 /** POST /api/claims */
 export const createClaimSchema = z.discriminatedUnion("kind", [
-  z.object({ kind: z.literal("repair"), repairLineId: keyString, note: z.string().max(2000).optional() }),
+  z.object({ kind: z.literal("repair"), repairLineId: keyString, note: z.string().max(2000).optional(), unit: temperatureUnit.optional() }),
   z.object({
     kind: z.literal("campaign"),
     clusterId: z.string().regex(/^[0-9a-f]{16}$/, "must be a cluster id (16 hex digits)"),
     /** the cluster scan's own query parameters (filters, standardise, q), as the Clusters page put them in the link */
     clusterQuery: z.record(z.string(), z.string()).optional(),
     note: z.string().max(2000).optional(),
+    /** the unit the claim's packet states temperatures in (the clerk's; default °C) */
+    unit: temperatureUnit.optional(),
   }),
 ]);
 export type CreateClaim = z.infer<typeof createClaimSchema>;
 
 /** GET /api/claims/preview?repairLine=… | ?cluster=…&<cluster query> */
 export const claimPreviewQuerySchema = z
-  .object({ repairLine: keyString.optional(), cluster: z.string().regex(/^[0-9a-f]{16}$/, "must be a cluster id (16 hex digits)").optional() })
+  .object({
+    repairLine: keyString.optional(),
+    cluster: z.string().regex(/^[0-9a-f]{16}$/, "must be a cluster id (16 hex digits)").optional(),
+    /** the unit of the cautions' temperatures */
+    unit: temperatureUnit.default("C"),
+  })
   .refine((q) => Boolean(q.repairLine) !== Boolean(q.cluster), { message: "Give either repairLine or cluster, not both and not neither." });
 
 /** POST /api/claims/:id/status */
@@ -206,6 +214,8 @@ export const claimDetailSchema = claimSummarySchema.extend({
   audit: z.array(auditEntrySchema),
   attachments: z.array(attachmentSchema),
   sends: z.array(sendSchema),
+  /** the unit the packet states temperatures in (set when the claim was made), and the cautions in it */
+  temperatureUnit: temperatureUnit,
   cautions: z.array(z.string()),
   storageAvailable: z.boolean(),
   sendAvailable: z.boolean(),

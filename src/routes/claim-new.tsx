@@ -1,3 +1,4 @@
+import { currentTemperatureUnit, useTemperatureUnit } from "@/features/filters/hooks/use-temperature-unit";
 import { useQuery, useSuspenseQuery } from "@tanstack/react-query";
 import { Link, useNavigate, useSearchParams } from "react-router-dom";
 import { useState } from "react";
@@ -113,12 +114,19 @@ function PreviewView({ p, onCreate, creating }: { p: ClaimPreview; onCreate: () 
   );
 }
 
+/** The page's query with the user's temperature unit (the preview's cautions and cluster words, and the claim's packet, use it). */
+function withUnit(params: URLSearchParams, unit: "C" | "F"): string {
+  const p = new URLSearchParams(params);
+  if (!p.has("unit")) p.set("unit", unit);
+  return p.toString();
+}
+
 // prefetched, not awaited: a campaign preview and the cluster choices both run the cluster scan, and the
 // queue of unclaimed lines judges eligibility line by line; the page shows each part as it arrives
 export const primeCache: PrimeCache = (qc, { url, me }) => {
   const params = url.searchParams;
   if (params.get("cluster") || params.get("repairLine")) {
-    void qc.prefetchQuery(claimQueries.preview(params.toString()));
+    void qc.prefetchQuery(claimQueries.preview(withUnit(params, currentTemperatureUnit())));
     return;
   }
   void qc.prefetchQuery(claimQueries.candidates());
@@ -131,11 +139,12 @@ export function Component() {
   const create = useCreateClaim();
   const cluster = params.get("cluster");
   const repairLine = params.get("repairLine");
-  const search = params.toString();
+  const [unit] = useTemperatureUnit();
+  const search = withUnit(params, unit);
   const preview = useQuery({ ...claimQueries.preview(search), enabled: Boolean(cluster || repairLine) });
   const onCreate = () => {
-    const clusterQuery = Object.fromEntries([...params].filter(([k]) => k !== "cluster" && k !== "repairLine"));
-    create.mutate(cluster ? { kind: "campaign", clusterId: cluster, clusterQuery } : { kind: "repair", repairLineId: repairLine! }, { onSuccess: (c) => navigate(`/claims/${c.id}`) });
+    const clusterQuery = Object.fromEntries([...new URLSearchParams(search)].filter(([k]) => k !== "cluster" && k !== "repairLine"));
+    create.mutate(cluster ? { kind: "campaign", clusterId: cluster, clusterQuery, unit } : { kind: "repair", repairLineId: repairLine!, unit }, { onSuccess: (c) => navigate(`/claims/${c.id}`) });
   };
   return (
     <div className="space-y-4">

@@ -93,6 +93,20 @@ describe("POST /api/claims from a repair line", () => {
     expect(audit[0].changes).toMatchObject({ status: "draft", lines: 1, claimNumber: c.claimNumber });
   });
 
+  it("states the packet's temperatures in the unit of the clerk who made the claim", async () => {
+    const line = await pickLine();
+    const c = (await request(t.app).post("/api/claims").set("Cookie", clerk).send({ kind: "repair", repairLineId: line.key, unit: "F" }).expect(201)).body as ClaimDetail;
+    expect(c.temperatureUnit).toBe("F");
+    expect(c.cautions[0]).toContain("about 1,400–1,500 °F");
+    const text = pdfText((await request(t.app).get(`/api/claims/${c.id}/packet.pdf`).set("Cookie", clerk).responseType("blob").expect(200)).body as Buffer);
+    expect(text).toContain("about 1,400–1,500 °F");
+    expect(text).not.toContain("°C");
+    const p = (await request(t.app).get(`/api/claims/preview?repairLine=${(await pickLine()).key}&unit=F`).set("Cookie", clerk).expect(200)).body as ClaimPreview;
+    expect(p.cautions[0]).toContain("°F");
+    const bad = await request(t.app).post("/api/claims").set("Cookie", clerk).send({ kind: "repair", repairLineId: line.key, unit: "K" }).expect(400);
+    expect(JSON.stringify(bad.body)).toContain("unit must be C or F");
+  });
+
   it("refuses a second claim on the same repair line and names the first", async () => {
     const res = await request(t.app).post("/api/claims").set("Cookie", clerk).send({ kind: "repair", repairLineId: first.key }).expect(409);
     expect(res.body.error.message).toMatch(/already has claim IL-\d{2}R\d{5}/);
@@ -244,6 +258,9 @@ describe("GET /api/claims/:id/packet.pdf", () => {
     expect(text).toContain(`${Math.round(average).toLocaleString("en-US")} psi`);
     expect(text).toContain("LOWEST CYLINDER");
     expect(text).toMatch(/Follow the maker's service manual/);
+    // a claim made without a unit states its temperatures in °C: 1,400–1,500 °F is 760–815.6 °C ((°F − 32) × 5/9, NIST SP 811)
+    expect(text).toContain("about 760–815 °C");
+    expect(text).not.toContain("°F");
     expect(text).toContain("Hour-meter readings around the failure");
     expect(text).toContain("(this RO)");
     expect(text).toContain("Complaint");

@@ -206,6 +206,7 @@ export interface NewClaim {
   note: string | null;
   cluster_id: string | null;
   cluster_snapshot: unknown;
+  temperature_unit: "C" | "F";
   created_by: string;
   created_by_name: string;
 }
@@ -252,7 +253,7 @@ export async function writeAudit(db: Tx, claimId: string, actor: Actor, action: 
 const claimColumns = [
   "c.claim_id", "c.claim_number", "c.kind", "c.status", "c.title", "c.shop_code", "c.engine_family", "c.closed_date",
   "c.claim_days", "c.deadline", "c.amount_claimed", "c.amount_credited", "c.reason", "c.note", "c.cluster_id",
-  "c.cluster_snapshot", "c.created_by", "c.created_by_name", "c.created_at", "c.updated_at",
+  "c.cluster_snapshot", "c.temperature_unit", "c.created_by", "c.created_by_name", "c.created_at", "c.updated_at",
 ] as const;
 
 /** Claims in the caller's scope: a manager sees only claims of their own shops (campaign cases across shops are group-wide). */

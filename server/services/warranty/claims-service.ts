@@ -5,7 +5,7 @@
 import type { Db } from "../../db/database.js";
 import type { ShopScope } from "../../../shared/schemas/me.js";
 import type { ClaimCandidate, ClaimDetail, ClaimPreview, ClaimSend, ClaimStatus, ClaimSummary, ClusterSnapshot, CreateClaim, RepairLineEvidence } from "../../../shared/schemas/claims.js";
-import { safetyCautions } from "../../../shared/measurement-interpretation.js";
+import { safetyCautionsIn } from "../../../shared/measurement-interpretation.js";
 import { HttpError, notFound } from "../../errors.js";
 import type { Storage } from "../storage.js";
 import { clusterCaution, clusterMethod, clustersOf, findClusters } from "../cluster-finder.js";
@@ -86,7 +86,7 @@ async function draftFor(db: Db, scope: ShopScope, src: { repairLineId?: string; 
 }
 
 /** What a claim from a repair line or a cluster would hold, before it is made. */
-export async function previewClaim(db: Db, scope: ShopScope, q: { repairLine?: string; cluster?: string }, clusterQuery: Record<string, string>): Promise<ClaimPreview> {
+export async function previewClaim(db: Db, scope: ShopScope, q: { repairLine?: string; cluster?: string; unit: "C" | "F" }, clusterQuery: Record<string, string>): Promise<ClaimPreview> {
   const today = todayIso();
   const d = await draftFor(db, scope, { repairLineId: q.repairLine, clusterId: q.cluster, clusterQuery }, today);
   const family = mainEngineFamily(d.lines);
@@ -103,7 +103,7 @@ export async function previewClaim(db: Db, scope: ShopScope, q: { repairLine?: s
     cluster: d.cluster,
     existingClaims: existing,
     problems: d.problems,
-    cautions: [...safetyCautions],
+    cautions: [...safetyCautionsIn(q.unit)],
   };
 }
 
@@ -169,6 +169,7 @@ export async function createClaim(db: Db, scope: ShopScope, actor: Actor, body: 
       note: body.note?.trim() || null,
       cluster_id: d.cluster?.cluster.id ?? null,
       cluster_snapshot: d.cluster,
+      temperature_unit: body.unit ?? (body.kind === "campaign" && body.clusterQuery?.unit === "F" ? "F" : "C"),
       created_by: actor.sub,
       created_by_name: actor.name,
     },
@@ -269,7 +270,8 @@ export async function claimDetail(deps: DetailDeps, scope: ShopScope, id: string
       uploadedAt: iso(a.uploaded_at)!,
     })),
     sends,
-    cautions: [...safetyCautions],
+    temperatureUnit: c.temperature_unit,
+    cautions: [...safetyCautionsIn(c.temperature_unit)],
     // what the attachments panel offers follows the store as it answers now, not only whether one is configured
     storageAvailable: deps.storage ? await deps.storage.available() : false,
     sendAvailable: deps.canSend,
@@ -303,6 +305,7 @@ async function packetSnapshot(deps: { db: Db; storage?: Storage }, detail: Claim
     eligibilityCounts: detail.eligibilityCounts,
     cluster: detail.cluster,
     attachments,
+    temperatureUnit: detail.temperatureUnit,
     cautions: detail.cautions,
     generatedAt: new Date().toISOString(),
   };

@@ -30,6 +30,8 @@ export interface ClaimSnapshotForPacket {
   eligibilityCounts: { covered: number; notCovered: number; unknown: number };
   cluster: ClusterSnapshot | null;
   attachments: PacketAttachment[];
+  /** the unit temperatures are stated in (the claim's) */
+  temperatureUnit: "C" | "F";
   cautions: readonly string[];
   generatedAt: string;
 }

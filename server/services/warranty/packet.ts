@@ -1,4 +1,5 @@
 /** The claim packet rendered as a PDF (pdfkit) from a snapshot gathered beforehand; no I/O here. */
+import { hourBandLabel, temperatureBandLabel } from "../../../shared/bands.js";
 import PDFDocument from "pdfkit";
 import { createRequire } from "node:module";
 import type { ClaimSnapshotForPacket, PacketAttachment } from "./packet-types.js";
@@ -275,7 +276,7 @@ function clusterSection(doc: Doc, s: ClaimSnapshotForPacket) {
     ["Engine family", c.dimensions.engineFamily],
     ["Build window", c.dimensions.build === "all" ? "all builds" : `${c.dimensions.build.from} to ${c.dimensions.build.to}`],
     ["Supplier lot", c.dimensions.supplierLot],
-    ["Shop / temperature band / hour band", `${c.dimensions.shop} / ${c.dimensions.temperatureBand} / ${c.dimensions.hourBand}`],
+    ["Shop / temperature band / hour band", `${c.dimensions.shop} / ${c.dimensions.temperatureBand === "all" ? "all" : temperatureBandLabel(c.dimensions.temperatureBand, s.temperatureUnit)} / ${c.dimensions.hourBand === "all" ? "all" : hourBandLabel(c.dimensions.hourBand)}`],
   ]);
   paragraph(doc, "Method", snap.method);
   paragraph(doc, "Caution", snap.caution);

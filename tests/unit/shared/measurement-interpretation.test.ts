@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { classifyPlug, classifyRailVoltage, compressionBand, summariseCompression } from "../../../shared/measurement-interpretation.js";
+import { classifyPlug, classifyRailVoltage, compressionBand, safetyCautionsIn, summariseCompression } from "../../../shared/measurement-interpretation.js";
 
 // Thresholds are trade rules of thumb ("common practice, no source") or values from memory, as labelled
 // in the module; these tests pin the arithmetic and the band edges, not a published value.
@@ -66,5 +66,18 @@ describe("classifyRailVoltage(volts, hasFaultCode)", () => {
     expect(classifyRailVoltage(12.2, false).verdict).toBe("good");
     expect(classifyRailVoltage(10.2, false).verdict).toBe("watch");
     expect(classifyRailVoltage(0.1, true).label).toMatch(/fuse or relay/);
+  });
+});
+
+describe("safetyCautionsIn(unit)", () => {
+  it("states the plug tip's temperature in the reader's unit: 1,400–1,500 °F is 760–816 °C (NIST SP 811: t/°C = (t/°F − 32)/1.8), shown as about 760–815 °C", () => {
+    expect(((1400 - 32) / 1.8).toFixed(0)).toBe("760");
+    expect(((1500 - 32) / 1.8).toFixed(1)).toBe("815.6");
+    expect(safetyCautionsIn("F")[0]).toContain("about 1,400–1,500 °F");
+    expect(safetyCautionsIn("C")[0]).toContain("about 760–815 °C");
+    // the other cautions are the same in both units and name no temperature
+    expect(safetyCautionsIn("C").slice(1)).toEqual(safetyCautionsIn("F").slice(1));
+    for (const c of safetyCautionsIn("C").slice(1)) expect(c).not.toMatch(/°[CF]/);
+    expect(safetyCautionsIn("C").at(-1)).toMatch(/maker's service manual/);
   });
 });

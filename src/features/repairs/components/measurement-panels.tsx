@@ -1,8 +1,9 @@
+import { useTemperatureUnit } from "@/features/filters/hooks/use-temperature-unit";
 import {
   classifyPlug,
   classifyRailVoltage,
   compressionBands,
-  safetyCautions,
+  safetyCautionsIn,
   spreadBands,
   summariseCompression,
   type Verdict,
@@ -108,6 +109,7 @@ function Voltages({ readings, hasFaultCode }: { readings: RepairMeasurement[]; h
 
 /** The readings of one line, interpreted against the shared bands, with the safety cautions beside them. */
 export function MeasurementPanels({ d }: { d: RepairDetail }) {
+  const [unit] = useTemperatureUnit();
   const by = (k: string) => d.measurements.filter((m) => m.kind === k);
   return (
     <div className="grid gap-4 lg:grid-cols-[1fr_20rem]">
@@ -128,7 +130,7 @@ export function MeasurementPanels({ d }: { d: RepairDetail }) {
       <aside aria-labelledby="cautions" className="h-fit rounded-lg border-2 border-ochre bg-ochre/10 p-4 text-sm">
         <h2 id="cautions" className="mb-2 font-semibold">Before you act on these readings</h2>
         <ul className="list-disc space-y-1.5 pl-4">
-          {safetyCautions.map((c) => <li key={c}>{c}</li>)}
+          {safetyCautionsIn(unit).map((c) => <li key={c}>{c}</li>)}
         </ul>
       </aside>
     </div>
