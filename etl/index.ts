@@ -11,7 +11,7 @@ export { upsertShops, type ShopInput } from "./shops/upsert-shops.js";
 export { readShopRegister } from "./shops/read-register.js";
 export { listProfiles } from "./profiles/registry.js";
 export { currentProfiles, storedProfile, saveProfileVersion, DEFAULTS_AUTHOR, type VersionedProfile } from "./profiles/profile-store.js";
-export { refreshExposure, type ExposureRefresh } from "./derived/refresh-exposure.js";
+export { rebuildExposureIfCleared, refreshExposure, type ExposureRefresh } from "./derived/refresh-exposure.js";
 export { generateDemo, type Manifest } from "./demo/generate.js";
 export { shops as demoShops } from "./demo/scenario.js";
 export { rejectedLineKey } from "./load/reject-keys.js";

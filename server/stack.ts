@@ -5,6 +5,7 @@ import type { Config } from "./config.js";
 import { projectRoot } from "./config.js";
 import { createDb, type Db } from "./db/database.js";
 import { migrateToLatest } from "./db/migrate.js";
+import { rebuildExposureIfCleared } from "../etl/index.js";
 import { loadOrCreateSecrets } from "./secrets.js";
 import { createDevProvider, listen } from "./auth/dev-provider.js";
 import { createOidcClient } from "./auth/oidc-client.js";
@@ -57,6 +58,9 @@ export async function startStack(config: Config, opts: { staticDir?: string } = 
     const { db, pool } = createDb(config.databaseUrl);
     closers.push(() => db.destroy());
     await migrateToLatest(db);
+    // a migration that changed the exposure's bands or grain empties it: rebuilt before the first answer
+    const rebuilt = await rebuildExposureIfCleared(db);
+    if (rebuilt) logger.info({ rows: rebuilt.rows, seconds: rebuilt.seconds }, "exposure rebuilt after a migration");
 
     let issuer = config.oidc.issuer;
     let clientSecret = config.oidc.clientSecret;

@@ -1,3 +1,5 @@
+import { temperatureBandOrdinal } from "./bands.js";
+
 /** The dimensions a finding's lead fixes (as the scan and the API write them: "all" = not fixed). */
 export interface FindingDimensions {
   component?: string;
@@ -15,6 +17,12 @@ const ALL = "all";
  * figures move. A lot finding is its part and lot (a lot is the signal, whichever build window or family the
  * scan describes it by as the data grow); any other finding is its part and the dimensions its lead fixes,
  * the build window by its first month only (a window that grows by a month is still the same finding).
+ *
+ * A temperature band is keyed by its position in its unit's set, coldest = 1 ("temp=2"), not by its id: the
+ * scan runs in the unit the user reads in, and the °C and °F sets both have five bands, cold to warm, so the
+ * finding "second-coldest days at shop S1" keeps its status, owner and notes whichever unit it is looked at
+ * in (the °C band −20 to −10 °C and the °F band 0 to 20 °F are not the same days, but they are the same
+ * question). Days without weather keep their id ("temp=unknown").
  */
 export function findingKey(d: FindingDimensions): string {
   const part = d.component ?? ALL;
@@ -23,7 +31,7 @@ export function findingKey(d: FindingDimensions): string {
   if (d.engineFamily !== ALL) fixed.push(`family=${d.engineFamily}`);
   if (d.build !== ALL) fixed.push(`built-from=${d.build.from}`);
   if (d.shop !== ALL) fixed.push(`shop=${d.shop}`);
-  if (d.temperatureBand !== ALL) fixed.push(`temp=${d.temperatureBand}`);
+  if (d.temperatureBand !== ALL) fixed.push(`temp=${temperatureBandOrdinal(d.temperatureBand) ?? d.temperatureBand}`);
   if (d.hourBand !== ALL) fixed.push(`hours=${d.hourBand}`);
   return fixed.join(";");
 }

@@ -14,7 +14,8 @@ import { splitByTemperatureBand } from "./weather-band-days.js";
  * that day (the build lot until the machine's first heater-plug failure line, that line's lot from its day
  * on), the band of h(k), the home shop the machine had that day (machine_home_shop: a machine that moved is
  * counted at its old shop before the move and at the new one from the move's day) and the band of that
- * shop's daily minimum (no weather row: "unknown").
+ * shop's daily minimum (no weather row: "unknown"), a storage band (shared/bands.ts: the partition both units'
+ * bands are unions of).
  *
  * Here a segment is cut at the machine's moves of home shop (one piece per home-shop period it overlaps), each
  * piece into runs of one hour band, one lot and one month, and a run's days are split by temperature band

@@ -13,7 +13,8 @@ import { refreshMachineTrail } from "./machine-trail.js";
  * one the machine had on each day (machine_home_shop), so a machine that moved counts at both shops.
  *
  *   refreshExposure(db)                 fold in what the batches since the last refresh changed (after a load)
- *   refreshExposure(db, { full: true }) rebuild everything (after a migration; scripts/refresh-derived.ts)
+ *   refreshExposure(db, { full: true }) rebuild everything (scripts/refresh-derived.ts)
+ *   rebuildExposureIfCleared(db)        rebuild everything when a migration emptied the tables (server start-up)
  *
  * Why incremental. Rebuilding means going over every machine's whole hour trail; its cost grows with the
  * warehouse while a monthly export touches a few thousand machines. So each machine's share of the aggregate
@@ -38,6 +39,9 @@ import { refreshMachineTrail } from "./machine-trail.js";
  * Why per segment. The shares are computed per reading segment cut into runs of one month, lot and hour band,
  * whose days fall in temperature bands by running counts of the shop's weather days (weather-band-days.ts),
  * instead of one row per machine-day: rows grow with readings and months rather than with days.
+ *
+ * Temperature bands. temp_band holds a storage band (shared/bands.ts): the partition cut at the edges of both
+ * the °C and the °F bands, so each unit's band is a sum of stored rows and one aggregate answers in both.
  *
  * Batches. A load writes its batch row and its facts in one transaction, and batch ids are handed out when a
  * load starts, not when it commits: a refresh that ran beside a load could record a later batch as its high
@@ -84,6 +88,18 @@ export async function refreshExposure(db: Kysely<any>, options: { full?: boolean
     `.execute(trx);
     return { ...done, seconds };
   });
+}
+
+/**
+ * Rebuilds the exposure when a migration emptied it and cleared its refresh state (a change of bands or of
+ * the shares' grain: migrations 0043, 0054, 0057) while the warehouse holds loaded batches; otherwise does
+ * nothing. Run after migrating, before anything reads the aggregates. Returns the rebuild, or null.
+ */
+export async function rebuildExposureIfCleared(db: Kysely<any>): Promise<ExposureRefresh | null> {
+  const r = await sql<{ cleared: boolean }>`
+    SELECT NOT EXISTS (SELECT 1 FROM agg_refresh WHERE name = 'exposure') AND EXISTS (SELECT 1 FROM etl_batch) AS cleared
+  `.execute(db);
+  return r.rows[0]?.cleared ? refreshExposure(db, { full: true }) : null;
 }
 
 /** Every share computed and summed; the weather counts and the verdict snapshot rebuilt with them. */

@@ -1,12 +1,13 @@
 import { sql, type Kysely, type RawBuilder } from "kysely";
-import { temperatureBandSql, UNKNOWN_BAND } from "../../shared/band-sql.js";
-import { temperatureBands } from "../../shared/bands.js";
+import { storageBandSql, UNKNOWN_BAND } from "../../shared/band-sql.js";
+import { storageBands } from "../../shared/bands.js";
 
 /**
  * Running counts of weather days per temperature band, per shop: agg_weather_band_days holds one row per
  * shop and day, from the day before the shop's first weather day to its last, with days_through[i] = how
- * many of the shop's days up to and including that day have a daily minimum in temperatureBands[i − 1]
- * (shared/bands.ts order, banded by the same SQL as the rest of the warehouse). The days of [a, b) in band i
+ * many of the shop's days up to and including that day have a daily minimum in storageBands[i − 1]
+ * (shared/bands.ts: the partition both units' bands are unions of, banded by the same SQL as the rest of the
+ * warehouse). The days of [a, b) in band i
  * are then days_through(b − 1)[i] − days_through(a − 1)[i], each day clamped to the shop's rows (before the
  * first row nothing is counted yet, after the last everything is), and the days of [a, b) with no weather
  * row are what the bands leave over: band "unknown". A shop without any weather has no rows: all unknown.
@@ -14,7 +15,7 @@ import { temperatureBands } from "../../shared/bands.js";
  * the next full rebuild), and for a shop whenever a batch changes its weather (a few thousand rows a shop).
  */
 
-const bandIds = temperatureBands.map((b) => b.id);
+const bandIds = storageBands.map((b) => b.id);
 
 /** Rebuilds the rows of the given shops (keys as text), or of every shop. */
 export async function rebuildBandDays(db: Kysely<any>, shops: string[] | "all"): Promise<void> {
@@ -24,7 +25,7 @@ export async function rebuildBandDays(db: Kysely<any>, shops: string[] | "all"):
   await sql`
     INSERT INTO agg_weather_band_days (shop_key, date, days_through)
     WITH w AS (
-      SELECT shop_key, date, ${temperatureBandSql(sql`tmin_c`)} AS band FROM fact_weather_day ${only}
+      SELECT shop_key, date, ${storageBandSql(sql`tmin_c`)} AS band FROM fact_weather_day ${only}
     ), span AS (
       SELECT shop_key, min(date) - 1 AS lo, max(date) AS hi FROM w GROUP BY shop_key
     )
@@ -37,7 +38,7 @@ export async function rebuildBandDays(db: Kysely<any>, shops: string[] | "all"):
 
 /**
  * FROM-clause joins that split each row of `piece` (columns shop_key, a, b: the days [a, b) at that shop)
- * into its days per temperature band, as the columns `band.temp_band` and `band.days` (rows with no day left out).
+ * into its days per storage band, as the columns `band.temp_band` and `band.days` (rows with no day left out).
  */
 export function splitByTemperatureBand(piece: RawBuilder<unknown>): RawBuilder<unknown> {
   const days = bandIds.map((_, i) => sql`coalesce(band_to.days_through[${sql.lit(i + 1)}] - band_from.days_through[${sql.lit(i + 1)}], 0)`);

@@ -3,7 +3,7 @@ import { allow, requireScope } from "../auth/require-user.js";
 import type { Db } from "../db/database.js";
 import { HttpError } from "../errors.js";
 import type { ClusterDetail } from "../../shared/schemas/analytics-clusters.js";
-import { hourBands, temperatureBands } from "../../shared/bands.js";
+import { hourBands, temperatureBandsIn } from "../../shared/bands.js";
 import { clusterCaution, clusterMethod, clustersOf, findClusters } from "../services/cluster-finder.js";
 import { clusterLineFacts, failureBandCounts } from "../db/queries/cluster-detail.js";
 import { listRepairs } from "../db/queries/repairs.js";
@@ -74,7 +74,7 @@ async function clusterDetail(db: Db, scope: ShopScope, id: string, query: Record
     lines: lines.rows,
     machines: [...machines.values()].sort((a, b) => b.failures - a.failures || a.serial.localeCompare(b.serial)),
     timeline: [...tally(facts, (f) => f.month)].sort(([a], [b]) => a.localeCompare(b)).map(([month, failures]) => ({ month, failures })),
-    temperatureProfile: profile(temperatureBands.map((b) => b.id), tally(facts, (f) => f.tempBand), tally(background, (b) => b.tempBand, (b) => b.failures)),
+    temperatureProfile: profile(temperatureBandsIn(found.filters.unit).map((b) => b.id), tally(facts, (f) => f.tempBand), tally(background, (b) => b.tempBand, (b) => b.failures)),
     hourProfile: profile(hourBands.map((b) => b.id), tally(facts, (f) => f.hourBand), tally(background, (b) => b.hourBand, (b) => b.failures)),
   };
 }

@@ -21,8 +21,9 @@ export function analyticsClusterRoutes(db: Db): Router {
       const findings = findingsOf(found);
       // life in words for the lot findings shown (a Weibull fit per finding on the worker threads)
       const shown = await Promise.all(findings.slice(0, q.limit).map(async (f) => ({ ...f, life: await findingLifeWords(db, scope, f) })));
-      // the group-wide scan at its defaults is the one whose figures findings are tracked by (once per data version)
-      if (scope.kind === "all" && Object.keys(req.query).every((k) => k === "unit")) {
+      // the group-wide scan at its defaults is the one whose figures findings are tracked by (once per data version);
+      // in its default unit too: a scan in °F bands has other cells, and its figures would move the findings back and forth
+      if (scope.kind === "all" && Object.keys(req.query).every((k) => k === "unit") && q.unit === "C") {
         await recordFindings(db, await dataVersion(db), findings.map((f) => ({ key: f.key, description: f.sentence, observed: f.lead.observed, expected: f.lead.expected, lower: f.lead.lower })));
       }
       const body: ClusterList = {

@@ -23,7 +23,7 @@ import { costTable } from "../analytics/cost-rates.js";
 import { rateComparisonSentence } from "../analytics/comparison-words.js";
 import { poissonRate, type RateEstimate } from "../analytics/poisson.js";
 import { flaggedMonthWords, standardisedChart, uChart } from "../analytics/control-chart.js";
-import { hourBands, temperatureBands } from "../../shared/bands.js";
+import { hourBands, temperatureBandLabel, temperatureBandsIn } from "../../shared/bands.js";
 import { components } from "../../shared/catalog.js";
 import { analyticsRoles } from "../../shared/roles.js";
 import { AnswerCache } from "../services/answer-cache.js";
@@ -60,12 +60,15 @@ export function analyticsRateRoutes(db: Db): Router {
   });
   const temperatureBandRates = async (req: Request): Promise<TemperatureBandRates> => {
     const f = analyticsFiltersSchema.parse(req.query);
-    const rows = inBandOrder(temperatureBands.map((b) => b.id), await countsByTemperatureBand(db, requireScope(req), f), (band) => ({ band, failures: 0, machineDays: 0, engineHours: 0 }));
+    // the bands of the requested unit, coldest first ("unknown", days without weather, last)
+    const rows = inBandOrder(temperatureBandsIn(f.unit).map((b) => b.id), await countsByTemperatureBand(db, requireScope(req), f), (band) => ({ band, failures: 0, machineDays: 0, engineHours: 0 }));
     return {
+      unit: f.unit,
       method: "Failures counted on the day the repair order opened, by the home shop's daily minimum temperature; exposure is machine-days in service at that shop (and their estimated engine hours); exact Poisson 95 % limits.",
       caution: "The first cold snap of a season flushes out failures that had built up, so the coldest band can sit below the next one.",
       rows: rows.map((r) => ({
         band: r.band,
+        label: r.band === "unknown" ? "no weather" : temperatureBandLabel(r.band, f.unit),
         failures: r.failures,
         machineDays: r.machineDays,
         engineHours: r.engineHours,

@@ -51,6 +51,8 @@ const caches = new WeakMap<Db, ResultCache<ScanSummary>>();
 /**
  * The cluster scan for a caller's scope and the query-string parameters (cluster options plus the shared
  * analytics filters), cached per data version. The list, detail and overview routes all go through here.
+ * The scan cuts temperature by the bands of the query's unit (`unit`, part of the filters and so of the
+ * cache key: each unit's scan is kept apart).
  */
 export async function findClusters(db: Db, scope: ShopScope, raw: Record<string, unknown>): Promise<ClusterFinding> {
   const query = clusterQuerySchema.parse(raw);

@@ -8,7 +8,7 @@ export const clusterQuerySchema = z.object({
   standardise: z.enum(["hour", "hour+temperature"]).default("hour+temperature"),
   /** part by part (each finding names the part; a lot is charged only with its own part's failures) or the parts together */
   level: z.enum(["component", "system"]).default("component"),
-  /** the temperature unit of the words (titles, sentences, facets); the figures do not depend on it */
+  /** the temperature unit of the bands the scan cuts by (and of the words: titles, sentences, facets); findings keep their keys in either */
   unit: z.enum(["C", "F"]).default("C"),
   limit: z.coerce.number().int().min(1).max(200).default(50),
 });

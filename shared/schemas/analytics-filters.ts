@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { hourBands, temperatureBands } from "../bands.js";
+import { hourBands, temperatureBandIds } from "../bands.js";
 
 /** A list in a query string: "a,b" or repeated keys; empty items dropped, duplicates removed. */
 const list = <T extends z.ZodType<string>>(item: T) =>
@@ -12,7 +12,8 @@ const list = <T extends z.ZodType<string>>(item: T) =>
 const isoDate = z.iso.date({ error: "use a date like 2024-01-31" });
 const month = z.string().regex(/^\d{4}-(0[1-9]|1[0-2])$/, { error: "use a month like 2021-09" });
 const hourBandId = z.enum(hourBands.map((b) => b.id) as [string, ...string[]]);
-const tempBandId = z.enum(temperatureBands.map((b) => b.id) as [string, ...string[]]);
+/** a band of either unit's set (shared/bands.ts); a filter selects the days of its band whatever the unit shown */
+const tempBandId = z.enum(temperatureBandIds as [string, ...string[]]);
 
 /**
  * The shared analytics filters, as query-string parameters. Every analytics route accepts them;
@@ -31,6 +32,8 @@ export const analyticsFiltersSchema = z
     lots: list(z.string().max(40)),
     tempBands: list(tempBandId),
     hourBands: list(hourBandId),
+    /** the temperature unit of the bands the answers are grouped by (and of the words); the filters do not depend on it */
+    unit: z.enum(["C", "F"]).default("C"),
   })
   .refine((f) => !f.from || !f.to || f.from <= f.to, { error: "from must not be after to", path: ["to"] })
   .refine((f) => !f.buildFrom || !f.buildTo || f.buildFrom <= f.buildTo, {

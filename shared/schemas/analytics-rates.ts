@@ -18,11 +18,14 @@ export const hourBandRatesSchema = z.object({
 });
 export type HourBandRates = z.infer<typeof hourBandRatesSchema>;
 
-/** GET /api/analytics/rates/temperature-bands: failures per 1,000 machine-days by daily-minimum band. */
+/** GET /api/analytics/rates/temperature-bands: failures per 1,000 machine-days by daily-minimum band, in the bands of `unit`, coldest first. */
 export const temperatureBandRatesSchema = z.object({
+  unit: z.enum(["C", "F"]),
   rows: z.array(
     z.object({
+      /** a band id of the unit's set (shared/bands.ts), or "unknown" for days without weather */
       band: z.string(),
+      label: z.string(),
       failures: z.number(),
       machineDays: z.number(),
       engineHours: z.number(),

@@ -11,10 +11,10 @@ import { FilterBar } from "@/features/filters/components/filter-bar";
 import { QueryView } from "@/features/filters/components/query-view";
 import { readFilters, useFilters } from "@/features/filters/use-filters";
 import type { PrimeCache } from "@/app/page-loader";
-import { useTemperatureUnit } from "@/features/filters/hooks/use-temperature-unit";
+import { currentTemperatureUnit, useTemperatureUnit } from "@/features/filters/hooks/use-temperature-unit";
 import { ChartCard } from "@/components/chart-card";
 import { palette } from "@/lib/palette";
-import { hourBandLabel, temperatureBandLabel } from "@shared/bands";
+import { hourBandLabel } from "@shared/bands";
 import { components, engineFamilies } from "@shared/catalog";
 
 const num = (v: unknown) => (typeof v === "number" ? (Math.abs(v) >= 100 ? Math.round(v).toLocaleString("en-US") : v.toPrecision(3)) : String(v ?? ""));
@@ -47,7 +47,7 @@ function readComparison(params: URLSearchParams, filterSearch: string) {
 export const primeCache: PrimeCache = (qc, { url }) => {
   const { search } = readFilters(url.searchParams);
   void qc.prefetchQuery(rateQueries.hourBands(search));
-  void qc.prefetchQuery(rateQueries.temperatureBands(search));
+  void qc.prefetchQuery(rateQueries.temperatureBands(search, currentTemperatureUnit()));
   void qc.prefetchQuery(rateQueries.components(search));
   void qc.prefetchQuery(rateQueries.monthly(search));
   void qc.prefetchQuery(rateQueries.costs(search));
@@ -59,7 +59,7 @@ export function Component() {
   const { search } = useFilters();
   const [unit] = useTemperatureUnit();
   const hours = useQuery(rateQueries.hourBands(search));
-  const temps = useQuery(rateQueries.temperatureBands(search));
+  const temps = useQuery(rateQueries.temperatureBands(search, unit));
   const comps = useQuery(rateQueries.components(search));
   const months = useQuery(rateQueries.monthly(search));
   const costs = useQuery(rateQueries.costs(search));
@@ -141,9 +141,9 @@ export function Component() {
           {(d) => (
             <ChartCard
               title="Failure rate by daily minimum temperature"
-              subtitle={`Shown in °${unit}; switch the unit in the filter bar`}
-              options={temperatureBandChart(d, palette, unit)}
-              rows={d.rows.map((r) => ({ band: temperatureBandLabel(r.band, unit), failures: r.failures, machineDays: r.machineDays, rate: r.perThousandMachineDays?.rate, perHours: r.perThousandHours?.rate }))}
+              subtitle={`Shown in °${d.unit}; switch the unit in the filter bar`}
+              options={temperatureBandChart(d, palette)}
+              rows={d.rows.map((r) => ({ band: r.label, failures: r.failures, machineDays: r.machineDays, rate: r.perThousandMachineDays?.rate, perHours: r.perThousandHours?.rate }))}
               columns={[{ key: "band", label: "Daily minimum" }, { key: "failures", label: "Failures" }, { key: "machineDays", label: "Machine-days", format: num }, { key: "rate", label: "Per 1,000 machine-days", format: num }, { key: "perHours", label: "Per 1,000 h", format: num }]}
               filename="rates-temperature-bands.csv"
               footer={<>{d.method} <b>Caution:</b> {d.caution}</>}

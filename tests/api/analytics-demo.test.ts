@@ -165,7 +165,7 @@ describe("lot failures by climate on the demo world", () => {
 
 describe("GET /api/analytics/rates/temperature-bands on the demo world", () => {
   const rates = (component: string, families: string) =>
-    get<TemperatureBandRates>(`/api/analytics/rates/temperature-bands?components=${component}&engineFamilies=${families}`);
+    get<TemperatureBandRates>(`/api/analytics/rates/temperature-bands?components=${component}&engineFamilies=${families}&unit=F`);
   const perBand = (body: TemperatureBandRates) => Object.fromEntries(body.rows.map((r) => [r.band, r]));
   const pooled = (rows: TemperatureBandRates["rows"]) => rows.reduce((s, r) => s + r.failures, 0) / rows.reduce((s, r) => s + r.machineDays, 0);
 

@@ -62,7 +62,8 @@ afterAll(async () => {
 });
 
 async function bands(search: string, cookie = analyst): Promise<Record<string, { failures: number; machineDays: number }>> {
-  const res = await request(t.app).get(apiPaths.rates("temperature-bands", search)).set("Cookie", cookie).expect(200);
+  // in °F bands, the ones these figures were written in
+  const res = await request(t.app).get(apiPaths.rates("temperature-bands", `${search}&unit=F`)).set("Cookie", cookie).expect(200);
   const body: TemperatureBandRates = temperatureBandRatesSchema.parse(res.body);
   return Object.fromEntries(
     body.rows.filter((r) => r.failures > 0 || r.machineDays > 0).map((r) => [r.band, { failures: r.failures, machineDays: r.machineDays }]),

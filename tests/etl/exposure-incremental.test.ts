@@ -5,7 +5,8 @@ import { sql } from "kysely";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { refreshExposure } from "../../etl/derived/refresh-exposure.js";
 import { loadFile } from "../../etl/load/load-file.js";
-import { hourBandSql, temperatureBandSql, UNKNOWN_BAND } from "../../shared/band-sql.js";
+import { hourBandSql, storageBandSql, UNKNOWN_BAND } from "../../shared/band-sql.js";
+import { storageBands } from "../../shared/bands.js";
 import { HEATER_PLUG } from "../../shared/catalog.js";
 import { freshTestDb, type TestDb } from "../helpers/test-db.js";
 import { fixture, TODAY } from "./helpers.js";
@@ -53,7 +54,7 @@ function referenceExposure() {
       FROM dim_machine m LEFT JOIN repl r USING (machine_key)
       WHERE m.home_shop_key IS NOT NULL
     ), wd AS (
-      SELECT w.shop_key, w.date, date_trunc('month', w.date)::date AS month, ${temperatureBandSql(tmin)} AS temp_band
+      SELECT w.shop_key, w.date, date_trunc('month', w.date)::date AS month, ${storageBandSql(tmin)} AS temp_band
       FROM fact_weather_day w
     )
     SELECT m.engine_family, m.model_line, m.build_month,
@@ -143,9 +144,9 @@ const job = (shop: string, ro: string, serial: string, day: string, hours: numbe
   `${shop},${ro},1,${serial},${day},${day},${hours},,Complaint,Cause,Correction,${component},WEAR,,1.0,${labour},40.00,110.00,customer,failure,${shop}-T1,` +
   `${lot ? "HP-26104,Glow plug set,1," + lot : ",,,"},,,N,,`;
 
-/** Daily weather from `from` for `days` days, minima cycling through every band, with a gap every eleventh day. */
+/** Daily weather from `from` for `days` days, minima (°C) cycling through every storage band, with a gap every eleventh day. */
 function weather(shop: string, from: string, days: number, shift = 0): string[] {
-  const minima = [-25, -12, -3, 2, 9, 15];
+  const minima = [-25, -19, -12, -8, -3, 2, 6, 9, 15];
   const out: string[] = [];
   for (let i = 0; i < days; i++) {
     if (i % 11 === 5) continue;
@@ -279,7 +280,7 @@ describe("exposure aggregates kept by difference", () => {
   it("went through what the computation distinguishes", async () => {
     const rows = (await referenceExposure().execute(full.db)).rows;
     const seen = (k: keyof AggRow) => new Set(rows.map((r) => r[k]));
-    expect([...seen("temp_band")].sort()).toEqual(["0-20F", "20-32F", "32-45F", "45F-up", "below-0F", UNKNOWN_BAND].sort());
+    expect([...seen("temp_band")].sort()).toEqual([...storageBands.map((b) => b.id), UNKNOWN_BAND].sort());
     expect(seen("hour_band")).toEqual(new Set(["0-500", "500-1k", "1k-2k", "2k-3k", "3k-4k", "4k-6k"]));
     expect(seen("lot")).toEqual(new Set(["BT-2109", "BT-2301", "QL-2201", "QL-9090", "QL-2299"]));
     // the moves: KT35-20001 at S4, at S5 from 2024-01-15, at S4 again from 2024-03-03; KT18-20003 at S4 from 2024-02-01;

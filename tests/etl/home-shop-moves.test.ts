@@ -41,7 +41,7 @@ const moveFile = write("machines-move.csv", [`${MACHINES_HEADER},home_shop_since
 
 let t: TestDb;
 
-/** KT35-20001's share of the exposure by shop and temperature band (agg_exposure_machine). */
+/** KT35-20001's share of the exposure by shop and temperature band (agg_exposure_machine; the stored storage band). */
 async function kt35Exposure(): Promise<Record<string, { days: number; hours: number }>> {
   const r = await t.pool.query<{ shop: string; band: string; days: number; hours: number }>(
     `SELECT s.shop_code AS shop, c.temp_band AS band, sum(c.machine_days)::int AS days, sum(c.engine_hours) AS hours
@@ -98,7 +98,7 @@ describe("a machines export that gives a machine another home shop", () => {
     expect(await periods()).toEqual([{ shop: "S4", valid_from: "-infinity", valid_to: null }]);
     const untilLastReading = daysBetween("2021-12-01", "2024-04-01");
     expect(before).toEqual({
-      "S4 below-0F": { days: 152, hours: expect.closeTo(152 * (600 / 152), 6) },
+      "S4 below-minus20C": { days: 152, hours: expect.closeTo(152 * (600 / 152), 6) },
       "S4 unknown": { days: untilLastReading - 152, hours: expect.any(Number) },
     });
   });
@@ -121,7 +121,7 @@ describe("a machines export that gives a machine another home shop", () => {
     const after = await kt35Exposure();
     const atS5 = daysBetween("2024-01-15", "2024-04-01");
     expect(after).toEqual({
-      "S4 below-0F": { days: daysBetween("2023-11-01", "2024-01-15"), hours: expect.any(Number) },
+      "S4 below-minus20C": { days: daysBetween("2023-11-01", "2024-01-15"), hours: expect.any(Number) },
       "S4 unknown": { days: before["S4 unknown"].days, hours: expect.closeTo(before["S4 unknown"].hours, 6) },
       "S5 45F-up": { days: atS5, hours: expect.closeTo(atS5 * (600 / 152), 6) },
     });
@@ -138,7 +138,7 @@ describe("a machines export that gives a machine another home shop", () => {
 
   it("shows the move per shop in the aggregates the rates read, equal to a full rebuild", async () => {
     const expected = {
-      "S4 below-0F": daysBetween("2023-11-01", "2024-01-15"),
+      "S4 below-minus20C": daysBetween("2023-11-01", "2024-01-15"),
       "S4 unknown": before["S4 unknown"].days,
       "S5 45F-up": daysBetween("2024-01-15", "2024-04-01"),
     };

@@ -3,7 +3,7 @@ import type { Db } from "../database.js";
 import type { ShopScope } from "../../../shared/schemas/me.js";
 import type { AnalyticsFilters } from "../../../shared/schemas/analytics-filters.js";
 import { scopedShopCodes } from "./scope.js";
-import { hourBandSql, temperatureBandSql, UNKNOWN_BAND } from "../../../shared/band-sql.js";
+import { hourBandSql, inTemperatureBandsSql, storageBandSql, temperatureBandSql, unitBandOfStorageSql } from "../../../shared/band-sql.js";
 import { HEATER_PLUG } from "../../../shared/catalog.js";
 
 /** Comeback window used to keep repeat visits for one fault out of failure counts (DOMAIN.md, common practice). */
@@ -29,8 +29,10 @@ const monthStart = (m: string) => `${m}-01`;
 
 /**
  * Conditions on the machine cohort and home shop that agg_exposure and the failure lines share.
- * `t` is the alias of a relation with columns engine_family, model_line, build_month, lot, shop_code.
- * The caller's shop scope is always applied.
+ * `t` is the alias of a relation with columns engine_family, model_line, build_month, lot, shop_code (and, when
+ * the filters name temperature or hour bands, storage_band and hour_band). A temperature-band filter of
+ * either unit selects the storage bands it is the union of, so it selects the same days whatever unit the
+ * answer is grouped in. The caller's shop scope is always applied.
  */
 export function cohortConditions(t: string, scope: ShopScope, f: AnalyticsFilters): RawBuilder<unknown> {
   const c = (name: string) => sql.ref(`${t}.${name}`);
@@ -43,22 +45,31 @@ export function cohortConditions(t: string, scope: ShopScope, f: AnalyticsFilter
   if (f.lots.length) parts.push(inList(c("lot"), f.lots));
   if (f.buildFrom) parts.push(sql`${c("build_month")} >= ${monthStart(f.buildFrom)}::date`);
   if (f.buildTo) parts.push(sql`${c("build_month")} <= ${monthStart(f.buildTo)}::date`);
-  if (f.tempBands.length) parts.push(inList(c("temp_band"), f.tempBands));
+  if (f.tempBands.length) parts.push(inTemperatureBandsSql(c("storage_band"), f.tempBands));
   if (f.hourBands.length) parts.push(inList(c("hour_band"), f.hourBands));
   return and(parts);
 }
 
+const FLEET_COLUMNS = ["engine_family", "model_line", "shop_key", "month", "hour_band", "machine_days", "engine_hours"];
+const CUBE_COLUMNS = [...FLEET_COLUMNS, "build_month", "lot", "machines"];
+
 /**
  * Exposure rows with the shop code inside the date window: agg_exposure when the query needs the build
- * cohort or the lot (or `cube` is set), otherwise the much smaller agg_exposure_fleet.
+ * cohort or the lot (or `cube` is set), otherwise the much smaller agg_exposure_fleet. temp_band is the band
+ * of the filters' unit the stored storage band lies in; storage_band the stored one.
  */
 export function exposureRelation(scope: ShopScope, f: AnalyticsFilters, cube = false): RawBuilder<unknown> {
   const window: RawBuilder<unknown>[] = [];
   if (f.from) window.push(sql`e.month >= date_trunc('month', ${f.from}::date)::date`);
   if (f.to) window.push(sql`e.month <= ${f.to}::date`);
-  const table = cube || f.lots.length || f.buildFrom || f.buildTo ? sql`agg_exposure` : sql`agg_exposure_fleet`;
+  const whole = cube || f.lots.length || f.buildFrom || f.buildTo;
+  const table = whole ? sql`agg_exposure` : sql`agg_exposure_fleet`;
+  const columns = sql.join((whole ? CUBE_COLUMNS : FLEET_COLUMNS).map((c) => sql.ref(`e.${c}`)));
   return sql`(
-    SELECT * FROM (SELECT e.*, s.shop_code FROM ${table} e JOIN dim_shop s ON s.shop_key = e.shop_key WHERE ${and(window)}) x
+    SELECT * FROM (
+      SELECT ${columns}, e.temp_band AS storage_band, ${unitBandOfStorageSql(f.unit, sql.ref("e.temp_band"))} AS temp_band, s.shop_code
+      FROM ${table} e JOIN dim_shop s ON s.shop_key = e.shop_key WHERE ${and(window)}
+    ) x
     WHERE ${cohortConditions("x", scope, f)}
   )`;
 }
@@ -66,7 +77,8 @@ export function exposureRelation(scope: ShopScope, f: AnalyticsFilters, cube = f
 /**
  * Failure lines labelled like the exposure: the machine's cohort and the home shop it had on the day the
  * repair order opened (machine_home_shop: a machine that moved counts at its old shop before the move, at the
- * new one from the move's day), that shop's daily minimum temperature band on that day, the engine-hour band
+ * new one from the move's day), that shop's daily minimum temperature band on that day (temp_band in the
+ * filters' unit, storage_band as the exposure stores it), the engine-hour band
  * of the hour meter, and the heater-plug lot fitted at the time. Only line_type 'failure'; a line that begins within
  * COMEBACK_DAYS and COMEBACK_HOURS of an earlier line's close on the same machine and component is a
  * comeback for the same fault and is not counted again. Failure lines are read from the partial failure
@@ -88,7 +100,7 @@ export function failureRelation(scope: ShopScope, f: AnalyticsFilters, shopOf: "
              date_trunc('month', fl.opened_date)::date AS month,
              CASE WHEN r.repl_date IS NOT NULL AND fl.opened_date > r.repl_date THEN r.repl_lot
                   ELSE coalesce(nullif(m.heater_plug_lot, ''), 'none') END AS lot,
-             coalesce(${temperatureBandSql(sql`w.tmin_c`)}, ${UNKNOWN_BAND}) AS temp_band,
+             ${temperatureBandSql(f.unit, sql`w.tmin_c`)} AS temp_band, ${storageBandSql(sql`w.tmin_c`)} AS storage_band,
              ${hourBandSql(sql`fl.hour_meter`)} AS hour_band
       FROM fact_repair_line fl
       JOIN dim_component c ON c.component_key = fl.component_key

@@ -11,7 +11,7 @@ import type { ShopScope } from "../../../shared/schemas/me.js";
 import type { AnalyticsFilters } from "../../../shared/schemas/analytics-filters.js";
 import { repairCsvColumns, type RepairDetail, type RepairListQuery, type RepairRow, type RepairSortKey } from "../../../shared/schemas/repairs.js";
 import { scopedShopCodes, scopeIncludes } from "./scope.js";
-import { hourBandSql, temperatureBandSql } from "../../../shared/band-sql.js";
+import { hourBandSql, inTemperatureBandsSql, storageBandSql } from "../../../shared/band-sql.js";
 
 /** What a repair-line listing is filtered by: the shared analytics filters, the list's own parameters, optional ids. */
 export interface RepairFilter {
@@ -31,7 +31,7 @@ interface Condition {
 }
 
 const emptyFilters: AnalyticsFilters = {
-  shops: [], engineFamilies: [], modelLines: [], components: [], lots: [], tempBands: [], hourBands: [],
+  shops: [], engineFamilies: [], modelLines: [], components: [], lots: [], tempBands: [], hourBands: [], unit: "C",
 };
 
 const inList = (col: RawBuilder<unknown>, values: readonly string[]) => sql`${col} IN (${sql.join(values.map((v) => sql`${v}`))})`;
@@ -59,7 +59,7 @@ function conditionList(scope: ShopScope, r: RepairFilter): Condition[] {
   const build = sql`date_trunc('month', coalesce(m.build_date, m.delivery_date))::date`;
   if (f.buildFrom) on(["m"], sql`${build} >= ${`${f.buildFrom}-01`}::date`);
   if (f.buildTo) on(["m"], sql`${build} <= ${`${f.buildTo}-01`}::date`);
-  if (f.tempBands.length) on(["w"], inList(temperatureBandSql(sql`w.tmin_c`), f.tempBands));
+  if (f.tempBands.length) on(["w"], inTemperatureBandsSql(storageBandSql(sql`w.tmin_c`), f.tempBands));
   if (f.hourBands.length) on(["fl"], inList(hourBandSql(sql`fl.hour_meter`), f.hourBands));
   if (r.list.lineType) on(["fl"], sql`fl.line_type = ${r.list.lineType}`);
   if (r.list.payType) on(["fl"], sql`fl.pay_type = ${r.list.payType}`);

@@ -25,7 +25,8 @@ export function runScan(t: ScanTask): ScanSummary {
     qThreshold: t.qThreshold,
     labels: {
       component: (code: string) => components.find((c) => c.code === code)?.name ?? code,
-      temperatureBand: (id: string) => temperatureBandLabel(id, "F"),
+      // in the band's own unit (the scan ran in the bands of one unit); the API words them again in the caller's
+      temperatureBand: (id: string) => temperatureBandLabel(id),
       hourBand: hourBandLabel,
     },
   };

@@ -11,7 +11,7 @@ import {
   lastValidHours,
   type HourMeterReading,
 } from "../../../server/analytics/exposure.js";
-import { bandOf, temperatureBands } from "../../../shared/bands.js";
+import { bandOf, fahrenheitBands as temperatureBands } from "../../../shared/bands.js";
 import { expectNear } from "./fixtures/tolerance.js";
 
 describe("hoursInBands(entryHours, exitHours)", () => {
@@ -49,7 +49,7 @@ describe("exposureByHourBand(machines)", () => {
 
 // The bands themselves are defined in shared/bands.ts; these checks pin the analytics' use of them to the
 // conversion the ETL applies, t/°C = (t/°F − 32)/1.8 (NIST SP 811, REFERENCE case J).
-describe("bandOf(temperatureBands, tminCelsius) for ETL-converted readings", () => {
+describe("bandOf(fahrenheitBands, tminCelsius) for ETL-converted readings", () => {
   const fToC = (f: number): number => (f - 32) / 1.8;
 
   it("puts a reading of exactly 0, 20, 32 or 45 °F in the band that starts there (DOMAIN.md: <0, 0–20, 20–32, 32–45, ≥45 °F)", () => {

@@ -4,8 +4,8 @@ import { useFilters } from "../use-filters";
 import { shopQueries } from "../api/shop-queries";
 import { useTemperatureUnit } from "../hooks/use-temperature-unit";
 import { components, engineFamilies, modelLines } from "@shared/catalog";
-import { hourBandLabel, hourBands, temperatureBandLabel, temperatureBands } from "@shared/bands";
-import type { AnalyticsFilters } from "@shared/schemas/analytics-filters";
+import { hourBandLabel, hourBands, temperatureBandLabel, temperatureBandsIn, translateTemperatureBands, type TemperatureUnit } from "@shared/bands";
+import type { UrlFilters } from "../use-filters";
 
 type ListKey = "shops" | "engineFamilies" | "modelLines" | "components" | "lots" | "tempBands" | "hourBands";
 
@@ -50,15 +50,22 @@ const single = (v: string) => (v ? [v] : []);
  * The analytics filters, written to the URL so a link reproduces the view and the filters follow the analyst
  * from page to page. `show` hides the controls a page does not use.
  */
-export function FilterBar({ hide = [] }: { hide?: (keyof AnalyticsFilters)[] }) {
+export function FilterBar({ hide = [] }: { hide?: (keyof UrlFilters)[] }) {
   const { filters, setFilters } = useFilters();
   const shops = useQuery(shopQueries.list());
   const [unit, setUnit] = useTemperatureUnit();
   const [open, setOpen] = useState(false);
   const [lot, setLot] = useState(filters.lots.join(","));
-  const set = (k: ListKey, v: string[]) => setFilters({ [k]: v } as Partial<AnalyticsFilters>);
+  const set = (k: ListKey, v: string[]) => setFilters({ [k]: v } as Partial<UrlFilters>);
   const active = Object.entries(filters).filter(([, v]) => (Array.isArray(v) ? v.length > 0 : v !== undefined)).length;
-  const shown = (k: keyof AnalyticsFilters) => !hide.includes(k);
+  const shown = (k: keyof UrlFilters) => !hide.includes(k);
+  // a switch of unit carries the chosen bands over to the new unit's bands that overlap them (the sets' edges differ)
+  const switchUnit = (u: TemperatureUnit) => {
+    if (u !== unit && filters.tempBands.length) setFilters({ tempBands: translateTemperatureBands(filters.tempBands, u) });
+    setUnit(u);
+  };
+  // the unit's bands, and any chosen band of the other unit (a link from someone reading in it) so it can be cleared
+  const bandOptions = [...temperatureBandsIn(unit).map((b) => b.id), ...filters.tempBands.filter((id) => !temperatureBandsIn(unit).some((b) => b.id === id))];
 
   return (
     <section aria-label="Filters" className="rounded-lg border border-line bg-card p-3 shadow-sm">
@@ -96,7 +103,7 @@ export function FilterBar({ hide = [] }: { hide?: (keyof AnalyticsFilters)[] }) 
         <div className="ml-auto flex items-end gap-2">
           <div role="group" aria-label="Temperature unit" className="flex overflow-hidden rounded border border-line text-sm">
             {(["C", "F"] as const).map((u) => (
-              <button key={u} type="button" aria-pressed={unit === u} onClick={() => setUnit(u)} className={`px-2 py-1 ${unit === u ? "bg-slate text-paper" : "bg-white"}`}>
+              <button key={u} type="button" aria-pressed={unit === u} onClick={() => switchUnit(u)} className={`px-2 py-1 ${unit === u ? "bg-slate text-paper" : "bg-white"}`}>
                 °{u}
               </button>
             ))}
@@ -141,7 +148,7 @@ export function FilterBar({ hide = [] }: { hide?: (keyof AnalyticsFilters)[] }) 
               />
             </Field>
           </div>
-          {shown("tempBands") && <Toggles legend="Daily minimum" options={temperatureBands.map((b) => ({ id: b.id, label: temperatureBandLabel(b.id, unit) }))} selected={filters.tempBands} onChange={(v) => set("tempBands", v)} />}
+          {shown("tempBands") && <Toggles legend="Daily minimum" options={bandOptions.map((id) => ({ id, label: temperatureBandLabel(id, unit) }))} selected={filters.tempBands} onChange={(v) => set("tempBands", v)} />}
           {shown("hourBands") && <Toggles legend="Hour meter" options={hourBands.map((b) => ({ id: b.id, label: hourBandLabel(b.id) }))} selected={filters.hourBands} onChange={(v) => set("hourBands", v)} />}
         </div>
       )}

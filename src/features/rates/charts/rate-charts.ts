@@ -1,7 +1,7 @@
 import * as Plot from "@observablehq/plot";
 import type { Palette } from "@/lib/palette";
 import type { ComponentRates, HourBandRates, MonthlyRates, TemperatureBandRates } from "@shared/schemas/analytics-rates";
-import { hourBandLabel, temperatureBandLabel } from "@shared/bands";
+import { hourBandLabel } from "@shared/bands";
 
 const per = (v: number) => (v >= 1 ? v.toFixed(2) : v.toPrecision(2));
 
@@ -49,13 +49,14 @@ export function hourBandChart(d: HourBandRates, c: Palette): Plot.PlotOptions {
   );
 }
 
-export function temperatureBandChart(d: TemperatureBandRates, c: Palette, unit: "C" | "F"): Plot.PlotOptions {
+/** The answer's bands in its unit, coldest first, as the server labelled them. */
+export function temperatureBandChart(d: TemperatureBandRates, c: Palette): Plot.PlotOptions {
   return bandRateChart(
     d.rows
       .filter((r) => r.band !== "unknown" || r.failures > 0)
-      .map((r) => ({ label: r.band === "unknown" ? "no weather" : temperatureBandLabel(r.band, unit), failures: r.failures, exposure: r.machineDays, rate: r.perThousandMachineDays?.rate ?? null, lower: r.perThousandMachineDays?.lower ?? null, upper: r.perThousandMachineDays?.upper ?? null })),
+      .map((r) => ({ label: r.label, failures: r.failures, exposure: r.machineDays, rate: r.perThousandMachineDays?.rate ?? null, lower: r.perThousandMachineDays?.lower ?? null, upper: r.perThousandMachineDays?.upper ?? null })),
     c,
-    { x: `Daily minimum temperature at the home shop (°${unit})`, y: "Failures per 1,000 machine-days", exposure: "machine-days", fill: c.series[2] },
+    { x: `Daily minimum temperature at the home shop (°${d.unit})`, y: "Failures per 1,000 machine-days", exposure: "machine-days", fill: c.series[2] },
   );
 }
 
