@@ -30,7 +30,7 @@ export const apiPaths = {
   logout: () => "/auth/logout",
   claims: () => "/api/claims",
   claim: (id: string) => `/api/claims/${encodeURIComponent(id)}`,
-  claimCandidates: () => "/api/claims/candidates",
+  claimCandidates: (search = "") => `/api/claims/candidates${search ? `?${search}` : ""}`,
   /** `search` is repairLine=… or cluster=… plus the cluster scan's own parameters */
   claimPreview: (search: string) => `/api/claims/preview?${search}`,
   claimStatus: (id: string) => `/api/claims/${encodeURIComponent(id)}/status`,

@@ -7,8 +7,9 @@ import type { Db } from "../db/database.js";
 import type { Storage } from "../services/storage.js";
 import type { Mailer } from "../services/mailer.js";
 import { HttpError } from "../errors.js";
-import { claimPreviewQuerySchema, createClaimSchema, statusChangeSchema } from "../../shared/schemas/claims.js";
-import { claimDetail, claimInScope, claimQueue, createClaim, packetPdf, previewClaim, unclaimedCandidates } from "../services/warranty/claims-service.js";
+import { claimCandidateQuerySchema, claimPreviewQuerySchema, createClaimSchema, statusChangeSchema } from "../../shared/schemas/claims.js";
+import { claimDetail, claimInScope, claimQueue, createClaim, packetPdf, previewClaim } from "../services/warranty/claims-service.js";
+import { unclaimedLinesPage } from "../services/warranty/claim-queue.js";
 import { addAttachment, MAX_ATTACHMENT_BYTES, openAttachment } from "../services/warranty/attachments.js";
 import { changeClaimStatus } from "../services/warranty/change-status.js";
 import { claimLinesCsv } from "../services/warranty/lines-csv.js";
@@ -55,7 +56,7 @@ export function claimRoutes(d: ClaimRouteDeps): Router {
   });
 
   router.get("/candidates", async (req, res) => {
-    res.json({ candidates: await unclaimedCandidates(db, requireScope(req)) });
+    res.json(await unclaimedLinesPage(db, requireScope(req), claimCandidateQuerySchema.parse(req.query)));
   });
 
   router.get("/preview", async (req, res) => {

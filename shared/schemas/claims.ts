@@ -256,6 +256,38 @@ export const claimCandidateSchema = z.object({
 export type ClaimCandidate = z.infer<typeof claimCandidateSchema>;
 export const claimCandidateListSchema = z.object({ candidates: z.array(claimCandidateSchema) });
 
+export const CANDIDATE_PAGE_SIZES = [10, 25, 50, 100] as const;
+export const candidateSortKeys = ["deadline", "closed", "serial", "shop", "component", "amount"] as const;
+
+/** GET /api/claims/candidates: one page of the clerk's queue of covered, unclaimed lines. */
+export const claimCandidateQuerySchema = z.object({
+  page: z.coerce.number({ error: "page must be a whole number from 1" }).int({ error: "page must be a whole number from 1" }).min(1, { error: "page must be a whole number from 1" }).max(100_000).default(1),
+  pageSize: z.coerce
+    .number()
+    .refine((n) => (CANDIDATE_PAGE_SIZES as readonly number[]).includes(n), { error: `rows per page must be one of ${CANDIDATE_PAGE_SIZES.join(", ")}` })
+    .default(25),
+  sort: z.enum(candidateSortKeys, { error: `sort by one of: ${candidateSortKeys.join(", ")}` }).default("deadline"),
+  dir: z.enum(["asc", "desc"], { error: "dir must be asc or desc" }).default("asc"),
+  shop: z.string().trim().regex(/^[A-Za-z0-9-]{1,16}$/, { error: "a shop is a code like S1" }).optional().or(z.literal("").transform(() => undefined)),
+  component: z.string().trim().max(40, { error: "a component code is at most 40 characters" }).optional().or(z.literal("").transform(() => undefined)),
+  engineFamily: z.string().trim().max(32, { error: "an engine family is at most 32 characters" }).optional().or(z.literal("").transform(() => undefined)),
+  /** at most this many days left to file (0: due today or overdue; negative: overdue by at least that many) */
+  daysLeft: z.coerce.number({ error: "days left must be a whole number" }).int({ error: "days left must be a whole number" }).min(-3650).max(3650).optional(),
+  /** a serial or repair-order number, or its beginning */
+  q: z.string().trim().max(60, { error: "search for a serial or repair-order number of at most 60 characters" }).optional().or(z.literal("").transform(() => undefined)),
+});
+export type ClaimCandidateQuery = z.infer<typeof claimCandidateQuerySchema>;
+
+export const claimCandidatePageSchema = z.object({
+  total: z.number(),
+  page: z.number(),
+  pageSize: z.number(),
+  rows: z.array(claimCandidateSchema.extend({ engineFamily: z.string(), verdict: z.enum(["covered", "not_covered", "unknown"]) })),
+  /** lines the search names that are not in the queue, with why in words (a claim holds it, open, outside cover) */
+  elsewhere: z.array(z.object({ repairLineId: z.string(), roNumber: z.string(), lineNo: z.number(), serial: z.string(), shopCode: z.string(), component: z.string(), why: z.string() })),
+});
+export type ClaimCandidatePage = z.infer<typeof claimCandidatePageSchema>;
+
 /** GET /api/admin/mail */
 export const capturedMailListSchema = z.object({
   mail: z.array(

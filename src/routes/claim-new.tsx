@@ -11,7 +11,7 @@ import type { ClaimPreview } from "@shared/schemas/claims";
 import type { Me } from "@shared/schemas/me";
 import type { PrimeCache } from "@/app/page-loader";
 import { meQueries } from "@/features/session/api/me-queries";
-import { UnclaimedLines } from "@/features/claims/components/unclaimed-lines";
+import { ClaimQueueTable } from "@/features/claims/components/claim-queue-table";
 
 /** Campaign cases span shops, so only a group-wide role (the clerk) makes them. */
 const makesCampaignCases = (me: Me | null) => me?.scope.kind === "all";
@@ -21,12 +21,11 @@ function Chooser() {
   const groupWide = makesCampaignCases(me);
   const clusters = useQuery({ ...claimQueries.clusterChoices(), enabled: groupWide });
   const [, setParams] = useSearchParams();
-  const [line, setLine] = useState("");
   return (
     <div className="grid gap-4 lg:grid-cols-[2fr_1fr]">
       <div className="lg:col-span-2">
         <Card title="Repair lines in warranty, not yet claimed">
-          <UnclaimedLines onPick={(id) => setParams({ repairLine: id })} />
+          <ClaimQueueTable onPick={(id) => setParams({ repairLine: id })} />
         </Card>
       </div>
       <Card title="A campaign case from a cluster">
@@ -53,22 +52,6 @@ function Chooser() {
             ))}
           </ul>
         )}
-      </Card>
-      <Card title="A claim from one repair line">
-        <form
-          onSubmit={(e) => {
-            e.preventDefault();
-            if (/^-?\d+$/.test(line.trim())) setParams({ repairLine: line.trim() });
-          }}
-          className="space-y-2 text-sm"
-        >
-          <label className="block">
-            Repair line id
-            <input value={line} onChange={(e) => setLine(e.target.value)} inputMode="numeric" className="mt-1 block w-full rounded border border-line p-2" />
-          </label>
-          {line && !/^-?\d+$/.test(line.trim()) && <p role="alert" className="text-xs text-alert">A repair line id is a number, as shown on the repair line's page.</p>}
-          <button type="submit" className="rounded bg-slate px-3 py-1.5 text-paper">Look it up</button>
-        </form>
       </Card>
     </div>
   );

@@ -1,6 +1,6 @@
 import { useQuery } from "@tanstack/react-query";
 import { Link, useNavigate } from "react-router-dom";
-import { UnclaimedLines } from "@/features/claims/components/unclaimed-lines";
+import { ClaimQueueTable } from "@/features/claims/components/claim-queue-table";
 import { Card, EmptyState, ErrorNotice, Skeleton } from "@/components/ui/states";
 import { claimQueries } from "@/features/claims/api/claim-queries";
 import { DeadlineBadge, StatusPill, money } from "@/features/claims/components/deadline-badge";
@@ -9,7 +9,7 @@ import type { PrimeCache } from "@/app/page-loader";
 // the claim list is awaited (a short table; a refusal reaches the claims area's error boundary); the queue of
 // unclaimed lines below it is prefetched, not awaited, since it judges eligibility line by line
 export const primeCache: PrimeCache = (qc) => {
-  void qc.prefetchQuery(claimQueries.candidates());
+  void qc.prefetchQuery(claimQueries.candidates("page=1&pageSize=25&sort=deadline&dir=asc"));
   return qc.ensureQueryData(claimQueries.list());
 };
 
@@ -55,7 +55,7 @@ export function Component() {
         )}
       </Card>
       <Card title="Repair lines in warranty, not yet claimed">
-        <UnclaimedLines onPick={(id) => navigate(`/claims/new?repairLine=${encodeURIComponent(id)}`)} />
+        <ClaimQueueTable onPick={(id) => navigate(`/claims/new?repairLine=${encodeURIComponent(id)}`)} />
       </Card>
     </div>
   );

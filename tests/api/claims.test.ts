@@ -157,24 +157,69 @@ describe("GET /api/claims/preview?repairLine=…", () => {
 });
 
 describe("GET /api/claims/candidates", () => {
-  it("lists covered, closed, unclaimed failure lines nearest deadline first, and drops one once it is claimed", async () => {
-    type List = { candidates: { repairLineId: string; closedDate: string; deadline: { daysLeft: number }; eligibility: string }[] };
-    const list = (await request(t.app).get("/api/claims/candidates").set("Cookie", clerk).expect(200)).body as List;
-    expect(list.candidates.length).toBeGreaterThan(5);
-    expect(list.candidates.every((c) => c.eligibility.startsWith("Covered"))).toBe(true);
-    expect(list.candidates.map((c) => c.repairLineId)).not.toContain(first.key);
-    const closes = list.candidates.map((c) => c.closedDate);
-    expect(closes).toEqual([...closes].sort().reverse());
-    const top = list.candidates[0].repairLineId;
+  type Page = { total: number; page: number; pageSize: number; rows: { repairLineId: string; shopCode: string; serial: string; roNumber: string; component: string; engineFamily: string; closedDate: string; deadline: { daysLeft: number; deadline: string }; eligibility: string }[]; elsewhere: { repairLineId: string; why: string }[] };
+  const page = async (search = "", cookie = clerk) => (await request(t.app).get(`/api/claims/candidates${search ? `?${search}` : ""}`).set("Cookie", cookie).expect(200)).body as Page;
+
+  it("lists covered, closed, unclaimed failure lines a page at a time, nearest deadline first, and drops one once it is claimed", async () => {
+    const list = await page();
+    expect(list.pageSize).toBe(25);
+    expect(list.rows).toHaveLength(25);
+    expect(list.total).toBeGreaterThan(100);
+    expect(list.rows.every((c) => c.eligibility.startsWith("Covered"))).toBe(true);
+    expect(list.rows.map((c) => c.repairLineId)).not.toContain(first.key);
+    // lines that can still be filed first (nearest first), then the overdue ones, least overdue first
+    const left = list.rows.map((c) => c.deadline.daysLeft);
+    const open = left.filter((d) => d >= 0);
+    expect(left.slice(0, open.length)).toEqual([...open].sort((a, b) => a - b));
+    const overdue = left.slice(open.length);
+    expect(overdue.every((d) => d < 0)).toBe(true);
+    expect(overdue).toEqual([...overdue].sort((a, b) => b - a));
+    const second = await page("page=2");
+    expect(second.rows.map((r) => r.repairLineId).some((id) => list.rows.some((r) => r.repairLineId === id))).toBe(false);
+    const top = list.rows[0].repairLineId;
     await createRepairClaim(top);
-    const after = (await request(t.app).get("/api/claims/candidates").set("Cookie", clerk).expect(200)).body as List;
-    expect(after.candidates.map((c) => c.repairLineId)).not.toContain(top);
+    const after = await page();
+    expect(after.total).toBe(list.total - 1);
+    expect(after.rows.map((c) => c.repairLineId)).not.toContain(top);
+  });
+
+  it("filters by shop, component, engine family and days left, and sorts on the server", async () => {
+    const f = await page("shop=S3&component=ENG-CSA-HPLUG&engineFamily=K26-4R&pageSize=100");
+    expect(f.total).toBeGreaterThan(0);
+    for (const r of f.rows) expect([r.shopCode, r.component, r.engineFamily]).toEqual(["S3", "Heater-plug set", "K26-4R"]);
+    const byClosed = await page("sort=closed&dir=desc&pageSize=50");
+    const closes = byClosed.rows.map((r) => r.closedDate);
+    expect(closes).toEqual([...closes].sort().reverse());
+    const soon = await page("daysLeft=-400&pageSize=100");
+    expect(soon.rows.every((r) => r.deadline.daysLeft <= -400)).toBe(true);
+    expect(soon.total).toBeLessThanOrEqual((await page()).total);
+  });
+
+  it("finds a line by the machine's serial or the RO number, typed in any case, and says where lines outside the queue are", async () => {
+    const target = (await page("pageSize=10")).rows[3];
+    const bySerial = await page(`q=${encodeURIComponent(target.serial.toLowerCase())}&pageSize=100`);
+    expect(bySerial.rows.map((r) => r.repairLineId)).toContain(target.repairLineId);
+    expect(bySerial.rows.every((r) => r.serial.startsWith(target.serial) || r.roNumber.toUpperCase().startsWith(target.serial))).toBe(true);
+    const byRo = await page(`q=${encodeURIComponent(target.roNumber)}`);
+    expect(byRo.rows.map((r) => r.repairLineId)).toContain(target.repairLineId);
+    // the line claimed in the first test is named with the claim that holds it
+    const claimed = await page(`q=${encodeURIComponent(first.serial)}`);
+    expect(claimed.elsewhere.find((x) => x.repairLineId === first.key)?.why).toMatch(/^claim IL-\d{2}R\d{5} already holds it$/);
+  });
+
+  it("refuses bad paging or sorting in words", async () => {
+    const r = await request(t.app).get("/api/claims/candidates?pageSize=7&sort=colour").set("Cookie", clerk).expect(400);
+    const text = JSON.stringify(r.body);
+    expect(text).toContain("rows per page must be one of 10, 25, 50, 100");
+    expect(text).toContain("sort by one of: deadline, closed, serial, shop, component, amount");
   });
 
   it("shows a manager only their own shop's lines", async () => {
-    const list = (await request(t.app).get("/api/claims/candidates").set("Cookie", managerS5).expect(200)).body as { candidates: { shopCode: string }[] };
-    expect(list.candidates.length).toBeGreaterThan(0);
-    expect(new Set(list.candidates.map((c) => c.shopCode))).toEqual(new Set(["S5"]));
+    const list = await page("pageSize=100", managerS5);
+    expect(list.rows.length).toBeGreaterThan(0);
+    expect(new Set(list.rows.map((c) => c.shopCode))).toEqual(new Set(["S5"]));
+    const other = await page("shop=S1", managerS5);
+    expect(other.total).toBe(0);
   });
 });
 

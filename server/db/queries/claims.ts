@@ -106,39 +106,6 @@ export async function repairLinesByKeys(db: Db, scope: ShopScope, keys: readonly
   return { lines, measurements, faults };
 }
 
-/**
- * Closed failure lines whose hour meter and age are inside the machine's terms (registry terms, else the
- * defaults given) and that no repair claim holds yet: the clerk's unclaimed queue, newest close first
- * (nearest deadline). The eligibility shown is recomputed from these lines in server/services/warranty.
- */
-export async function unclaimedCandidateKeys(
-  db: Db,
-  scope: ShopScope,
-  defaults: { baseMonths: number; baseHours: number; engineMonths: number; engineHours: number },
-  limit: number,
-): Promise<string[]> {
-  const shops = scopedShopCodes(scope);
-  const inScope = shops ? (shops.length ? sql`s.shop_code IN (${sql.join(shops.map((x) => sql`${x}`))})` : sql`FALSE`) : sql`TRUE`;
-  const res = await sql<{ key: string }>`
-    SELECT fl.repair_line_key::text AS key
-    FROM fact_repair_line fl
-    JOIN dim_shop s ON s.shop_key = fl.shop_key
-    JOIN dim_machine m ON m.machine_key = fl.machine_key
-    JOIN dim_component c ON c.component_key = fl.component_key
-    WHERE fl.line_type = 'failure' AND fl.closed_date IS NOT NULL AND fl.hour_meter IS NOT NULL AND m.delivery_date IS NOT NULL
-      AND ${inScope}
-      AND fl.opened_date <= (m.delivery_date + make_interval(months => CASE WHEN c.system = 'Engine'
-            THEN coalesce(m.warranty_engine_months, ${defaults.engineMonths}) ELSE coalesce(m.warranty_base_months, ${defaults.baseMonths}) END))::date
-      AND fl.hour_meter <= CASE WHEN c.system = 'Engine'
-            THEN coalesce(m.warranty_engine_hours, ${defaults.engineHours}) ELSE coalesce(m.warranty_base_hours, ${defaults.baseHours}) END
-      AND NOT EXISTS (
-        SELECT 1 FROM warranty_claim_line w JOIN warranty_claim wc ON wc.claim_id = w.claim_id
-        WHERE w.repair_line_key = fl.repair_line_key AND wc.kind = 'repair')
-    ORDER BY fl.closed_date DESC, fl.repair_line_key
-    LIMIT ${limit}`.execute(db);
-  return res.rows.map((r) => r.key);
-}
-
 export interface HourReadingRow {
   reading_date: string;
   hours: string;

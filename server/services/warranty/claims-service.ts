@@ -4,17 +4,16 @@
  */
 import type { Db } from "../../db/database.js";
 import type { ShopScope } from "../../../shared/schemas/me.js";
-import type { ClaimCandidate, ClaimDetail, ClaimPreview, ClaimSend, ClaimStatus, ClaimSummary, ClusterSnapshot, CreateClaim, RepairLineEvidence } from "../../../shared/schemas/claims.js";
+import type { ClaimDetail, ClaimPreview, ClaimSend, ClaimStatus, ClaimSummary, ClusterSnapshot, CreateClaim, RepairLineEvidence } from "../../../shared/schemas/claims.js";
 import { safetyCautionsIn } from "../../../shared/measurement-interpretation.js";
 import { HttpError, notFound } from "../../errors.js";
 import type { Storage } from "../storage.js";
 import { clusterCaution, clusterMethod, clustersOf, findClusters } from "../cluster-finder.js";
 import {
   claimAttachments, claimAudit, claimLineKeys, claimSends, claimsHoldingLines, getClaim, insertClaim, listClaims, policyFor,
-  hourTrail, repairLinesByKeys, unclaimedCandidateKeys, type Actor, type ClaimRow,
+  hourTrail, repairLinesByKeys, type Actor, type ClaimRow,
 } from "../../db/queries/claims.js";
 import { amountOf, eligibilityCounts, mainEngineFamily, toEvidence } from "./evidence.js";
-import { DEFAULT_TERMS } from "./eligibility.js";
 import { compareByDeadline, filingDeadline } from "./deadline.js";
 import { allowedMoves } from "./status.js";
 import { todayIso } from "../../../shared/dates.js";
@@ -26,7 +25,7 @@ const num = (v: string | number | null) => (v === null ? null : Number(v));
 const imageTypes = new Set(["image/png", "image/jpeg", "image/webp", "image/gif"]);
 
 /** Repair lines as evidence; a single line (a repair claim) also carries its machine's hour-meter trail. */
-async function evidenceFor(db: Db, scope: ShopScope, keys: readonly string[], today: string): Promise<RepairLineEvidence[]> {
+export async function evidenceFor(db: Db, scope: ShopScope, keys: readonly string[], today: string): Promise<RepairLineEvidence[]> {
   const { lines, measurements, faults } = await repairLinesByKeys(db, scope, keys);
   const days = new Map<string, number>();
   for (const fam of new Set(lines.map((l) => l.engine_family))) days.set(fam, (await policyFor(db, fam)).claim_days);
@@ -105,36 +104,6 @@ export async function previewClaim(db: Db, scope: ShopScope, q: { repairLine?: s
     problems: d.problems,
     cautions: [...safetyCautionsIn(q.unit)],
   };
-}
-
-/** Covered, closed failure lines no repair claim holds yet, nearest deadline first. */
-export async function unclaimedCandidates(db: Db, scope: ShopScope, limit = 40): Promise<ClaimCandidate[]> {
-  const today = todayIso();
-  const keys = await unclaimedCandidateKeys(
-    db,
-    scope,
-    { baseMonths: DEFAULT_TERMS.base.months, baseHours: DEFAULT_TERMS.base.hours, engineMonths: DEFAULT_TERMS.engine.months, engineHours: DEFAULT_TERMS.engine.hours },
-    limit,
-  );
-  const lines = await evidenceFor(db, scope, keys, today);
-  return lines
-    .filter((l) => l.eligibility.verdict === "covered" && l.deadline)
-    .sort((a, b) => compareByDeadline(a.deadline!, b.deadline!))
-    .map((l) => ({
-      repairLineId: l.id,
-      shopCode: l.shopCode,
-      roNumber: l.roNumber,
-      lineNo: l.lineNo,
-      closedDate: l.closedDate!,
-      serial: l.machine.serial,
-      modelLine: l.machine.modelLine,
-      component: l.component.name,
-      hourMeter: l.hourMeter,
-      payType: l.payType,
-      amount: amountOf([l]),
-      deadline: l.deadline!,
-      eligibility: l.eligibility.summary,
-    }));
 }
 
 /** Makes a claim (repair) or a campaign case (cluster) in draft, with its lines and first audit row. */

@@ -2,7 +2,7 @@ import { queryOptions, useMutation, useQueryClient } from "@tanstack/react-query
 import { z } from "zod";
 import { apiGet, apiSend } from "@/lib/api-client";
 import { apiPaths } from "@shared/api-paths";
-import { capturedMailListSchema, claimCandidateListSchema, claimDetailSchema, claimListSchema, claimPreviewSchema, type CreateClaim, type StatusChangeBody } from "@shared/schemas/claims";
+import { capturedMailListSchema, claimCandidatePageSchema, claimDetailSchema, claimListSchema, claimPreviewSchema, type CreateClaim, type StatusChangeBody } from "@shared/schemas/claims";
 import { clusterListSchema } from "@shared/schemas/analytics-clusters";
 
 export const claimQueries = {
@@ -13,8 +13,9 @@ export const claimQueries = {
   /** the claim as it would be made: `search` holds repairLine=… or cluster=… */
   preview: (search: string) =>
     queryOptions({ queryKey: [...claimQueries.all(), "preview", search] as const, queryFn: ({ signal }) => apiGet(apiPaths.claimPreview(search), claimPreviewSchema, signal) }),
-  candidates: () =>
-    queryOptions({ queryKey: [...claimQueries.all(), "candidates"] as const, queryFn: ({ signal }) => apiGet(apiPaths.claimCandidates(), claimCandidateListSchema, signal) }),
+  /** one page of the queue: `search` holds page, pageSize, sort, dir and the filters */
+  candidates: (search = "") =>
+    queryOptions({ queryKey: [...claimQueries.all(), "candidates", search] as const, queryFn: ({ signal }) => apiGet(apiPaths.claimCandidates(search), claimCandidatePageSchema, signal) }),
   clusterChoices: () =>
     queryOptions({ queryKey: [...claimQueries.all(), "cluster-choices"] as const, queryFn: ({ signal }) => apiGet(apiPaths.claimClusterChoices(), clusterListSchema, signal), staleTime: 5 * 60_000 }),
   capturedMail: () => queryOptions({ queryKey: ["admin-mail"] as const, queryFn: ({ signal }) => apiGet(apiPaths.adminMail(), capturedMailListSchema, signal) }),

@@ -1,3 +1,4 @@
+import { hourBandLabel, temperatureBandLabel } from "@shared/bands";
 import type { ClusterSnapshot, RepairLineEvidence } from "@shared/schemas/claims";
 import { money, num } from "./deadline-badge";
 
@@ -12,7 +13,7 @@ export function ClusterStats({ snap }: { snap: ClusterSnapshot }) {
     ["Engine family", d.engineFamily],
     ["Build", d.build === "all" ? "all builds" : `${d.build.from} to ${d.build.to}`],
     ["Supplier lot", d.supplierLot],
-    ["Shop · temperature · hours", `${d.shop} · ${d.temperatureBand} · ${d.hourBand}`],
+    ["Shop · temperature · hours", `${d.shop} · ${d.temperatureBand === "all" ? "all" : temperatureBandLabel(d.temperatureBand)} · ${d.hourBand === "all" ? "all" : hourBandLabel(d.hourBand)}`],
   ];
   return (
     <div className="space-y-2 text-sm" data-testid="cluster-stats">

@@ -11,6 +11,7 @@ import {
 } from "@tanstack/react-table";
 import type { RepairRow, RepairSortKey } from "@shared/schemas/repairs";
 import { linesInWords } from "../total-in-words";
+import { SortedTable } from "@/components/sorted-table";
 
 const features = tableFeatures({ rowSortingFeature, columnVisibilityFeature });
 const col = createColumnHelper<typeof features, RepairRow>();
@@ -88,37 +89,7 @@ export function RepairTable(props: {
         </div>
       </div>
       <div aria-busy={props.loading} className={`overflow-x-auto rounded border border-line transition-opacity ${props.loading ? "opacity-60" : ""}`}>
-        <table className="w-full text-left text-sm">
-          <thead className="bg-paper text-muted">
-            {table.getHeaderGroups().map((g) => (
-              <tr key={g.id}>
-                {g.headers.map((h) => {
-                  const sorted = h.column.getIsSorted();
-                  return (
-                    <th key={h.id} scope="col" aria-sort={sorted === "asc" ? "ascending" : sorted === "desc" ? "descending" : "none"} className="whitespace-nowrap border-b border-line px-2 py-1.5">
-                      {h.column.getCanSort() ? (
-                        <button type="button" onClick={h.column.getToggleSortingHandler()} className="font-semibold hover:text-ink">
-                          <table.FlexRender header={h} /> {sorted === "asc" ? "↑" : sorted === "desc" ? "↓" : ""}
-                        </button>
-                      ) : (
-                        <span className="font-semibold"><table.FlexRender header={h} /></span>
-                      )}
-                    </th>
-                  );
-                })}
-              </tr>
-            ))}
-          </thead>
-          <tbody>
-            {table.getRowModel().rows.map((r) => (
-              <tr key={r.id} className="border-b border-line/60 hover:bg-accent-soft/40">
-                {r.getVisibleCells().map((c) => (
-                  <td key={c.id} className="max-w-72 truncate px-2 py-1.5 tabular-nums"><table.FlexRender cell={c} /></td>
-                ))}
-              </tr>
-            ))}
-          </tbody>
-        </table>
+        <SortedTable table={table} cellClass="max-w-72 truncate px-2 py-1.5 tabular-nums" />
       </div>
       {props.pager}
     </div>
