@@ -1,6 +1,7 @@
 #!/usr/bin/env bash
 # npm start: install what is missing, start PostgreSQL on loopback, build the client when it changed,
 # then run Ironledger (which migrates, loads the demo into an empty warehouse and starts the local fakes).
+# The demo's history ends the day before the first start; that day is kept in .data/demo/anchor.txt.
 set -euo pipefail
 cd "$(dirname "$0")/.."
 bash scripts/ensure-deps.sh

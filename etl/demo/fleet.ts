@@ -2,12 +2,15 @@
  * The machine registry: 4,000 machines at scale 1 (scale multiplies), shop and model mixes from the scenario
  * tables, builds uniform over 2020-03-01..2024-12-31, delivery = build + lognormal lag, the heater-plug lot
  * fitted at build (BT-2109 on every K26-4R built 2021-09-01..2021-12-31) and block heaters at delivery.
+ * Days are the generator's own calendar; only the texts that carry a date (serials, lot codes) are written
+ * moved by `clock.shiftDays` (anchor.ts), and `clock.lastDay` ends the history.
  */
+import { UNSHIFTED, type DemoClock } from "./anchor.js";
 import { addMonths, dayOf, monthOf, yearOf } from "./calendar.js";
 import { stream } from "./prng.js";
 import {
   backOrders, badLot, BUILD_END, BUILD_START, cylinders, delivery, goodPlugSupplier, injections, models, readings, shops, usage,
-  WINDOW_END, type EngineFamily, type ModelCode,
+  type EngineFamily, type ModelCode,
 } from "./scenario.js";
 
 export interface Machine {
@@ -53,7 +56,7 @@ export function goodPlugLot(day: number): string {
   return `${goodPlugSupplier.lotPrefix}-${yymm(addMonths(day, -1))}`;
 }
 
-export function buildFleet(seed: number, scale: number): Machine[] {
+export function buildFleet(seed: number, scale: number, clock: DemoClock = UNSHIFTED): Machine[] {
   const rng = stream(seed, "fleet");
   const modelCounts = apportion(models.map((m) => m.machines), scale);
   const modelList = models.flatMap((m, i) => Array.from({ length: modelCounts[i]! }, () => m));
@@ -75,7 +78,7 @@ export function buildFleet(seed: number, scale: number): Machine[] {
     const heaterAtDelivery = r.chance(shop.blockHeaterAtDelivery);
     return {
       index,
-      serial: `${d.model.code}-${yymm(d.buildDay)}${String(seq).padStart(5, "0")}`,
+      serial: `${d.model.code}-${yymm(d.buildDay + clock.shiftDays)}${String(seq).padStart(5, "0")}`,
       engineSerial: `E${family.slice(1, 3)}${family.slice(-1)}${String(100000 + index * 7 + r.int(0, 6)).padStart(7, "0")}`,
       model: d.model.code,
       family,
@@ -87,7 +90,7 @@ export function buildFleet(seed: number, scale: number): Machine[] {
       annualHours: r.lognormal(usage.annualMedianHours, usage.annualSigmaLog),
       telematics: r.chance(readings.telematicsShare),
       telematicsDayOfMonth: r.int(1, 28),
-      plugLot: family === "K38-4H" ? null : isBadLot ? badLot.lot : goodPlugLot(d.buildDay),
+      plugLot: family === "K38-4H" ? null : isBadLot ? badLot.lot : goodPlugLot(d.buildDay + clock.shiftDays),
       badLot: isBadLot,
       compressionNew: r.normal(450, 20),
       blockHeaterDay: heaterAtDelivery ? deliveryDay : null,
@@ -95,15 +98,15 @@ export function buildFleet(seed: number, scale: number): Machine[] {
       meterReplacementFrom: null,
     };
   });
-  planRetrofits(seed, fleet);
-  planMeterReplacements(seed, fleet, Math.max(1, Math.round(injections.meterReplacements * scale)));
+  planRetrofits(seed, fleet, clock.lastDay);
+  planMeterReplacements(seed, fleet, Math.max(1, Math.round(injections.meterReplacements * scale)), clock.lastDay);
   return fleet;
 }
 
-/** Baseline block-heater retrofits: Poisson(0.15 per 100 heater-less cold-shop machines) per shop and winter. */
-function planRetrofits(seed: number, fleet: Machine[]): void {
+/** Baseline block-heater retrofits: Poisson(0.15 per 100 heater-less cold-shop machines) per shop and winter begun by `lastDay`. */
+function planRetrofits(seed: number, fleet: Machine[], lastDay: number): void {
   const rng = stream(seed, "retrofits");
-  for (let year = 2020; year <= 2024; year++) {
+  for (let year = 2020; dayOf(`${year}-11-01`) <= lastDay; year++) {
     const from = dayOf(`${year}-11-01`);
     const to = dayOf(`${year + 1}-02-28`);
     shops.forEach((shop, s) => {
@@ -115,9 +118,9 @@ function planRetrofits(seed: number, fleet: Machine[]): void {
   }
 }
 
-function planMeterReplacements(seed: number, fleet: Machine[], count: number): void {
+function planMeterReplacements(seed: number, fleet: Machine[], count: number, lastDay: number): void {
   const rng = stream(seed, "meter-replacements");
-  const latest = WINDOW_END - 540;
+  const latest = lastDay - 540;
   const candidates = fleet.filter((m) => m.deliveryDay < latest - 180);
   for (const m of rng.shuffle(candidates).slice(0, count)) m.meterReplacementFrom = rng.int(Math.max(m.deliveryDay + 180, dayOf("2021-01-01")), latest);
 }

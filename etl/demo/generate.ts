@@ -1,11 +1,14 @@
 /**
- * generateDemo({ out, seed, scale }): writes the demo world's exports (SCENARIO.md) into `out` and returns
- * the manifest, which lists the files in load order with kind, profile and shop. Shops are simulated and
- * written one at a time and rows are streamed, so memory stays bounded by the largest shop.
+ * generateDemo({ out, seed, scale, anchor }): writes the demo world's exports (SCENARIO.md) into `out` and
+ * returns the manifest, which lists the files in load order with kind, profile and shop. Shops are simulated
+ * and written one at a time and rows are streamed, so memory stays bounded by the largest shop. The history
+ * ends on the day before `anchor` (anchor.ts: whole years, then pad); without one, on the generator's own
+ * window end.
  */
 import { mkdir, writeFile } from "node:fs/promises";
 import path from "node:path";
-import { isoOf } from "./calendar.js";
+import { CALENDAR_ANCHOR, demoTimeline, type DemoClock } from "./anchor.js";
+import { isoOf, yearOf } from "./calendar.js";
 import { emptyTally, addTally, backwardsTypo, decimalShift, futureYear, modelVariant, unknownModel, type FaultTally } from "./faults.js";
 import { buildFleet, yymm, type Machine } from "./fleet.js";
 import { jobRecord, measurementRows, techEfficiency, type LineContext } from "./lines.js";
@@ -13,7 +16,7 @@ import { openProfileWriter, renderRow, type ProfileWriter, type WrittenFile } fr
 import { resolveProfiles } from "./profiles.js";
 import type { Profile } from "../profiles/profile-schema.js";
 import { stream, type Rng } from "./prng.js";
-import { injections, models, processes, shops, warranty, WEATHER_START, WINDOW_END, WINDOW_START } from "./scenario.js";
+import { injections, models, processes, shops, warranty, WEATHER_START, WINDOW_START } from "./scenario.js";
 import { componentDetail, pickMode, technicianRoster } from "./shop-floor.js";
 import { simulateMachine, TechPicker, type JobEvent } from "./simulate.js";
 import { fToC, simulateWeather } from "./weather.js";
@@ -22,6 +25,8 @@ export interface GenerateOptions {
   out: string;
   seed?: number;
   scale?: number;
+  /** 'YYYY-MM-DD': the history ends the day before. Defaults to CALENDAR_ANCHOR (nothing moved). */
+  anchor?: string;
   onProgress?: (done: number, total: number) => void;
 }
 
@@ -40,6 +45,10 @@ export interface Manifest {
   generator: "ironledger-demo";
   seed: number;
   scale: number;
+  /** the history ends the day before this date */
+  anchor: string;
+  /** how the generator's own calendar was moved to end there: whole years (in days), then days simulated past its end */
+  shift: { years: number; days: number; padDays: number };
   window: { from: string; to: string };
   machines: number;
   files: ManifestFile[];
@@ -56,10 +65,14 @@ async function writeAll<T>(w: ProfileWriter, rows: Iterable<T>, write: (row: T) 
 export async function generateDemo(options: GenerateOptions): Promise<Manifest> {
   const seed = options.seed ?? 1;
   const scale = options.scale ?? 1;
+  const timeline = demoTimeline(options.anchor ?? CALENDAR_ANCHOR);
+  const clock: DemoClock = timeline;
+  const { lastDay, shiftDays } = timeline;
+  const dateOf = (day: number): string => isoOf(day + shiftDays);
   const out = path.resolve(options.out);
   await mkdir(out, { recursive: true });
   const profiles = resolveProfiles();
-  const fleet = buildFleet(seed, scale);
+  const fleet = buildFleet(seed, scale, clock);
   const techs = new TechPicker();
   const efficiency = new Map<string, number>();
   const technicians = shops.flatMap((s, i) => technicianRoster(stream(seed, "roster", i), s.code, s.technicians));
@@ -83,18 +96,18 @@ export async function generateDemo(options: GenerateOptions): Promise<Manifest> 
   for (let s = 0; s < shops.length; s++) {
     const shop = shops[s]!;
     const chosen = profiles.shops[shop.code]!;
-    const weather = simulateWeather(seed, shop);
+    const weather = simulateWeather(seed, shop, WEATHER_START, lastDay);
     const weatherWriter = openProfileWriter(path.join(out, `${shop.code}-weather.csv`), chosen.weather);
-    const weatherDays = Array.from({ length: WINDOW_END - WEATHER_START + 1 }, (_, i) => i);
+    const weatherDays = Array.from({ length: lastDay - WEATHER_START + 1 }, (_, i) => i);
     await writeAll(weatherWriter, weatherDays, (i) =>
-      weatherWriter.write({ shop_code: shop.code, date: isoOf(WEATHER_START + i), tmin: fToC(weather.tminF[i]!), tmax: fToC(weather.tmaxF[i]!) }),
+      weatherWriter.write({ shop_code: shop.code, date: dateOf(WEATHER_START + i), tmin: fToC(weather.tminF[i]!), tmax: fToC(weather.tmaxF[i]!) }),
     );
     const weatherFile = await weatherWriter.close();
 
     const events: JobEvent[] = [];
     for (const m of fleet) {
       if (m.shop !== s) continue;
-      const sim = simulateMachine(seed, m, weather, techs);
+      const sim = simulateMachine(seed, m, weather, techs, clock);
       for (const e of sim.events) events.push(e);
       await writeAll(hoursWriter, sim.telematics, (r) => {
         let meter = r.meter;
@@ -106,11 +119,11 @@ export async function generateDemo(options: GenerateOptions): Promise<Manifest> 
           meter = decimalShift(meter);
           hoursTally.decimalShiftedHours++;
         }
-        return hoursWriter.write({ serial: m.serial, reading_date: isoOf(r.day), hours: meter, source: "telematics" });
+        return hoursWriter.write({ serial: m.serial, reading_date: dateOf(r.day), hours: meter, source: "telematics" });
       });
       options.onProgress?.(++done, fleet.length);
     }
-    const phantoms = phantomEvents(stream(seed, "phantoms", s), s, Math.round(events.length * injections.serialNotInMaster), techs);
+    const phantoms = phantomEvents(stream(seed, "phantoms", s), s, Math.round(events.length * injections.serialNotInMaster), techs, clock);
     events.push(...phantoms);
     events.sort((a, b) => a.openDay - b.openDay || (a.serial < b.serial ? -1 : a.serial > b.serial ? 1 : 0) || lineOrder(a) - lineOrder(b));
 
@@ -133,10 +146,10 @@ export async function generateDemo(options: GenerateOptions): Promise<Manifest> 
       const ctx: LineContext = {
         shopCode: shop.code, roNumber: String((s + 1) * 100000 + roSeq), lineNo, machine,
         family: machine?.family ?? familyOfSerial(e.serial), cylinders: machine?.cylinders ?? 4,
-        labourRate: shop.labourRate, techEfficiency: efficiency.get(e.tech) ?? 1,
+        labourRate: shop.labourRate, techEfficiency: efficiency.get(e.tech) ?? 1, shiftDays,
       };
       const record = jobRecord(e, ctx);
-      const faulty = injectJobFaults(faults, record, e, shop.blankCauseRate, tally);
+      const faulty = injectJobFaults(faults, record, e, shop.blankCauseRate, tally, dateOf, yearOf(lastDay + shiftDays));
       const cells = renderRow(chosen.jobs, record);
       if (!jobsWriter.writeCells(cells)) await jobsWriter.drained();
       // lines with a rejected or repaired fault are never repeated, so each such fault reaches the loader once
@@ -159,7 +172,7 @@ export async function generateDemo(options: GenerateOptions): Promise<Manifest> 
   const machinesWriter = openProfileWriter(path.join(out, "machines.csv"), profiles.machines);
   const machineTally = emptyTally();
   const modelRng = stream(seed, "faults-models");
-  await writeAll(machinesWriter, fleet, (m) => machinesWriter.write(machineRecord(m, modelRng, machineTally)));
+  await writeAll(machinesWriter, fleet, (m) => machinesWriter.write(machineRecord(m, modelRng, machineTally, clock)));
   const machinesFile = await machinesWriter.close();
 
   files.push(
@@ -168,7 +181,9 @@ export async function generateDemo(options: GenerateOptions): Promise<Manifest> 
     ...shopFiles,
   );
   const manifest: Manifest = {
-    generator: "ironledger-demo", seed, scale, window: { from: isoOf(WINDOW_START), to: isoOf(WINDOW_END) }, machines: fleet.length,
+    generator: "ironledger-demo", seed, scale, anchor: timeline.anchor,
+    shift: { years: timeline.years, days: shiftDays, padDays: timeline.padDays },
+    window: { from: timeline.from, to: timeline.to }, machines: fleet.length,
     files, injected: total, technicians,
   };
   await writeFile(path.join(out, "manifest.json"), `${JSON.stringify(manifest, null, 2)}\n`);
@@ -186,8 +201,11 @@ function familyOfSerial(serial: string): Machine["family"] {
 /**
  * Applies the per-line faults to a canonical job record. Returns true when the line carries a fault the
  * loader rejects or repairs (anything but a blank cause), so that such a line is never also duplicated.
+ * `dateOf` writes a generator day as the record does; future dates land after `lastYear`, the history's last.
  */
-function injectJobFaults(rng: Rng, r: Record<string, unknown>, e: JobEvent, blankCauseRate: number, tally: FaultTally): boolean {
+function injectJobFaults(
+  rng: Rng, r: Record<string, unknown>, e: JobEvent, blankCauseRate: number, tally: FaultTally, dateOf: (day: number) => string, lastYear: number,
+): boolean {
   const counted = (): number => Object.values(tally).reduce((a, b) => a + b, 0) - tally.blankCause;
   const before = counted();
   if (e.meterNote) tally.meterReplacement++;
@@ -203,10 +221,10 @@ function injectJobFaults(rng: Rng, r: Record<string, unknown>, e: JobEvent, blan
   const v = rng.float();
   if (v < injections.futureDate) {
     const column = rng.chance(0.5) ? "opened_date" : "closed_date";
-    r[column] = futureYear(String(r[column]), 2025);
+    r[column] = futureYear(String(r[column]), lastYear);
     tally.futureDate++;
   } else if (v < injections.futureDate + injections.closeBeforeOpen) {
-    r.closed_date = isoOf(e.openDay - rng.int(1, 5));
+    r.closed_date = dateOf(e.openDay - rng.int(1, 5));
     tally.closeBeforeOpen++;
   }
   if (e.lineType === "failure" && rng.chance(blankCauseRate)) {
@@ -221,24 +239,26 @@ function injectJobFaults(rng: Rng, r: Record<string, unknown>, e: JobEvent, blan
 }
 
 /** Lines on machines that are not in the registry (sold elsewhere, serviced here): "serial not in master". */
-function phantomEvents(rng: Rng, shop: number, count: number, techs: TechPicker): JobEvent[] {
+function phantomEvents(rng: Rng, shop: number, count: number, techs: TechPicker, clock: DemoClock): JobEvent[] {
+  const month = (day: number): string => yymm(day + clock.shiftDays);
   return Array.from({ length: count }, (_, i) => {
     const model = rng.pick(models);
     const procs = processes.filter((p) => p.families.includes(model.family) && (!p.models || p.models.includes(model.code)));
     const proc = rng.pick(procs);
-    const day = rng.int(WINDOW_START, WINDOW_END - 5);
+    const day = rng.int(WINDOW_START, clock.lastDay - 5);
     const hours = rng.uniform(50, 4000);
     const detail = componentDetail[proc.code]!;
     return {
-      machine: -1, serial: `${model.code}-${yymm(day - rng.int(200, 900))}${90000 + shop * 1000 + i}`, shop, openDay: day, closeDay: day + rng.int(0, 2),
+      machine: -1, serial: `${model.code}-${month(day - rng.int(200, 900))}${90000 + shop * 1000 + i}`, shop, openDay: day, closeDay: day + rng.int(0, 2),
       trueHours: hours, meter: hours, meterNote: "", lineType: "failure", component: proc.code, mode: pickMode(rng, detail), comeback: false,
       tech: techs.pick(rng, shop), payType: "customer", orderDay: day, receivedDay: day + rng.int(0, 2), backOrdered: false,
-      ambientF: null, pmOp: -1, socketCorroded: false, lot: `${detail.lotPrefix}-${yymm(day - 30)}`, seed: rng.nextUint32(),
+      ambientF: null, pmOp: -1, socketCorroded: false, lot: `${detail.lotPrefix}-${month(day - 30)}`, seed: rng.nextUint32(),
     } satisfies JobEvent;
   });
 }
 
-function machineRecord(m: Machine, rng: Rng, tally: FaultTally): Record<string, string | number | boolean | null> {
+function machineRecord(m: Machine, rng: Rng, tally: FaultTally, clock: DemoClock): Record<string, string | number | boolean | null> {
+  const dateOf = (day: number): string => isoOf(day + clock.shiftDays);
   let model: string = m.model;
   const u = rng.float();
   if (u < injections.unknownModel) {
@@ -249,11 +269,11 @@ function machineRecord(m: Machine, rng: Rng, tally: FaultTally): Record<string, 
     model = modelVariant(rng, m.model);
     tally.modelVariant++;
   }
-  const heater = m.blockHeaterDay !== null && m.blockHeaterDay <= WINDOW_END;
+  const heater = m.blockHeaterDay !== null && m.blockHeaterDay <= clock.lastDay;
   return {
-    serial: m.serial, model_code: model, engine_serial: m.engineSerial, build_date: isoOf(m.buildDay), delivery_date: isoOf(m.deliveryDay),
+    serial: m.serial, model_code: model, engine_serial: m.engineSerial, build_date: dateOf(m.buildDay), delivery_date: dateOf(m.deliveryDay),
     delivery_hours: m.deliveryHours, home_shop: shops[m.shop]!.code, heater_plug_lot: m.plugLot ?? "", block_heater_fitted: heater,
-    block_heater_date: heater ? isoOf(m.blockHeaterDay!) : null,
+    block_heater_date: heater ? dateOf(m.blockHeaterDay!) : null,
     warranty_base_months: warranty.baseMonths, warranty_base_hours: warranty.baseHours,
     warranty_engine_months: warranty.engineMonths, warranty_engine_hours: warranty.engineHours,
   };

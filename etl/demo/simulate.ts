@@ -4,8 +4,10 @@
  * replaced, cold factors multiply the hazard per day (exact sampling by inverting the cumulative hazard
  * against a unit exponential), cold-start aids fail intrinsically then manifest with q(Tmin), PM visits fall
  * every 250 ± 30 h, comebacks are spawned per technician, and parts may be back-ordered.
- * Nothing here pastes an outcome: every failure is sampled from its process.
+ * Nothing here pastes an outcome: every failure is sampled from its process. Days are the generator's own
+ * calendar up to `clock.lastDay`; lot codes carry the written month (moved by `clock.shiftDays`, anchor.ts).
  */
+import { UNSHIFTED, type DemoClock } from "./anchor.js";
 import { addMonths, isDjf } from "./calendar.js";
 import { goodPlugLot, yymm, type Machine } from "./fleet.js";
 import { stream, type Rng } from "./prng.js";
@@ -102,7 +104,11 @@ export function coveredByWarranty(m: Machine, engineClass: boolean, day: number,
   return day <= addMonths(m.deliveryDay, months) && hours <= limit;
 }
 
-export function simulateMachine(seed: number, m: Machine, weather: ShopWeather, techs: TechPicker): { events: JobEvent[]; telematics: TelematicsReading[] } {
+export function simulateMachine(
+  seed: number, m: Machine, weather: ShopWeather, techs: TechPicker, clock: DemoClock = UNSHIFTED,
+): { events: JobEvent[]; telematics: TelematicsReading[] } {
+  const lastDay = clock.lastDay;
+  const lotMonth = (day: number): string => yymm(day + clock.shiftDays);
   const rng = stream(seed, "machine", m.index);
   const shop = shops[m.shop]!;
   const events: JobEvent[] = [];
@@ -148,7 +154,7 @@ export function simulateMachine(seed: number, m: Machine, weather: ShopWeather, 
 
   function push(e: Omit<JobEvent, "machine" | "serial" | "shop" | "seed">): void {
     const seedOfLine = rng.nextUint32();
-    if (e.openDay >= WINDOW_START && e.openDay <= WINDOW_END) events.push({ ...e, machine: m.index, serial: m.serial, shop: m.shop, seed: seedOfLine });
+    if (e.openDay >= WINDOW_START && e.openDay <= lastDay) events.push({ ...e, machine: m.index, serial: m.serial, shop: m.shop, seed: seedOfLine });
   }
 
   function repair(st: ComponentState, day: number, hours: number, tmin: number, isComeback: boolean, mode: string): void {
@@ -175,7 +181,7 @@ export function simulateMachine(seed: number, m: Machine, weather: ShopWeather, 
       openDay: day, closeDay: close, trueHours: hours, meter: hours - meterOffset, meterNote: "", lineType: "failure", component: code,
       mode, comeback: isComeback, tech, payType, orderDay: day, receivedDay: received, backOrdered,
       ambientF: tmin + rng.uniform(0, quirks.ambientSpreadF), pmOp: -1, socketCorroded: false,
-      lot: code === "ENG-CSA-HPLUG" ? goodPlugLot(received) : `${detail.lotPrefix}-${yymm(received - 30)}`,
+      lot: code === "ENG-CSA-HPLUG" ? goodPlugLot(received + clock.shiftDays) : `${detail.lotPrefix}-${lotMonth(received - 30)}`,
     });
     st.blockedUntil = close;
     st.renewPending = true;
@@ -196,13 +202,13 @@ export function simulateMachine(seed: number, m: Machine, weather: ShopWeather, 
       openDay: day, closeDay: day + rng.int(0, 1), trueHours: hours, meter: hours - meterOffset, meterNote: "", lineType: "install",
       component: "ENG-COO-BLKHTR", mode: corroded ? "CORROSION" : "OTHER", comeback: false, tech: techs.pick(rng, m.shop), payType: "customer",
       orderDay: day, receivedDay: day, backOrdered: false, ambientF: tmin + rng.uniform(0, quirks.ambientSpreadF), pmOp: -1,
-      socketCorroded: corroded, lot: `BH-${yymm(day - 30)}`,
+      socketCorroded: corroded, lot: `BH-${lotMonth(day - 30)}`,
     });
     m.blockHeaterDay = day;
   }
 
   let hours = m.deliveryHours;
-  for (let day = m.deliveryDay; day <= WINDOW_END; day++) {
+  for (let day = m.deliveryDay; day <= lastDay; day++) {
     const tmin = tminAt(weather, day);
     const start = hours;
     const end = start + (inDjf(day) ? winterRate : baseRate);
@@ -265,10 +271,13 @@ export function simulateMachine(seed: number, m: Machine, weather: ShopWeather, 
   return { events, telematics };
 }
 
-/** Calendar lookups for every simulated day, computed once: bit 0x80 marks Dec–Feb, the low bits hold the day of the month. */
+/**
+ * Calendar lookups for every simulated day, computed once: bit 0x80 marks Dec–Feb, the low bits hold the day
+ * of the month. It reaches a year past the window for the longest pad (anchor.ts) and some days more.
+ */
 const CALENDAR_FROM = BUILD_START;
 const calendarFlags = (() => {
-  const flags = new Uint8Array(WINDOW_END - CALENDAR_FROM + 1 + 400);
+  const flags = new Uint8Array(WINDOW_END - CALENDAR_FROM + 1 + 366 + 400);
   for (let i = 0; i < flags.length; i++) {
     const day = CALENDAR_FROM + i;
     flags[i] = new Date(day * 86_400_000).getUTCDate() | (isDjf(day) ? 0x80 : 0);

@@ -61,7 +61,15 @@ function sourceHash(): string {
 }
 
 /**
- * A fresh database holding the demo world at scale 1 (seed 1). The first caller in a test cluster builds a
+ * The fixed anchor of the test demo world, so tests stay deterministic whatever day they run. 2025-07-01 is
+ * the generator's own calendar (etl/demo/anchor.ts CALENDAR_ANCHOR): nothing moves, the history ends on
+ * 2025-06-30, and tests that name demo dates (2024 months, the 2021 build window of the bad lot, the winter
+ * 2022–23) read them as the scenario page states them.
+ */
+export const TEST_DEMO_ANCHOR = "2025-07-01";
+
+/**
+ * A fresh database holding the demo world at scale 1 (seed 1, anchor TEST_DEMO_ANCHOR). The first caller in a test cluster builds a
  * template (about a minute) under an advisory lock; everyone else clones it in seconds. The template's name
  * carries a hash of the ETL, generator and migration sources, so a change to them builds a new one.
  */
@@ -77,7 +85,7 @@ export async function freshDemoDb(): Promise<TestDb> {
       const { db, pool } = createDb(adminUrl(template), 5);
       const dir = mkdtempSync(path.join(tmpdir(), "ironledger-demo-"));
       try {
-        await loadDemo(db, pool, { dir, seed: 1, scale: 1 });
+        await loadDemo(db, pool, { dir, seed: 1, scale: 1, anchor: TEST_DEMO_ANCHOR });
       } catch (err) {
         await db.destroy();
         await admin.query(`DROP DATABASE IF EXISTS ${template} WITH (FORCE)`);
