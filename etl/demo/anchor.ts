@@ -9,7 +9,8 @@
  * 2. Pad: the remaining 0–365 days are simulated forward past the generator's own window end, the same
  *    processes continuing (weather, use, failures, PM), so the window ends exactly on anchor − 1.
  *
- * Anchor 2025-07-01 moves nothing and pads nothing: the generator's own calendar, written as it always was.
+ * Anchor 2025-07-01 moves nothing and pads nothing: the generator's own calendar. At any anchor, work still
+ * running on the last day is written open (lines.ts jobRecord).
  */
 import { format } from "date-fns";
 import { dayOf, isoOf } from "./calendar.js";

@@ -146,7 +146,7 @@ export async function generateDemo(options: GenerateOptions): Promise<Manifest> 
       const ctx: LineContext = {
         shopCode: shop.code, roNumber: String((s + 1) * 100000 + roSeq), lineNo, machine,
         family: machine?.family ?? familyOfSerial(e.serial), cylinders: machine?.cylinders ?? 4,
-        labourRate: shop.labourRate, techEfficiency: efficiency.get(e.tech) ?? 1, shiftDays,
+        labourRate: shop.labourRate, techEfficiency: efficiency.get(e.tech) ?? 1, shiftDays, lastDay,
       };
       const record = jobRecord(e, ctx);
       const faulty = injectJobFaults(faults, record, e, shop.blankCauseRate, tally, dateOf, yearOf(lastDay + shiftDays));
@@ -220,7 +220,8 @@ function injectJobFaults(
   }
   const v = rng.float();
   if (v < injections.futureDate) {
-    const column = rng.chance(0.5) ? "opened_date" : "closed_date";
+    // an open line has no close date to mistype
+    const column = rng.chance(0.5) || r.closed_date === null ? "opened_date" : "closed_date";
     r[column] = futureYear(String(r[column]), lastYear);
     tally.futureDate++;
   } else if (v < injections.futureDate + injections.closeBeforeOpen) {

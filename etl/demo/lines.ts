@@ -23,6 +23,8 @@ export interface LineContext {
   techEfficiency: number;
   /** days added to the event's (generator-calendar) days when written: the anchor's move (anchor.ts) */
   shiftDays: number;
+  /** the history's last day (generator calendar): the export is taken then, so later days are not yet known */
+  lastDay: number;
 }
 
 const round = (x: number, d: number): number => Math.round(x * 10 ** d) / 10 ** d;
@@ -32,12 +34,18 @@ export function techEfficiency(seed: number, tech: string): number {
   return stream(seed, "tech", hashLabel(tech)).lognormal(1, 0.12);
 }
 
+/**
+ * One event as the shop's system exports it on the history's last day: a line still running then (waiting
+ * for a back-ordered part, or work not finished) is open, with a blank close date, and a part not yet
+ * arrived has a blank received date.
+ */
 export function jobRecord(e: JobEvent, ctx: LineContext): CanonicalRecord {
   const rng = new Rng(e.seed);
   const date = (day: number): string => isoOf(day + ctx.shiftDays);
+  const known = (day: number | null): string | null => (day === null || day > ctx.lastDay ? null : date(day));
   const base = {
     shop_code: ctx.shopCode, ro_number: ctx.roNumber, line_no: ctx.lineNo, serial: e.serial,
-    opened_date: date(e.openDay), closed_date: date(e.closeDay), hour_meter: round(e.meter, 1), meter_note: e.meterNote,
+    opened_date: date(e.openDay), closed_date: known(e.closeDay), hour_meter: round(e.meter, 1), meter_note: e.meterNote,
     component_code: e.component, line_type: e.lineType, tech_id: e.tech, pay_type: e.payType,
     ambient_temp: e.ambientF === null ? null : fToC(e.ambientF),
   };
@@ -71,7 +79,7 @@ export function jobRecord(e: JobEvent, ctx: LineContext): CanonicalRecord {
     failure_mode: e.mode, labor_op: detail.laborOp, standard_hours: standard, labor_hours: round(actual, 2),
     parts_cost: round(detail.unitCost * qty * rng.uniform(0.9, 1.15), 2), labor_cost: round(actual * ctx.labourRate, 2),
     part_number: detail.partNumber(ctx.family), part_description: detail.partDescription, part_qty: qty, supplier_lot: e.lot,
-    part_ordered_date: e.orderDay === null ? null : date(e.orderDay), part_received_date: e.receivedDay === null ? null : date(e.receivedDay),
+    part_ordered_date: e.orderDay === null ? null : date(e.orderDay), part_received_date: known(e.receivedDay),
     back_ordered: e.backOrdered, fault_codes: faultCodes(rng, e),
   };
 }

@@ -7,10 +7,13 @@ import { ANCHOR_FILE, loadDemo, storedDemoAnchor, type DemoLoadSummary } from ".
 import type { Manifest } from "../../etl/index.js";
 import { freshTestDb, type TestDb } from "../helpers/test-db.js";
 
-// An anchor early enough that the history's last repair orders (and the parts they wait for, up to 120 days
-// on) are all in the past by the time the tests run, so the load's future-date check rejects none of them.
-const ANCHOR = "2026-03-15";
-const DAY_BEFORE = "2026-03-14";
+// A present-day anchor: the day these checks were written. Work still running on the history's last day is
+// exported open (no close date, no receipt for a part not yet in), so even a load on the anchor day itself
+// rejects no real row as in the future; a later run only moves the load's "today" further on. Scale 0.1
+// rather than 0.05 so that some repair orders are still open at the end (3 at seed 1).
+const ANCHOR = "2026-12-03";
+const DAY_BEFORE = "2026-12-02";
+const SCALE = 0.1;
 
 let t: TestDb;
 let dir: string;
@@ -18,7 +21,7 @@ let summary: DemoLoadSummary;
 beforeAll(async () => {
   t = await freshTestDb();
   dir = await mkdtemp(path.join(tmpdir(), "ironledger-demo-anchor-"));
-  summary = await loadDemo(t.db, t.pool, { dir, seed: 1, scale: 0.05, anchor: ANCHOR });
+  summary = await loadDemo(t.db, t.pool, { dir, seed: 1, scale: SCALE, anchor: ANCHOR });
 }, 300_000);
 afterAll(async () => {
   await t?.drop();
@@ -44,12 +47,24 @@ describe("loadDemo(db, pool, { dir, seed, scale, anchor })", () => {
     for (const r of future) expect(Number(/(\d{4})-\d{2}-\d{2}/.exec(r.reason)![1]), r.reason).toBeGreaterThan(2026);
   });
 
+  it("holds work still running on the last day as open repair orders, closed and supplied no later than that day", async () => {
+    expect(await newest(sql<{ d: string | null }>`SELECT max(closed_date)::text AS d FROM fact_repair_line`)).not.toBeNull();
+    const late = await sql<{ n: string }>`
+      SELECT count(*) AS n FROM fact_repair_line WHERE closed_date > ${DAY_BEFORE}::date OR part_received_date > ${DAY_BEFORE}::date`.execute(t.db);
+    expect(Number(late.rows[0]!.n)).toBe(0);
+    const open = await sql<{ ros: string; opened: string }>`
+      SELECT count(DISTINCT (shop_key, ro_number)) AS ros, min(opened_date)::text AS opened FROM fact_repair_line WHERE closed_date IS NULL`.execute(t.db);
+    expect(Number(open.rows[0]!.ros)).toBeGreaterThan(0);
+    // only the last weeks' work can still be running: no part waits longer than 120 days (SCENARIO.md (c))
+    expect(open.rows[0]!.opened >= "2026-08-04").toBe(true);
+  });
+
   it("keeps the manifest's anchor, so a second load with the same anchor does not regenerate", async () => {
     const manifest = JSON.parse(await readFile(path.join(dir, "manifest.json"), "utf8")) as Manifest;
     expect(manifest.anchor).toBe(ANCHOR);
     expect(manifest.window.to).toBe(DAY_BEFORE);
     const lines: string[] = [];
-    await loadDemo(t.db, t.pool, { dir, seed: 1, scale: 0.05, anchor: ANCHOR, log: (l) => lines.push(l) });
+    await loadDemo(t.db, t.pool, { dir, seed: 1, scale: SCALE, anchor: ANCHOR, log: (l) => lines.push(l) });
     expect(lines.some((l) => l.startsWith("Generating"))).toBe(false);
     expect(await newest(sql<{ d: string | null }>`SELECT max(opened_date)::text AS d FROM fact_repair_line`)).toBe(DAY_BEFORE);
   });
@@ -60,7 +75,7 @@ describe("loadDemo(db, pool, { dir }) over a directory generated for another anc
     const other = await freshTestDb();
     try {
       const lines: string[] = [];
-      await loadDemo(other.db, other.pool, { dir, seed: 1, scale: 0.05, anchor: "2026-02-01", log: (l) => lines.push(l) });
+      await loadDemo(other.db, other.pool, { dir, seed: 1, scale: SCALE, anchor: "2026-02-01", log: (l) => lines.push(l) });
       expect(lines.some((l) => l.startsWith("Generating"))).toBe(true);
       const manifest = JSON.parse(await readFile(path.join(dir, "manifest.json"), "utf8")) as Manifest;
       expect(manifest.anchor).toBe("2026-02-01");

@@ -102,6 +102,33 @@ describe("generateDemo({ out, seed, scale, anchor })", () => {
     expect(after).toBeLessThanOrEqual(run.manifest.injected.futureDate);
   });
 
+  it("writes work still running on the history's last day as open, so no close or receipt falls after it", async () => {
+    let typed = 0;
+    const open = new Set<string>();
+    for (const s of shops) {
+      const p = profiles.shops[s.code]!.jobs;
+      for (const r of await readExport(run.dir, `${s.code}-jobs.csv`, p)) {
+        const opened = isoIn(r.opened_date!, p)!;
+        const closed = r.closed_date === "" ? null : isoIn(r.closed_date!, p)!;
+        const received = r.part_received_date === "" ? null : isoIn(r.part_received_date!, p)!;
+        // a year typed wrong (an injected future date) is the only date past the history's end
+        for (const d of [opened, closed]) {
+          if (d !== null && d > LAST) {
+            typed++;
+            expect(Number(d.slice(0, 4)), `${s.code} RO ${r.ro_number}`).toBeGreaterThan(2026);
+          }
+        }
+        if (received !== null) expect(received <= LAST, `${s.code} RO ${r.ro_number} part received ${received}`).toBe(true);
+        // a part still awaited keeps its line open: nothing closes before its part arrives
+        if (r.part_ordered_date !== "" && received === null) expect(closed, `${s.code} RO ${r.ro_number}`).toBeNull();
+        if (closed === null) open.add(`${s.code} ${r.ro_number}`);
+      }
+    }
+    expect(typed).toBeGreaterThan(0);
+    expect(typed).toBeLessThanOrEqual(run.manifest.injected.futureDate);
+    expect(open.size).toBeGreaterThan(0);
+  });
+
   it("ends every shop's weather on the day before the anchor, with its coldest months still in Dec–Feb", async () => {
     for (const s of shops) {
       const p = profiles.shops[s.code]!.weather;
@@ -156,12 +183,16 @@ describe("generateDemo({ out, seed, scale, anchor })", () => {
     expect(other.manifest.files.find((f) => f.file === "S1-jobs.csv")!.sha256).not.toBe(run.manifest.files.find((f) => f.file === "S1-jobs.csv")!.sha256);
   }, 60_000);
 
-  it("writes, at the anchor 2025-07-01, exactly the files the generator wrote before it took an anchor", async () => {
-    // sha256 of every export at seed 1, scale 0.1, from `npm run demo:generate -- --out DIR --seed 1 --scale 0.1`
-    // run on the generator as it was before the anchor existed (its window fixed at 2020-07-01..2025-06-30),
-    // copied from that run's manifest.json. A deliberate change to the generator's output or to an export
-    // profile (etl/profiles) changes them: pin them again from a run at anchor 2025-07-01.
-    const before: Record<string, string> = {
+  it("writes, at the anchor 2025-07-01, the generator's own calendar unmoved", async () => {
+    // sha256 of every export at seed 1, scale 0.1, copied from the manifest.json of
+    // `npm run demo:generate -- --out DIR --seed 1 --scale 0.1 --anchor 2025-07-01`. First pinned from the generator
+    // as it was before the anchor existed (its window fixed at 2020-07-01..2025-06-30); pinned again once lines
+    // still running on the history's last day were written open. That change moved three job files only
+    // (S3, S5, S8), one line each: a close date after 2025-06-30, and a part received after it, became blank.
+    // Every other file is still byte-identical to the generator's before the anchor. A deliberate change to
+    // the generator's output or to an export profile (etl/profiles) changes them: pin them again from a run
+    // at anchor 2025-07-01.
+    const pinned: Record<string, string> = {
       "machines.csv": "a465f5c114c60055563e98aa1b0c5c1569b55f78ef6846cdb90cb5e168adfccf",
       "telematics-hours.csv": "4a7d8f36578fd3ece87f795e45ee412b78760de9d4ddc49fcdb3e8b31bc3a880",
       "S1-weather.csv": "e26e34376dbd0b582da717bc159a0dd89737a729a2fc4258a8f33a570347bd18",
@@ -171,13 +202,13 @@ describe("generateDemo({ out, seed, scale, anchor })", () => {
       "S2-jobs.csv": "32d32f76a179493df046ee7af3c8cc18fa832e534b91c7846afe6e2a0c5255b3",
       "S2-measurements.csv": "2ab09f5620c315950a1e19605372b6342b751e48fd4d09cd763256fd34dd7012",
       "S3-weather.csv": "923db290a7ff9cc281ec67d0aedb4157b4d51dcce775c2b5e995e13615d2ec96",
-      "S3-jobs.csv": "a0e372d0de670c4b2241ade0ba48817279f03907ae379d2b117e6e5252b51837",
+      "S3-jobs.csv": "469c5174606250a1c3b45d72eba199722b1a9847c82a5bf6f8388d7f1dde7175",
       "S3-measurements.csv": "eb02b6b92b895484fb5a612e251c95d177995bddedcb74a2d14a26a24b2dc8d3",
       "S4-weather.csv": "88357fffb6989a02bd5a5dc57d57821754baf9957808c4d82c0aab3fae46bb46",
       "S4-jobs.csv": "068b94ccde2e8488adcaa395e7ceb5d33619a19bac45ac943ad99476dd4a7938",
       "S4-measurements.csv": "1fe7d253ad3bd8acfd56b2a05c205ffd092bf124964c9803831eec7ca3883c91",
       "S5-weather.csv": "e79d67aeb47658285d7909d25625e3a0b990ffc17a888983466009d1194dab06",
-      "S5-jobs.csv": "fd95eec57bb35c2f284e39eb005bd394d1b19310dde948009753f57747961889",
+      "S5-jobs.csv": "cb12094495e950791c33e690cd9d8ebe15897ce6271ed3ec73d5a18d33300267",
       "S5-measurements.csv": "309c86ed231c66ddad9f1717c0cd6e54ddd4021aaacb9b8c1c5763c01a425884",
       "S6-weather.csv": "cf7135b34b1648ac13f29b29f937fde597a9aa0ca0a736f026b14c28c7d76988",
       "S6-jobs.csv": "71e06107faefafb319edace2e91780b9cceaaa54ae808f25ba240d40257f9b32",
@@ -186,11 +217,11 @@ describe("generateDemo({ out, seed, scale, anchor })", () => {
       "S7-jobs.csv": "27aa09b484e9fb3f317c6db0b2102eac70aa194e791af049c574b5c8ecf5b2ea",
       "S7-measurements.csv": "24c395e89bfa1b6cd7780dd5728c4ff5fcf70a7863c25d09501c1a4774abe45d",
       "S8-weather.csv": "cb76008182b7245bddae62ec2e71654ced926db0e7e90f2c8b488917e127d9b9",
-      "S8-jobs.csv": "c0c507fa71165fddf854aa48f2f85a38669425c4ccbc1c47dc46feee58baa83b",
+      "S8-jobs.csv": "8beab4afc639e66b0c35e6f510ffbbbbe16f95e0259c1757c9c39b21834de02b",
       "S8-measurements.csv": "194bed6d68ca62c1ea3467da572fb0a29076a37ea6a2721c410e73d434f97618",
     };
     const { manifest } = await generate(1, 0.1, "2025-07-01");
-    expect(Object.fromEntries(manifest.files.map((f) => [f.file, f.sha256]))).toEqual(before);
+    expect(Object.fromEntries(manifest.files.map((f) => [f.file, f.sha256]))).toEqual(pinned);
     expect(manifest.window).toEqual({ from: "2020-07-01", to: "2025-06-30" });
   }, 60_000);
 });
