@@ -25,6 +25,7 @@ import { meRoutes } from "./routes/me.js";
 import { adminUserRoutes } from "./routes/admin-users.js";
 import { adminShopRoutes } from "./routes/admin-shops.js";
 import { adminProfileRoutes } from "./routes/admin-profiles.js";
+import { adminWarrantyPolicyRoutes } from "./routes/admin-warranty-policies.js";
 import { apiRoutes } from "./routes/index.js";
 import { adminMailRoutes } from "./routes/admin-mail.js";
 import type { Storage } from "./services/storage.js";
@@ -122,6 +123,7 @@ export function createApp(d: AppDeps): express.Express {
   app.use("/api/admin/shops", adminShopRoutes(d.db, d.pool));
   app.use("/api/admin/profiles", adminProfileRoutes(d.db, d.pool, d.imports?.spoolDir ?? path.join(os.tmpdir(), "ironledger-uploads")));
   app.use("/api/admin/mail", adminMailRoutes(d.mailArchive ?? null));
+  app.use("/api/admin/warranty-policies", adminWarrantyPolicyRoutes(d.db));
   // peer letters for managers are keyed by the configured secret, else one derived from the session secret (stable across restarts)
   const peerSecret = d.benchmarkPeerSecret ?? createHmac("sha256", d.sessionSecret).update("benchmark-peers").digest("hex");
   // answers computed from the warehouse alone: 304 while the data has not changed since the client's copy

@@ -9,6 +9,9 @@ export const apiPaths = {
   adminProfiles: () => "/api/admin/profiles",
   adminProfile: (id: string, version?: number) => `/api/admin/profiles/${encodeURIComponent(id)}${version === undefined ? "" : `?version=${version}`}`,
   adminProfileTest: (id: string) => `/api/admin/profiles/${encodeURIComponent(id)}/test`,
+  adminWarrantyPolicies: () => "/api/admin/warranty-policies",
+  adminWarrantyPolicy: (family: string, version?: number) =>
+    `/api/admin/warranty-policies/${encodeURIComponent(family)}${version === undefined ? "" : `?version=${version}`}`,
   shops: () => "/api/shops",
   /** `search` is a query string without "?" (filters, paging, sorting) */
   repairs: (search = "") => `/api/repairs${search ? `?${search}` : ""}`,
@@ -33,12 +36,18 @@ export const apiPaths = {
   claimCandidates: (search = "") => `/api/claims/candidates${search ? `?${search}` : ""}`,
   /** `search` is repairLine=… or cluster=… plus the cluster scan's own parameters */
   claimPreview: (search: string) => `/api/claims/preview?${search}`,
+  claimStory: (id: string) => `/api/claims/${encodeURIComponent(id)}/story`,
+  claimNarrative: (id: string) => `/api/claims/${encodeURIComponent(id)}/narrative`,
+  claimNotes: (id: string) => `/api/claims/${encodeURIComponent(id)}/notes`,
   claimStatus: (id: string) => `/api/claims/${encodeURIComponent(id)}/status`,
   claimAttachments: (id: string) => `/api/claims/${encodeURIComponent(id)}/attachments`,
   claimAttachment: (id: string, attachmentId: string) => `/api/claims/${encodeURIComponent(id)}/attachments/${encodeURIComponent(attachmentId)}`,
   claimPacket: (id: string) => `/api/claims/${encodeURIComponent(id)}/packet.pdf`,
   claimLinesCsv: (id: string) => `/api/claims/${encodeURIComponent(id)}/lines.csv`,
   claimSend: (id: string) => `/api/claims/${encodeURIComponent(id)}/send`,
+  claimMoney: () => "/api/claims/money",
+  claimLineInclusion: (id: string, lineId: string) => `/api/claims/${encodeURIComponent(id)}/lines/${encodeURIComponent(lineId)}/inclusion`,
+  claimResubmit: (id: string) => `/api/claims/${encodeURIComponent(id)}/resubmit`,
   /** the cluster list a campaign case is picked from (the analytics scan with its default parameters) */
   claimClusterChoices: () => "/api/analytics/clusters",
   adminMail: () => "/api/admin/mail",

@@ -422,24 +422,50 @@ export interface WarehouseTables {
   fact_meter_reading: FactHourReadingTable;
   fact_weather_day: FactWeatherDayTable;
   warranty_policy: WarrantyPolicyTable;
+  warranty_policy_version: WarrantyPolicyVersionTable;
   warranty_claim: WarrantyClaimTable;
   warranty_claim_line: WarrantyClaimLineTable;
   warranty_claim_audit: WarrantyClaimAuditTable;
   warranty_attachment: WarrantyAttachmentTable;
   warranty_send: WarrantySendTable;
+  warranty_claim_note: WarrantyClaimNoteTable;
 }
 
 // Warranty claims (migrations/0020_create_warranty.ts).
 export type ClaimKindColumn = "repair" | "campaign";
-export type ClaimStatusColumn = "draft" | "submitted" | "accepted" | "rejected" | "credited";
+export type ClaimStatusColumn = "draft" | "submitted" | "accepted" | "partly_accepted" | "rejected" | "credited" | "written_off";
 export type SendStatusColumn = "sending" | "queued" | "sent" | "failed";
 
+/** A view since migration 0063: each engine family's current policy version (read only). */
 export interface WarrantyPolicyTable {
   engine_family: string;
   claim_days: number;
   part_retention_days: number;
   warranty_email: string;
-  updated_at: ColumnType<Date, Date | undefined, Date>;
+  updated_at: ColumnType<Date, never, never>;
+  policy_version_id: ColumnType<string, never, never>;
+  version: ColumnType<number, never, never>;
+  base_months: ColumnType<number, never, never>;
+  base_hours: ColumnType<number, never, never>;
+  engine_months: ColumnType<number, never, never>;
+  engine_hours: ColumnType<number, never, never>;
+}
+
+/** Every saved version of a warranty policy; never updated (migration 0063). */
+export interface WarrantyPolicyVersionTable {
+  policy_version_id: Generated<string>;
+  engine_family: string;
+  version: number;
+  base_months: number;
+  base_hours: number;
+  engine_months: number;
+  engine_hours: number;
+  claim_days: number;
+  part_retention_days: number;
+  warranty_email: string;
+  saved_by: string;
+  saved_at: ColumnType<Date, Date | undefined, never>;
+  note: string | null;
 }
 
 export interface WarrantyClaimTable {
@@ -461,6 +487,10 @@ export interface WarrantyClaimTable {
   cluster_snapshot: unknown;
   /** the unit the packet states temperatures in: the creating clerk's (migration 0058) */
   temperature_unit: Generated<"C" | "F">;
+  /** the narrative the maker reads (migration 0062) */
+  narrative_found: Generated<string | null>;
+  narrative_done: Generated<string | null>;
+  narrative_why: Generated<string | null>;
   created_by: string;
   created_by_name: string;
   created_at: ColumnType<Date, Date | undefined, never>;
@@ -468,12 +498,29 @@ export interface WarrantyClaimTable {
   submitted_at: Date | null;
   decided_at: Date | null;
   credited_at: Date | null;
+  /** the warranty policy version the claim was judged under; set by a trigger when not given (migration 0063) */
+  policy_version_id: Generated<string>;
+  /** versions, the way the claim went out and the maker's payment (migration 0059) */
+  revision: Generated<number>;
+  previous_claim_id: Bigint | null;
+  correction: string | null;
+  resubmit_from: string | null;
+  amount_paid: NullableNumeric;
+  filed_via: "mail" | "other" | "unrecorded" | null;
+  filed_reference: string | null;
+  filed_on: string | null;
+  days_late: number | null;
+  written_off_reason: string | null;
 }
 
 export interface WarrantyClaimLineTable {
   claim_id: Bigint;
   repair_line_key: Bigint;
   shop_code: string;
+  /** a line not covered that the clerk included deliberately, with why (migration 0059) */
+  include_reason: string | null;
+  included_by: string | null;
+  included_at: Date | null;
 }
 
 export interface WarrantyClaimAuditTable {
@@ -484,6 +531,17 @@ export interface WarrantyClaimAuditTable {
   actor_name: string;
   action: string;
   changes: unknown;
+}
+
+/** Notes between the warranty clerk and the shop on a claim (migration 0062); never in the packet. */
+export interface WarrantyClaimNoteTable {
+  note_id: Generated<string>;
+  claim_id: string;
+  author_sub: string;
+  author_name: string;
+  author_role: string;
+  body: string;
+  at: ColumnType<Date, Date | undefined, never>;
 }
 
 export interface WarrantyAttachmentTable {

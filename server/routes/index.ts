@@ -7,6 +7,10 @@ import { analyticsLifeRoutes } from "./analytics-life.js";
 import { analyticsClusterRoutes } from "./analytics-clusters.js";
 import { benchmarkRoutes } from "./benchmarks.js";
 import { claimRoutes, type ClaimRouteDeps } from "./claims.js";
+import { claimLifecycleRoutes } from "./claim-lifecycle.js";
+import { claimStoryRoutes } from "./claim-story.js";
+import { allow } from "../auth/require-user.js";
+import { claimRoles } from "../../shared/roles.js";
 import { repairCsvRoutes, repairRoutes } from "./repairs.js";
 import { overviewRoutes } from "./overview.js";
 import { clusterDetailRoutes } from "./analytics-cluster-detail.js";
@@ -27,6 +31,9 @@ export function apiRoutes(
   router.use("/analytics/life", analyticsLifeRoutes(db));
   router.use("/analytics/clusters", analyticsClusterRoutes(db));
   router.use("/benchmarks", benchmarkRoutes(db, peerSecret));
+  // the money report, line inclusion and versions, and the story (narrative, notes) sit beside the claims
+  // router behind the same roles; mounted first, as "/money" would otherwise be taken for a claim id
+  router.use("/claims", allow(...claimRoles), claimLifecycleRoutes({ db, ...services }), claimStoryRoutes({ db, ...services }));
   router.use("/claims", claimRoutes({ db, ...services }));
   router.use("/analytics/clusters", clusterDetailRoutes(db));
   router.use("/repairs.csv", repairCsvRoutes(db, pool));

@@ -1,7 +1,7 @@
 import { createReadStream } from "node:fs";
 import { Readable } from "node:stream";
 import { buffer } from "node:stream/consumers";
-import { S3Client, HeadBucketCommand, CreateBucketCommand, GetObjectCommand, PutObjectCommand } from "@aws-sdk/client-s3";
+import { S3Client, HeadBucketCommand, CreateBucketCommand, DeleteObjectCommand, GetObjectCommand, PutObjectCommand } from "@aws-sdk/client-s3";
 import { HttpError, storageUnavailable } from "../errors.js";
 import { logger } from "../logger.js";
 
@@ -97,6 +97,10 @@ export function createStorage(s: StorageSettings) {
         () => client.send(new PutObjectCommand({ Bucket: s.bucket, Key: key, Body: createReadStream(filePath), ContentLength: size, ContentType: contentType })),
         ", so the file was not archived",
       );
+    },
+    /** Removes the object under `key` (a removed attachment); removing one that is gone already is not an error. */
+    async deleteObject(key: string): Promise<void> {
+      await send(() => client.send(new DeleteObjectCommand({ Bucket: s.bucket, Key: key })), ", so the file was not removed");
     },
     /** The object under `key` as a stream, so a large file is passed on without being held whole in memory. */
     async getObject(key: string, consequence = ", so the file cannot be read"): Promise<StoredObject> {

@@ -1,8 +1,9 @@
 import { z } from "zod";
 import { clusterSchema } from "./analytics-clusters.js";
 import { isInt64 } from "../int64.js";
+import { claimBucketSchema, claimBucketsSchema, claimFilingSchema, claimLineSplitSchema, claimVersionSchema, filingBodySchema, submitCheckSchema } from "./claim-lifecycle.js";
 
-export const claimStatusSchema = z.enum(["draft", "submitted", "accepted", "rejected", "credited"]);
+export const claimStatusSchema = z.enum(["draft", "submitted", "accepted", "partly_accepted", "rejected", "credited", "written_off"]);
 export type ClaimStatus = z.infer<typeof claimStatusSchema>;
 export const claimKindSchema = z.enum(["repair", "campaign"]);
 export type ClaimKind = z.infer<typeof claimKindSchema>;
@@ -12,8 +13,10 @@ export const claimStatusLabels: Record<ClaimStatus, string> = {
   draft: "Draft",
   submitted: "Submitted",
   accepted: "Accepted",
+  partly_accepted: "Partly accepted",
   rejected: "Rejected",
   credited: "Credited",
+  written_off: "Written off",
 };
 
 const temperatureUnit = z.enum(["C", "F"], { error: "unit must be C or F" });
@@ -49,6 +52,10 @@ export const statusChangeSchema = z.object({
   to: claimStatusSchema,
   reason: z.string().trim().max(2000).optional(),
   amount: z.coerce.number().positive("must be greater than zero").max(10_000_000).optional(),
+  /** submitting after the deadline: the clerk saw the days overdue and files anyway */
+  confirmLate: z.boolean().optional(),
+  /** submitting a claim that went out another way than the packet e-mailed from here */
+  filing: filingBodySchema.optional(),
 });
 export type StatusChangeBody = z.infer<typeof statusChangeSchema>;
 
@@ -63,6 +70,8 @@ export const eligibilitySchema = z.object({
   endedBy: z.enum(["months", "hours", "both"]).nullable(),
   summary: z.string(),
   termsFromRegistry: z.boolean(),
+  /** where the months and hours come from, in words: the machine registry or the policy version (migration 0063) */
+  termsSource: z.string(),
 });
 export type EligibilityView = z.infer<typeof eligibilitySchema>;
 
@@ -77,18 +86,20 @@ const verdict = z.enum(["good", "watch", "fault"]);
 export const interpretationSchema = z.object({
   compression: z
     .object({
-      cylinders: z.array(z.object({ position: z.number(), attempts: z.array(z.number()), mean: z.number(), verdict, band: z.string() })),
+      // `source`: where the verdict's threshold comes from, in words for the maker (shared/threshold-source.ts)
+      cylinders: z.array(z.object({ position: z.number(), attempts: z.array(z.number()), mean: z.number(), verdict, band: z.string(), source: z.string() })),
       average: z.number(),
-      lowest: z.object({ position: z.number(), mean: z.number(), verdict, band: z.string() }),
+      lowest: z.object({ position: z.number(), mean: z.number(), verdict, band: z.string(), source: z.string() }),
       highest: z.object({ position: z.number(), mean: z.number() }),
       spread: z.number(),
       spreadVerdict: verdict,
       spreadBand: z.string(),
-      pattern: z.object({ kind: z.string(), meaning: z.string(), provenance: z.string() }),
+      spreadSource: z.string(),
+      pattern: z.object({ kind: z.string(), meaning: z.string(), provenance: z.string(), source: z.string() }),
     })
     .nullable(),
-  plugs: z.array(z.object({ position: z.number(), ohms: z.number().nullable(), raw: z.string(), verdict: z.string(), label: z.string(), provenance: z.string() })),
-  rail: z.array(z.object({ volts: z.number(), raw: z.string(), verdict, label: z.string(), provenance: z.string() })),
+  plugs: z.array(z.object({ position: z.number(), ohms: z.number().nullable(), raw: z.string(), verdict: z.string(), label: z.string(), provenance: z.string(), source: z.string() })),
+  rail: z.array(z.object({ volts: z.number(), raw: z.string(), verdict, label: z.string(), provenance: z.string(), source: z.string() })),
   battery: z.array(z.object({ volts: z.number(), raw: z.string() })),
 });
 export type Interpretation = z.infer<typeof interpretationSchema>;
@@ -181,13 +192,19 @@ export const claimSummarySchema = z.object({
   lastSend: sendSchema.nullable(),
   createdAt: z.string(),
   createdBy: z.string(),
+  /** the version of the claim (1 for the first filing) and the version that corrected it, if any */
+  revision: z.number(),
+  supersededBy: z.string().nullable(),
+  amountPaid: z.number().nullable(),
+  filing: claimFilingSchema.nullable(),
+  bucket: claimBucketSchema,
 });
 export type ClaimSummary = z.infer<typeof claimSummarySchema>;
 
 /** GET /api/claims */
-export const claimListSchema = z.object({ today: z.string(), claims: z.array(claimSummarySchema) });
+export const claimListSchema = z.object({ today: z.string(), claims: z.array(claimSummarySchema), buckets: claimBucketsSchema });
 
-export const auditEntrySchema = z.object({ id: z.string(), at: z.string(), actorName: z.string(), action: z.string(), changes: z.record(z.string(), z.unknown()) });
+export const auditEntrySchema = z.object({ id: z.string(), at: z.string(), actorName: z.string(), action: z.string(), changes: z.record(z.string(), z.unknown()), text: z.string() });
 
 export const attachmentSchema = z.object({
   id: z.string(),
@@ -219,6 +236,16 @@ export const claimDetailSchema = claimSummarySchema.extend({
   cautions: z.array(z.string()),
   storageAvailable: z.boolean(),
   sendAvailable: z.boolean(),
+  /** the lines in the amount claimed and the lines listed apart, with why */
+  split: claimLineSplitSchema,
+  correction: z.string().nullable(),
+  writtenOffReason: z.string().nullable(),
+  versions: z.array(claimVersionSchema),
+  /** a draft's submission as it stands today; null once filed */
+  submitCheck: submitCheckSchema.nullable(),
+  canResubmit: z.boolean(),
+  /** the warranty policy version the claim was judged under (migration 0063), with "judged under policy version N of …" */
+  policy: z.object({ engineFamily: z.string(), version: z.number(), text: z.string() }),
 });
 export type ClaimDetail = z.infer<typeof claimDetailSchema>;
 
@@ -230,6 +257,7 @@ export const claimPreviewSchema = z.object({
   eligibilityCounts: eligibilityCountsSchema,
   deadline: deadlineSchema.nullable(),
   amountClaimed: z.number().nullable(),
+  split: claimLineSplitSchema,
   cluster: clusterSnapshotSchema.nullable(),
   existingClaims: z.array(z.object({ id: z.string(), claimNumber: z.string(), kind: claimKindSchema, status: claimStatusSchema })),
   problems: z.array(z.string()),

@@ -17,6 +17,7 @@ export const navItems: readonly NavItem[] = [
   { to: "/admin/users", label: "Users", roles: ["admin"] },
   { to: "/admin/shops", label: "Shops", roles: ["admin"] },
   { to: "/admin/profiles", label: "Profiles", roles: ["admin"] },
+  { to: "/admin/warranty-policies", label: "Warranty policies", roles: ["admin"] },
   { to: "/claims", label: "Claims", roles: ["clerk", "manager"] },
   { to: "/imports", label: "Imports", roles: importRoles },
   { to: "/admin/mail", label: "Captured mail", roles: ["admin"] },

@@ -19,6 +19,8 @@ export const pagePaths = {
   adminProfiles: "/admin/profiles",
   adminProfile: "/admin/profiles/:id",
   adminMail: "/admin/mail",
+  adminWarrantyPolicies: "/admin/warranty-policies",
+  adminWarrantyPolicy: "/admin/warranty-policies/:family",
   imports: "/imports",
   batchRejects: "/imports/batches/:id",
 } as const;

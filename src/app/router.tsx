@@ -52,6 +52,8 @@ export function routes(qc: QueryClient): RouteObject[] {
           { path: pagePaths.adminProfiles, lazy: lazyPage(qc, () => import("@/routes/admin-profiles")) },
           { path: pagePaths.adminProfile, lazy: lazyPage(qc, () => import("@/routes/admin-profile")) },
           { path: pagePaths.adminMail, lazy: lazyPage(qc, () => import("@/routes/admin-mail")) },
+          { path: pagePaths.adminWarrantyPolicies, lazy: lazyPage(qc, () => import("@/routes/admin-warranty-policies")) },
+          { path: pagePaths.adminWarrantyPolicy, lazy: lazyPage(qc, () => import("@/routes/admin-warranty-policy")) },
         ]),
         { path: "*", lazy: () => import("@/routes/not-found") },
       ],

@@ -1,3 +1,4 @@
+import { VersionHistory } from "@/components/version-history";
 import { useState } from "react";
 import { useQuery } from "@tanstack/react-query";
 import { Link, generatePath, useNavigate, useParams, useSearchParams } from "react-router-dom";
@@ -7,7 +8,7 @@ import { pagePaths } from "@/app/page-paths";
 import { QueryView } from "@/features/filters/components/query-view";
 import { profileQueries } from "@/features/admin/profiles/api/profile-queries";
 import { ProfileForm } from "@/features/admin/profiles/components/profile-form";
-import { dateTimeInWords, kindLabels } from "@/features/imports/import-words";
+import { kindLabels } from "@/features/imports/import-words";
 
 const versionOf = (s: URLSearchParams) => {
   const v = Number(s.get("version"));
@@ -65,34 +66,7 @@ export function Component() {
                 />
               </Card>
               <Card title="Versions">
-                <div className="overflow-x-auto">
-                  <table className="w-full text-left text-sm" aria-label="Versions of the profile">
-                    <thead className="text-muted">
-                      <tr>
-                        <th scope="col" className="border-b border-line px-2 py-1.5">Version</th>
-                        <th scope="col" className="border-b border-line px-2 py-1.5">Saved by</th>
-                        <th scope="col" className="border-b border-line px-2 py-1.5">When</th>
-                        <th scope="col" className="border-b border-line px-2 py-1.5">Why</th>
-                        <th scope="col" className="border-b border-line px-2 py-1.5 text-right">Loads read with it</th>
-                      </tr>
-                    </thead>
-                    <tbody>
-                      {d.history.map((h) => (
-                        <tr key={h.version} className={h.version === d.version ? "bg-accent-soft/40" : ""}>
-                          <td className="px-2 py-1.5">
-                            <Link to={`${generatePath(pagePaths.adminProfile, { id })}?version=${h.version}`} className="text-accent underline">
-                              {h.version}
-                            </Link>
-                          </td>
-                          <td className="px-2 py-1.5">{h.savedBy === "defaults" ? "shipped with Ironledger" : h.savedBy}</td>
-                          <td className="whitespace-nowrap px-2 py-1.5">{dateTimeInWords(h.savedAt)}</td>
-                          <td className="px-2 py-1.5">{h.note ?? "—"}</td>
-                          <td className="px-2 py-1.5 text-right tabular-nums">{h.batches.toLocaleString("en")}</td>
-                        </tr>
-                      ))}
-                    </tbody>
-                  </table>
-                </div>
+                <VersionHistory label="Versions of the profile" history={d.history} current={d.version} hrefOf={(v) => `${generatePath(pagePaths.adminProfile, { id })}?version=${v}`} extra={[{ header: "Loads read with it", cell: (h) => h.batches.toLocaleString("en"), numeric: true }]} />
               </Card>
             </>
           );

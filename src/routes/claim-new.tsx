@@ -22,8 +22,8 @@ function Chooser() {
   const clusters = useQuery({ ...claimQueries.clusterChoices(), enabled: groupWide });
   const [, setParams] = useSearchParams();
   return (
-    <div className="grid gap-4 lg:grid-cols-[2fr_1fr]">
-      <div className="lg:col-span-2">
+    <div className="min-w-0 space-y-4">
+      <div className="min-w-0 lg:col-span-2">
         <Card title="Repair lines in warranty, not yet claimed">
           <ClaimQueueTable onPick={(id) => setParams({ repairLine: id })} />
         </Card>

@@ -78,6 +78,13 @@ const ADMIN: readonly Role[] = ["admin"];
 const IMPORTS: readonly Role[] = ["admin", "analyst", "manager"];
 const FINDINGS_READ: readonly Role[] = ["analyst", "director", "clerk", "admin"];
 const FINDINGS_WORK: readonly Role[] = ["analyst", "director", "admin"];
+/** a complete warranty policy (the seeded default's terms) for the policy routes */
+const POLICY = {
+  coverage: { base: { months: 24, hours: 2000 }, engine: { months: 36, hours: 3000 } },
+  claimDays: 30,
+  partRetentionDays: 60,
+  warrantyEmail: "claims@warranty.ironledger.invalid",
+};
 /** an upload or batch id no caller has: past the role check the answer is 404 in words */
 const NO_SUCH = "999999999";
 
@@ -145,6 +152,20 @@ const ACCESS: Record<string, Entry> = {
   },
   // the API tests run without the SMTP fake: an admin is told there is no captured mail (404 in words)
   "GET /api/admin/mail": { req: () => ({ path: apiPaths.adminMail() }), expect: gate(ADMIN, 404) },
+  "GET /api/admin/warranty-policies": { req: () => ({ path: apiPaths.adminWarrantyPolicies() }), expect: gate(ADMIN, 200) },
+  "GET /api/admin/warranty-policies/:family": { req: () => ({ path: apiPaths.adminWarrantyPolicy("*") }), expect: gate(ADMIN, 200) },
+  // an edit started from a version that is not the latest: an admin is told to reopen the policy (409) and nothing is saved
+  "PUT /api/admin/warranty-policies/:family": {
+    req: () => ({ path: apiPaths.adminWarrantyPolicy("*"), body: { policy: POLICY, basedOn: 99, note: "access check" } }),
+    expect: gate(ADMIN, 409),
+    invalid: () => ({ path: apiPaths.adminWarrantyPolicy("*"), body: { policy: { ...POLICY, warrantyEmail: "not an address" }, basedOn: 1, note: "access check" } }),
+  },
+  // the group default has a policy already: an admin is told so (409) and nothing is added
+  "POST /api/admin/warranty-policies": {
+    req: () => ({ path: apiPaths.adminWarrantyPolicies(), body: { engineFamily: "*", policy: POLICY, note: "access check" } }),
+    expect: gate(ADMIN, 409),
+    invalid: () => ({ path: apiPaths.adminWarrantyPolicies(), body: { engineFamily: "NEW-1", policy: { ...POLICY, claimDays: 0 }, note: "access check" } }),
+  },
 
   "GET /api/overview": { req: () => ({ path: apiPaths.overview() }), expect: gate(ANALYTICS, 200) },
   "GET /api/analytics/rates/hour-bands": { shop: "filter", req: filtered((s) => apiPaths.rates("hour-bands", s)), expect: gate(ANALYTICS, 200, "as-empty") },
@@ -206,6 +227,40 @@ const ACCESS: Record<string, Entry> = {
   "GET /api/claims/:id/packet.pdf": { shop: "resource", req: (f, side) => ({ path: apiPaths.claimPacket(f.claim[mine(side)]) }), expect: gate(CLAIMS, 200, 404) },
   "GET /api/claims/:id/lines.csv": { shop: "resource", req: (f, side) => ({ path: apiPaths.claimLinesCsv(f.claim[mine(side)]) }), expect: gate(CLAIMS, 200, 404) },
   "POST /api/claims/:id/send": { shop: "resource", req: (f, side) => ({ path: apiPaths.claimSend(f.claim[mine(side)]) }), expect: gate(CLAIMS, 503, 404) },
+  "GET /api/claims/money": { req: () => ({ path: apiPaths.claimMoney() }), expect: gate(CLAIMS, 200) },
+  // the fixture claims hold covered lines: an allowed caller who can see the claim is told the line needs no reason (409)
+  "POST /api/claims/:id/lines/:lineId/inclusion": {
+    shop: "resource",
+    req: (f, side) => ({ path: apiPaths.claimLineInclusion(f.claim[mine(side)], f.line[mine(side)]), body: { include: true, reason: "cohort evidence" } }),
+    expect: gate(CLAIMS, 409, 404),
+    invalid: (f) => ({ path: apiPaths.claimLineInclusion(f.claim.own, f.line.own), body: { include: true } }),
+  },
+  // the fixture claims are drafts: an allowed caller who can see the claim is told only a rejected one is corrected (409)
+  "POST /api/claims/:id/resubmit": {
+    shop: "resource",
+    req: (f, side) => ({ path: apiPaths.claimResubmit(f.claim[mine(side)]), body: { correction: "hour meter photo added" } }),
+    expect: gate(CLAIMS, 409, 404),
+    invalid: (f) => ({ path: apiPaths.claimResubmit(f.claim.own), body: {} }),
+  },
+  "GET /api/claims/:id/story": { shop: "resource", req: (f, side) => ({ path: apiPaths.claimStory(f.claim[mine(side)]) }), expect: gate(CLAIMS, 200, 404) },
+  "PUT /api/claims/:id/narrative": {
+    shop: "resource",
+    req: (f, side) => ({ path: apiPaths.claimNarrative(f.claim[mine(side)]), body: { found: "Hard start when cold.", done: "", why: "" } }),
+    expect: gate(CLAIMS, 200, 404),
+    invalid: (f) => ({ path: apiPaths.claimNarrative(f.claim.own), body: { found: "x".repeat(4001), done: "", why: "" } }),
+  },
+  "POST /api/claims/:id/notes": {
+    shop: "resource",
+    req: (f, side) => ({ path: apiPaths.claimNotes(f.claim[mine(side)]), body: { text: "Old plug kept for return." } }),
+    expect: gate(CLAIMS, 201, 404),
+    invalid: (f) => ({ path: apiPaths.claimNotes(f.claim.own), body: { text: "   " } }),
+  },
+  // the API tests run without object storage: past the role and shop checks a draft's attachment cannot be removed (503)
+  "DELETE /api/claims/:id/attachments/:attachmentId": {
+    shop: "resource",
+    req: (f, side) => ({ path: apiPaths.claimAttachment(f.claim[mine(side)], f.attachment[mine(side)]) }),
+    expect: gate(CLAIMS, 503, 404),
+  },
 
   "GET /api/findings": { req: () => ({ path: apiPaths.findings() }), expect: gate(FINDINGS_READ, 200) },
   // a key no finding has: past the role check the answer is 404 in words

@@ -240,13 +240,14 @@ describe("roles on /api/benchmarks", () => {
 describe("claims filed on time, once claims exist", () => {
   it("divides claims submitted by the deadline by claims submitted or past it", async () => {
     // S5, ROs closed in March 2025 (inside the 12 months to May 2025), deadline close + 30 days = 2025-04-09:
-    // submitted 04-01 (on time), submitted 04-20 (late), never submitted and past the deadline (late) → 1 ÷ 3
-    const claim = (n: number, submitted: string | null) => ({
+    // went out 04-01 (on time, recorded on 04-12), went out 04-20 (late), never submitted and past the deadline (late) → 1 ÷ 3
+    const claim = (n: number, submitted: string | null, recorded = submitted) => ({
       claim_number: `T-${n}`, kind: "repair" as const, status: submitted ? ("submitted" as const) : ("draft" as const), title: `test claim ${n}`, shop_code: "S5",
       engine_family: "K26-4R", closed_date: "2025-03-10", claim_days: 30, deadline: "2025-04-09", created_by: "test", created_by_name: "Test",
-      submitted_at: submitted ? new Date(`${submitted}T12:00:00Z`) : null,
+      submitted_at: recorded ? new Date(`${recorded}T12:00:00Z`) : null,
+      ...(submitted ? { filed_via: "other" as const, filed_reference: `PORTAL-${n}`, filed_on: submitted } : {}),
     });
-    await t.db.insertInto("warranty_claim").values([claim(1, "2025-04-01"), claim(2, "2025-04-20"), claim(3, null)]).execute();
+    await t.db.insertInto("warranty_claim").values([claim(1, "2025-04-01", "2025-04-12"), claim(2, "2025-04-20"), claim(3, null)]).execute();
     const body = await shopsFor(director);
     const s5 = body.shops.find((s) => s.shopCode === "S5")!;
     expect(s5.warrantyOnTime).toMatchObject({ successes: 1, n: 3, value: expect.closeTo(1 / 3, 12) });

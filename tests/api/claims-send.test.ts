@@ -106,6 +106,24 @@ describe("claims on the whole stack with the SMTP fake", () => {
     expect(rows.map((x) => x.original_name)).toEqual(["failed-plug.png"]);
   });
 
+  it("removes a wrong photo before sending: its record, its object in storage and its place in the packet, with the removal audited", async () => {
+    const wrong = png(32, 32, [20, 20, 200]);
+    const added = (await request(stack.url).post(`/api/claims/${claim.id}/attachments`).set("Cookie", clerk).attach("file", wrong, "wrong-machine.png").expect(201)).body as ClaimDetail;
+    const a = added.attachments.find((x) => x.originalName === "wrong-machine.png")!;
+    const key = (await stack.db.selectFrom("warranty_attachment").select("s3_key").where("attachment_id", "=", a.id).executeTakeFirstOrThrow()).s3_key;
+    const other = await cookieFor(stack, { roles: ["manager"], shops: [claim.shopCode === "S8" ? "S7" : "S8"], name: "Other Manager" });
+    await request(stack.url).delete(`/api/claims/${claim.id}/attachments/${a.id}`).set("Cookie", other).set("Origin", stack.url).expect(404);
+    await request(stack.url).delete(`/api/claims/${claim.id}/attachments/${a.id}`).set("Cookie", clerk).set("Origin", stack.url).expect(200);
+    await request(stack.url).get(`/api/claims/${claim.id}/attachments/${a.id}`).set("Cookie", clerk).expect(404);
+    const rows = await stack.db.selectFrom("warranty_attachment").select("original_name").where("claim_id", "=", claim.id).execute();
+    expect(rows.map((x) => x.original_name)).toEqual(["failed-plug.png"]);
+    // the object is gone from the store too
+    await expect(stack.storage!.readObject(key)).rejects.toThrow();
+    const after = (await request(stack.url).get(`/api/claims/${claim.id}`).set("Cookie", clerk).expect(200)).body as ClaimDetail;
+    expect(after.audit.at(-1)).toMatchObject({ action: "attachment removed", actorName: "Send Clerk", changes: { attachment: "wrong-machine.png" } });
+    await request(stack.url).delete(`/api/claims/${claim.id}/attachments/${a.id}`).set("Cookie", clerk).set("Origin", stack.url).expect(404);
+  });
+
   it("e-mails the packet to the engine family's warranty address with the PDF attached", async () => {
     const res = await request(stack.url).post(`/api/claims/${claim.id}/send`).set("Cookie", clerk).expect(200);
     const after = res.body as ClaimDetail;

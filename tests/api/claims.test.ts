@@ -237,7 +237,8 @@ describe("POST /api/claims/:id/status", () => {
   });
 
   it("walks draft → submitted → accepted → credited and audits every move with who and what", async () => {
-    await move(id, { to: "submitted" }).expect(200);
+    // it went out through the maker's portal today; the demo world's deadlines may have passed, so the lateness is confirmed
+    await move(id, { to: "submitted", filing: { reference: "PORTAL-0001", filedOn: new Date().toISOString().slice(0, 10) }, confirmLate: true }).expect(200);
     await move(id, { to: "accepted" }).expect(200);
     const done = (await move(id, { to: "credited", amount: 318.4 }).expect(200)).body as ClaimDetail;
     expect(done.status).toBe("credited");

@@ -20,7 +20,10 @@ const MOUNTS: Record<string, string> = {
   "server/auth/routes.ts": "/auth",
   "server/routes/admin-shops.ts": "/api/admin/shops",
   "server/routes/admin-profiles.ts": "/api/admin/profiles",
+  "server/routes/admin-warranty-policies.ts": "/api/admin/warranty-policies",
   "server/routes/claims.ts": "/api/claims",
+  "server/routes/claim-lifecycle.ts": "/api/claims",
+  "server/routes/claim-story.ts": "/api/claims",
   "server/routes/imports.ts": "/api/imports",
   "server/routes/findings.ts": "/api/findings",
 };

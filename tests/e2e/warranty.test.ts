@@ -5,6 +5,7 @@ import { tmpdir } from "node:os";
 import path from "node:path";
 import { artifactsDir, forgetSessions, signInThroughProvider } from "../helpers/browser.js";
 import { browserJourney } from "../helpers/browser-journey.js";
+import { drawnPng } from "../helpers/drawn-png.js";
 import { DEMO_PASSWORD } from "../../server/auth/demo-accounts.js";
 
 // The warranty clerk's journey on the demo world: the planted heater-plug lot BT-2109 (../shared/SCENARIO.md)
@@ -50,24 +51,12 @@ describe("a campaign case from the planted cluster in Chromium", () => {
 
   it("attaches a photo and shows it as a thumbnail", async () => {
     const { page } = env.browser;
-    // a small PNG drawn on a canvas in the page itself
-    const dataUrl = await page.evaluate(() => {
-      const c = document.createElement("canvas");
-      c.width = 160;
-      c.height = 100;
-      const g = c.getContext("2d")!;
-      g.fillStyle = "#e9e4d8";
-      g.fillRect(0, 0, 160, 100);
-      g.fillStyle = "#7a5a3c";
-      g.fillRect(20, 44, 90, 12);
-      g.fillStyle = "#b7410e";
-      g.fillRect(110, 40, 30, 20);
-      return c.toDataURL("image/png");
-    });
-    const buffer = Buffer.from(dataUrl.split(",")[1], "base64");
+    const buffer = await drawnPng(page, { width: 160, height: 100, colour: "#7a5a3c", second: "#b7410e" });
     await page.getByLabel("Attach a file").setInputFiles({ name: "failed-plug.png", mimeType: "image/png", buffer });
     const thumb = page.getByRole("img", { name: "failed-plug.png" });
     await thumb.waitFor();
+    // thumbnails load lazily: bring it on screen as the clerk would
+    await thumb.scrollIntoViewIfNeeded();
     await expect.poll(() => thumb.evaluate((img: HTMLImageElement) => img.complete && img.naturalWidth)).toBe(160);
     await page.getByRole("list", { name: "Audit trail" }).getByText("attachment added").waitFor();
     await env.browser.screenshot("warranty-campaign-detail");

@@ -154,14 +154,16 @@ export async function partsWaitCounts(db: Db, countedThrough: string): Promise<W
 
 /**
  * Repair claims whose filing is decided by `today` (submitted, or past the deadline without a submission), per
- * shop and month of the RO close; on time = submitted on or before the deadline. Campaign cases (no shop) are left out.
+ * shop and month of the RO close; on time = it went out to the maker (the recorded filing date, else the day it was
+ * marked submitted) on or before the deadline. A claim corrected after a rejection counts once, by its first filing.
+ * Campaign cases (no shop) are left out.
  */
 export async function warrantyClaimCounts(db: Db, today: string): Promise<ClaimCount[]> {
   const r = await sql<{ shop_code: string; month: string; claims: string; on_time: string }>`
     SELECT shop_code, to_char(closed_date, 'YYYY-MM') AS month, count(*) AS claims,
-           count(*) FILTER (WHERE submitted_at IS NOT NULL AND (submitted_at AT TIME ZONE 'UTC')::date <= deadline) AS on_time
+           count(*) FILTER (WHERE submitted_at IS NOT NULL AND coalesce(filed_on, (submitted_at AT TIME ZONE 'UTC')::date) <= deadline) AS on_time
     FROM warranty_claim
-    WHERE kind = 'repair' AND shop_code IS NOT NULL AND (submitted_at IS NOT NULL OR deadline < ${today}::date)
+    WHERE kind = 'repair' AND revision = 1 AND shop_code IS NOT NULL AND (submitted_at IS NOT NULL OR deadline < ${today}::date)
     GROUP BY 1, 2
   `.execute(db);
   return r.rows.map((x) => ({ shop: x.shop_code, month: x.month, claims: Number(x.claims), onTime: Number(x.on_time) }));

@@ -17,13 +17,26 @@ export interface QueueRow {
   total: string;
 }
 
-/** The machine's cover for the line's component class (registry terms, else the defaults), in SQL. */
+/**
+ * The machine's cover for the line's component class, in SQL: registry terms, else the current warranty policy
+ * version of the machine's engine family (`p`, from policyOf), else the defaults given.
+ */
 function insideCover(d: CoverDefaults): RawBuilder<unknown> {
   return sql`fl.opened_date <= (m.delivery_date + make_interval(months => CASE WHEN c.system = 'Engine'
-            THEN coalesce(m.warranty_engine_months, ${d.engineMonths}) ELSE coalesce(m.warranty_base_months, ${d.baseMonths}) END))::date
+            THEN coalesce(m.warranty_engine_months, p.engine_months, ${d.engineMonths}) ELSE coalesce(m.warranty_base_months, p.base_months, ${d.baseMonths}) END))::date
       AND fl.hour_meter <= CASE WHEN c.system = 'Engine'
-            THEN coalesce(m.warranty_engine_hours, ${d.engineHours}) ELSE coalesce(m.warranty_base_hours, ${d.baseHours}) END`;
+            THEN coalesce(m.warranty_engine_hours, p.engine_hours, ${d.engineHours}) ELSE coalesce(m.warranty_base_hours, p.base_hours, ${d.baseHours}) END`;
 }
+
+/**
+ * The current policy version of the machine's engine family, or the group default ('*'), as `p`: the highest
+ * saved version (warranty_policy_version, migration 0063).
+ */
+const policyOf = sql`LEFT JOIN LATERAL (
+        SELECT v.claim_days, v.base_months, v.base_hours, v.engine_months, v.engine_hours FROM warranty_policy_version v
+        WHERE v.engine_family IN (m.engine_family, '*')
+        ORDER BY (v.engine_family = '*'), v.version DESC LIMIT 1
+      ) p ON TRUE`;
 
 const scopeCondition = (scope: ShopScope): RawBuilder<unknown> => {
   const shops = scopedShopCodes(scope);
@@ -39,8 +52,8 @@ const searchCondition = (q: string): RawBuilder<unknown> => {
 /**
  * One page of the clerk's queue: closed failure lines inside their machine's cover that no repair claim holds,
  * filtered (shop, component, engine family, at most `daysLeft` days left to file, a serial or RO number) and sorted
- * on the server. A line's deadline is its close + its engine family's filing window (warranty_policy; '*' for
- * the rest). Sorting by deadline puts the lines that can still be filed first, nearest first, then the overdue
+ * on the server. A line's deadline is its close + its engine family's filing window (the current warranty
+ * policy version; '*' for the rest). Sorting by deadline puts the lines that can still be filed first, nearest first, then the overdue
  * ones, least overdue first. Returns the page's keys with their filing window and the total.
  */
 export async function claimQueuePage(db: Db, scope: ShopScope, d: CoverDefaults, q: ClaimCandidateQuery, today: string): Promise<{ rows: QueueRow[]; total: number }> {
@@ -70,10 +83,7 @@ export async function claimQueuePage(db: Db, scope: ShopScope, d: CoverDefaults,
       JOIN dim_shop s ON s.shop_key = fl.shop_key
       JOIN dim_machine m ON m.machine_key = fl.machine_key
       JOIN dim_component c ON c.component_key = fl.component_key
-      CROSS JOIN LATERAL (
-        SELECT wp.claim_days FROM warranty_policy wp WHERE wp.engine_family IN (m.engine_family, '*')
-        ORDER BY (wp.engine_family = '*') LIMIT 1
-      ) p
+      ${policyOf}
       WHERE fl.line_type = 'failure' AND fl.closed_date IS NOT NULL AND fl.hour_meter IS NOT NULL AND m.delivery_date IS NOT NULL
         AND ${insideCover(d)} AND ${sql.join(conds, sql` AND `)}
         AND NOT EXISTS (
@@ -110,6 +120,7 @@ export async function linesOutsideQueue(db: Db, scope: ShopScope, d: CoverDefaul
     JOIN dim_shop s ON s.shop_key = fl.shop_key
     JOIN dim_machine m ON m.machine_key = fl.machine_key
     JOIN dim_component c ON c.component_key = fl.component_key
+    ${policyOf}
     WHERE fl.line_type = 'failure' AND ${scopeCondition(scope)} AND ${searchCondition(text)}
     ORDER BY fl.opened_date DESC, fl.repair_line_key
     LIMIT 200`.execute(db);

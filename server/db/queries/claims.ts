@@ -135,18 +135,40 @@ export interface PolicyRow {
   claim_days: number;
   part_retention_days: number;
   warranty_email: string;
+  /** the version read (warranty_policy_version, migration 0063) and its coverage per class */
+  policy_version_id: string;
+  version: number;
+  base_months: number;
+  base_hours: number;
+  engine_months: number;
+  engine_hours: number;
 }
 
-/** The filing policy for an engine family, or the group default row ('*'). */
+const policyColumns = [
+  "engine_family", "claim_days", "part_retention_days", "warranty_email", "policy_version_id", "version",
+  "base_months", "base_hours", "engine_months", "engine_hours",
+] as const;
+
+/** The current filing policy for an engine family, or the group default ('*'): the latest saved version. */
 export async function policyFor(db: Tx, engineFamily: string): Promise<PolicyRow> {
   const rows = await db
     .selectFrom("warranty_policy")
-    .select(["engine_family", "claim_days", "part_retention_days", "warranty_email"])
+    .select([...policyColumns])
     .where("engine_family", "in", [engineFamily, "*"])
     .execute();
   const row = rows.find((r) => r.engine_family === engineFamily) ?? rows.find((r) => r.engine_family === "*");
   if (!row) throw new Error(`no warranty policy for ${engineFamily} and no default row`);
-  return row;
+  return { ...row, policy_version_id: String(row.policy_version_id) };
+}
+
+/** One stored policy version by its id (the version a claim was judged under). */
+export async function policyVersionById(db: Tx, policyVersionId: string): Promise<PolicyRow | undefined> {
+  const row = await db
+    .selectFrom("warranty_policy_version")
+    .select([...policyColumns])
+    .where("policy_version_id", "=", policyVersionId)
+    .executeTakeFirst();
+  return row && { ...row, policy_version_id: String(row.policy_version_id) };
 }
 
 /** Claims that already hold any of these repair lines (to warn before a second claim on the same failure). */
@@ -174,6 +196,8 @@ export interface NewClaim {
   cluster_id: string | null;
   cluster_snapshot: unknown;
   temperature_unit: "C" | "F";
+  /** the policy version the claim is judged under (when absent, a trigger records the current one) */
+  policy_version_id?: string;
   created_by: string;
   created_by_name: string;
 }
@@ -184,7 +208,7 @@ export interface Actor {
 }
 
 /** Inserts a claim, its lines and the first audit row in one transaction; the number comes from a sequence. */
-export async function insertClaim(db: Db, c: NewClaim, lines: { key: string; shopCode: string }[], actor: Actor): Promise<string> {
+export async function insertClaim(db: Db, c: NewClaim, lines: { key: string; shopCode: string }[], actor: Actor, auditExtra: Record<string, unknown> = {}): Promise<string> {
   return await db.transaction().execute(async (trx) => {
     const seq = await sql<{ n: string }>`SELECT nextval('warranty_claim_number_seq') AS n`.execute(trx);
     const yy = new Date().getUTCFullYear() % 100;
@@ -205,6 +229,7 @@ export async function insertClaim(db: Db, c: NewClaim, lines: { key: string; sho
       lines: lines.length,
       deadline: c.deadline,
       ...(c.cluster_id ? { clusterId: c.cluster_id } : {}),
+      ...auditExtra,
     });
     return String(claim_id);
   });
@@ -221,6 +246,11 @@ const claimColumns = [
   "c.claim_id", "c.claim_number", "c.kind", "c.status", "c.title", "c.shop_code", "c.engine_family", "c.closed_date",
   "c.claim_days", "c.deadline", "c.amount_claimed", "c.amount_credited", "c.reason", "c.note", "c.cluster_id",
   "c.cluster_snapshot", "c.temperature_unit", "c.created_by", "c.created_by_name", "c.created_at", "c.updated_at",
+  // versions, the way out and the maker's payment (migration 0059)
+  "c.revision", "c.previous_claim_id", "c.correction", "c.resubmit_from", "c.amount_paid", "c.filed_via", "c.filed_reference",
+  "c.filed_on", "c.days_late", "c.written_off_reason", "c.decided_at",
+  // the warranty policy version it was judged under (migration 0063)
+  "c.policy_version_id",
 ] as const;
 
 /** Claims in the caller's scope: a manager sees only claims of their own shops (campaign cases across shops are group-wide). */

@@ -11,26 +11,42 @@ import type { Storage } from "../storage.js";
 import { clusterCaution, clusterMethod, clustersOf, findClusters } from "../cluster-finder.js";
 import {
   claimAttachments, claimAudit, claimLineKeys, claimSends, claimsHoldingLines, getClaim, insertClaim, listClaims, policyFor,
-  hourTrail, repairLinesByKeys, type Actor, type ClaimRow,
+  hourTrail, policyVersionById, repairLinesByKeys, type Actor, type ClaimRow, type PolicyRow,
 } from "../../db/queries/claims.js";
-import { amountOf, eligibilityCounts, mainEngineFamily, toEvidence } from "./evidence.js";
+import { judgedUnderWords } from "./eligibility.js";
+import { eligibilityCounts, judging, mainEngineFamily, toEvidence } from "./evidence.js";
 import { compareByDeadline, filingDeadline } from "./deadline.js";
-import { allowedMoves } from "./status.js";
+import { allowedMoves, checkSubmit } from "./status.js";
+import { splitClaimLines } from "./claim-amount.js";
+import { bucketOf, bucketTotals } from "./claim-money.js";
+import { auditSentence } from "./audit-text.js";
+import { claimDeadline, inclusionsOf } from "./lifecycle.js";
+import { claimVersions, successorsOf } from "../../db/queries/claim-lifecycle.js";
+import { mailState } from "./change-status.js";
+import type { ClaimBuckets } from "../../../shared/schemas/claim-lifecycle.js";
 import { todayIso } from "../../../shared/dates.js";
 import { renderPacket } from "./packet.js";
+import { claimNarrative } from "../../db/queries/claim-story.js";
 import type { ClaimSnapshotForPacket, PacketAttachment } from "./packet-types.js";
 
 const iso = (d: Date | string | null) => (d === null ? null : d instanceof Date ? d.toISOString() : new Date(d).toISOString());
 const num = (v: string | number | null) => (v === null ? null : Number(v));
 const imageTypes = new Set(["image/png", "image/jpeg", "image/webp", "image/gif"]);
 
-/** Repair lines as evidence; a single line (a repair claim) also carries its machine's hour-meter trail. */
-export async function evidenceFor(db: Db, scope: ShopScope, keys: readonly string[], today: string): Promise<RepairLineEvidence[]> {
+
+/**
+ * Repair lines as evidence; a single line (a repair claim) also carries its machine's hour-meter trail. Each
+ * line is judged under its engine family's current policy version, or under `judgedUnder` (a claim's own).
+ */
+export async function evidenceFor(db: Db, scope: ShopScope, keys: readonly string[], today: string, judgedUnder: PolicyRow | null = null): Promise<RepairLineEvidence[]> {
   const { lines, measurements, faults } = await repairLinesByKeys(db, scope, keys);
-  const days = new Map<string, number>();
-  for (const fam of new Set(lines.map((l) => l.engine_family))) days.set(fam, (await policyFor(db, fam)).claim_days);
+  const policies = new Map<string, PolicyRow>();
+  for (const fam of new Set(lines.map((l) => l.engine_family))) policies.set(fam, judgedUnder ?? (await policyFor(db, fam)));
   const trail = lines.length === 1 ? await hourTrail(db, lines[0].machine_key, lines[0].opened_date) : null;
-  return lines.map((l) => toEvidence(l, measurements, faults, days.get(l.engine_family) ?? 30, today, trail));
+  return lines.map((l) => {
+    const p = policies.get(l.engine_family)!;
+    return toEvidence(l, measurements, faults, p.claim_days, today, trail, judging(p));
+  });
 }
 
 /** The cluster with this id in the caller's scan (same scope and query parameters as the Clusters page), or 404. */
@@ -98,7 +114,11 @@ export async function previewClaim(db: Db, scope: ShopScope, q: { repairLine?: s
     lines: d.lines,
     eligibilityCounts: eligibilityCounts(d.lines),
     deadline: d.closedDate ? filingDeadline(d.closedDate, policy.claim_days, today) : null,
-    amountClaimed: amountOf(d.lines),
+    // the covered lines only; the others are listed apart until the clerk includes one deliberately on the claim
+    ...(() => {
+      const split = splitClaimLines(d.lines, new Map());
+      return { amountClaimed: split.amountClaimed, split };
+    })(),
     cluster: d.cluster,
     existingClaims: existing,
     problems: d.problems,
@@ -133,8 +153,9 @@ export async function createClaim(db: Db, scope: ShopScope, actor: Actor, body: 
       engine_family: family,
       closed_date: d.closedDate,
       claim_days: policy.claim_days,
+      policy_version_id: policy.policy_version_id,
       deadline: deadline.deadline,
-      amount_claimed: amountOf(d.lines),
+      amount_claimed: splitClaimLines(d.lines, new Map()).amountClaimed,
       note: body.note?.trim() || null,
       cluster_id: d.cluster?.cluster.id ?? null,
       cluster_snapshot: d.cluster,
@@ -144,6 +165,10 @@ export async function createClaim(db: Db, scope: ShopScope, actor: Actor, body: 
     },
     d.lines.map((l) => ({ key: l.id, shopCode: l.shopCode })),
     actor,
+    (() => {
+      const split = splitClaimLines(d.lines, new Map());
+      return { amountClaimed: split.amountClaimed, linesApart: split.apart.length };
+    })(),
   );
 }
 
@@ -159,7 +184,7 @@ const toSend = (s: SendRow): ClaimSend => ({
   sentAt: iso(s.sent_at),
 });
 
-function toSummary(c: ClaimRow, lineCount: number, lastSend: ClaimSend | null, today: string): ClaimSummary {
+function toSummary(c: ClaimRow, lineCount: number, lastSend: ClaimSend | null, today: string, supersededBy: string | null = null): ClaimSummary {
   return {
     id: String(c.claim_id),
     claimNumber: c.claim_number,
@@ -169,27 +194,41 @@ function toSummary(c: ClaimRow, lineCount: number, lastSend: ClaimSend | null, t
     shopCode: c.shop_code,
     engineFamily: c.engine_family,
     closedDate: c.closed_date,
-    deadline: filingDeadline(c.closed_date, c.claim_days, today),
+    deadline: claimDeadline(c, today),
     lineCount,
     amountClaimed: num(c.amount_claimed),
     amountCredited: num(c.amount_credited),
     lastSend,
     createdAt: iso(c.created_at)!,
     createdBy: c.created_by_name,
+    revision: c.revision,
+    supersededBy,
+    amountPaid: num(c.amount_paid),
+    filing: c.filed_via ? { via: c.filed_via, reference: c.filed_reference, filedOn: c.filed_on, daysLate: c.days_late } : null,
+    bucket: bucketOf(c.status as ClaimStatus, supersededBy),
   };
 }
 
-/** Open claims nearest their deadline first; claims already with the maker after them, newest first. */
-export async function claimQueue(db: Db, scope: ShopScope): Promise<{ today: string; claims: ClaimSummary[] }> {
+/**
+ * The queue by urgency: claims to file (nearest deadline first), waiting for the maker (longest waiting first),
+ * rejected and open for a correction (newest first), then closed ones (newest first), with each bucket's count
+ * and the money at stake in it.
+ */
+export async function claimQueue(db: Db, scope: ShopScope): Promise<{ today: string; claims: ClaimSummary[]; buckets: ClaimBuckets }> {
   const today = todayIso();
   const rows = await listClaims(db, scope);
-  const sends = await claimSends(db, rows.map((r) => String(r.claim_id)));
+  const ids = rows.map((r) => String(r.claim_id));
+  const sends = await claimSends(db, ids);
+  const next = await successorsOf(db, ids);
   const last = new Map<string, ClaimSend>();
   for (const s of sends) last.set(String(s.claim_id), toSend(s));
-  const claims = rows.map((r) => toSummary(r, Number(r.line_count ?? 0), last.get(String(r.claim_id)) ?? null, today));
-  const open = claims.filter((c) => c.status === "draft").sort((a, b) => compareByDeadline(a.deadline, b.deadline));
-  const filed = claims.filter((c) => c.status !== "draft").sort((a, b) => b.createdAt.localeCompare(a.createdAt));
-  return { today, claims: [...open, ...filed] };
+  const claims = rows.map((r) => toSummary(r, Number(r.line_count ?? 0), last.get(String(r.claim_id)) ?? null, today, next.get(String(r.claim_id)) ?? null));
+  const newest = (a: ClaimSummary, b: ClaimSummary) => b.createdAt.localeCompare(a.createdAt);
+  const toFile = claims.filter((c) => c.bucket === "toFile").sort((a, b) => compareByDeadline(a.deadline, b.deadline));
+  const waiting = claims.filter((c) => c.bucket === "waiting").sort((a, b) => (a.filing?.filedOn ?? "").localeCompare(b.filing?.filedOn ?? "") || a.createdAt.localeCompare(b.createdAt));
+  const rejected = claims.filter((c) => c.bucket === "rejected").sort(newest);
+  const closed = claims.filter((c) => c.bucket === "closed").sort(newest);
+  return { today, claims: [...toFile, ...waiting, ...rejected, ...closed], buckets: bucketTotals(claims) };
 }
 
 /** The claim's row when it is in the caller's scope; 404 otherwise. */
@@ -211,14 +250,38 @@ export async function claimDetail(deps: DetailDeps, scope: ShopScope, id: string
   const today = todayIso();
   const c = await claimInScope(db, scope, id);
   const keys = await claimLineKeys(db, id);
-  // the claim's own scope was checked above; its lines are read group-wide so a campaign case stays whole
-  const lines = await evidenceFor(db, { kind: "all" }, keys, today);
+  // the claim's own scope was checked above; its lines are read group-wide so a campaign case stays whole,
+  // judged under the policy version the claim was made under
+  const judgedUnder = (await policyVersionById(db, String(c.policy_version_id))) ?? null;
+  const lines = await evidenceFor(db, { kind: "all" }, keys, today, judgedUnder);
   const sends = (await claimSends(db, [id])).map(toSend);
   const policy = await policyFor(db, c.engine_family);
   const audit = await claimAudit(db, id);
   const attachments = await claimAttachments(db, id);
+  const split = splitClaimLines(lines, await inclusionsOf(db, id));
+  const supersededBy = (await successorsOf(db, [id])).get(id) ?? null;
+  const versions = await claimVersions(db, id);
+  const summary = toSummary(c, keys.length, sends.at(-1) ?? null, today, supersededBy);
+  let submitCheck: ClaimDetail["submitCheck"] = null;
+  if (c.status === "draft") {
+    const mail = await mailState(db, id);
+    const daysOverdue = Math.max(0, -summary.deadline.daysLeft);
+    const check = checkSubmit({ deadline: summary.deadline.deadline, today, sentOn: mail.sentOn, pendingSend: mail.pending, filing: null, confirmLate: false, closedDate: c.closed_date });
+    submitCheck = { daysOverdue, sentOn: mail.sentOn, text: check.ok ? `The packet went by e-mail on ${mail.sentOn}, in time.` : check.message };
+  }
   return {
-    ...toSummary(c, keys.length, sends.at(-1) ?? null, today),
+    ...summary,
+    // a draft claims what its lines come to now; a filed claim what it asked for when it went out
+    amountClaimed: c.status === "draft" ? split.amountClaimed : summary.amountClaimed,
+    split,
+    correction: c.correction,
+    writtenOffReason: c.written_off_reason,
+    versions: versions.map((v) => ({ id: v.claim_id, revision: v.revision, status: v.status, amountClaimed: num(v.amount_claimed), reason: v.reason, correction: v.correction, createdAt: iso(v.created_at)! })),
+    submitCheck,
+    canResubmit: c.status === "rejected" && !supersededBy,
+    policy: judgedUnder
+      ? { engineFamily: judgedUnder.engine_family, version: judgedUnder.version, text: judgedUnderWords({ version: judgedUnder.version, engineFamily: judgedUnder.engine_family }) }
+      : { engineFamily: policy.engine_family, version: policy.version, text: judgedUnderWords({ version: policy.version, engineFamily: policy.engine_family }) },
     reason: c.reason,
     note: c.note,
     warrantyEmail: policy.warranty_email,
@@ -227,7 +290,14 @@ export async function claimDetail(deps: DetailDeps, scope: ShopScope, id: string
     lines,
     eligibilityCounts: eligibilityCounts(lines),
     cluster: (c.cluster_snapshot as ClusterSnapshot | null) ?? null,
-    audit: audit.map((a) => ({ id: String(a.audit_id), at: iso(a.at)!, actorName: a.actor_name, action: a.action, changes: (a.changes ?? {}) as Record<string, unknown> })),
+    audit: audit.map((a) => ({
+      id: String(a.audit_id),
+      at: iso(a.at)!,
+      actorName: a.actor_name,
+      action: a.action,
+      changes: (a.changes ?? {}) as Record<string, unknown>,
+      text: auditSentence(a.action, (a.changes ?? {}) as Record<string, unknown>),
+    })),
     attachments: attachments.map((a) => ({
       id: String(a.attachment_id),
       originalName: a.original_name,
@@ -248,6 +318,11 @@ export async function claimDetail(deps: DetailDeps, scope: ShopScope, id: string
 }
 
 /** Everything the packet needs, with the embeddable images' bytes read from object storage. */
+async function narrativeOf(db: Db, id: string) {
+  const n = await claimNarrative(db, id);
+  return { found: n.narrative_found ?? "", done: n.narrative_done ?? "", why: n.narrative_why ?? "" };
+}
+
 async function packetSnapshot(deps: { db: Db; storage?: Storage }, detail: ClaimDetail): Promise<ClaimSnapshotForPacket> {
   const rows = await claimAttachments(deps.db, detail.id);
   const attachments: PacketAttachment[] = [];
@@ -275,7 +350,12 @@ async function packetSnapshot(deps: { db: Db; storage?: Storage }, detail: Claim
     cluster: detail.cluster,
     attachments,
     temperatureUnit: detail.temperatureUnit,
+    narrative: await narrativeOf(deps.db, detail.id),
     cautions: detail.cautions,
+    split: detail.split,
+    revision: detail.revision,
+    correction: detail.correction,
+    policyText: detail.policy.text,
     generatedAt: new Date().toISOString(),
   };
 }

@@ -9,11 +9,15 @@ export interface CoverageTerms {
   hours: number;
 }
 
+/** The coverage a warranty policy version holds, per class. */
+export type PolicyCoverage = Record<CoverageClass, CoverageTerms>;
+
 /**
- * Default terms when the machine registry carries none (common practice, no source): base machine
- * 24 months / 2,000 h; engine 36 months / 3,000 h.
+ * The coverage of version 1 of every warranty policy (migrations/0063_version_warranty_policies.ts) and the
+ * fallback of a caller that reads no policy (common practice, no source): base machine 24 months / 2,000 h;
+ * engine 36 months / 3,000 h. Eligibility reads the current policy version instead.
  */
-export const DEFAULT_TERMS: Record<CoverageClass, CoverageTerms> = {
+export const DEFAULT_TERMS: PolicyCoverage = {
   base: { months: 24, hours: 2000 },
   engine: { months: 36, hours: 3000 },
 };
@@ -31,18 +35,34 @@ export function coverageClassFor(component: { system: string }): CoverageClass {
   return component.system === "Engine" ? "engine" : "base";
 }
 
-/** The machine's terms for a class, falling back to the defaults column by column. */
+/**
+ * The machine's terms for a class: the machine registry's terms take precedence, column by column, over the
+ * warranty policy's (the policy version the line is judged under; the version-1 coverage when none is given).
+ */
 export function termsFor(
   cls: CoverageClass,
   machine: { warrantyBaseMonths: number | null; warrantyBaseHours: number | null; warrantyEngineMonths: number | null; warrantyEngineHours: number | null },
+  policy: PolicyCoverage = DEFAULT_TERMS,
 ): CoverageTerms & { fromRegistry: boolean } {
   const months = cls === "engine" ? machine.warrantyEngineMonths : machine.warrantyBaseMonths;
   const hours = cls === "engine" ? machine.warrantyEngineHours : machine.warrantyBaseHours;
   return {
-    months: months ?? DEFAULT_TERMS[cls].months,
-    hours: hours ?? DEFAULT_TERMS[cls].hours,
+    months: months ?? policy[cls].months,
+    hours: hours ?? policy[cls].hours,
     fromRegistry: months !== null && hours !== null,
   };
+}
+
+/** Which warranty policy version judged a claim, in words: "judged under policy version 2 of K18-3G". */
+export function judgedUnderWords(p: { version: number; engineFamily: string }): string {
+  return `judged under policy version ${p.version} of ${p.engineFamily === "*" ? "the group default policy" : p.engineFamily}`;
+}
+
+/** Where a line's coverage terms come from, in words, for the claim page and the packet. */
+export function termsSourceWords(fromRegistry: boolean, p: { version: number; engineFamily: string } | null): string {
+  if (fromRegistry) return "Terms from the machine registry (they take precedence over the warranty policy).";
+  if (!p) return "Terms from the warranty policy.";
+  return `Terms from warranty policy version ${p.version} of ${p.engineFamily === "*" ? "the group default policy" : p.engineFamily} (the machine registry has none).`;
 }
 
 export interface EligibilityInput {

@@ -1,8 +1,9 @@
 /** A repair line as warranty evidence: its readings interpreted, its eligibility and filing deadline, and sums over lines. */
-import { classifyPlug, classifyRailVoltage, summariseCompression } from "../../../shared/measurement-interpretation.js";
+import { classifyPlug, classifyRailVoltage, compressionBands, spreadBands, summariseCompression, type Provenance } from "../../../shared/measurement-interpretation.js";
+import { generalSource, thresholdSourceWords } from "../../../shared/threshold-source.js";
 import type { EligibilityView, Interpretation, RepairLineEvidence } from "../../../shared/schemas/claims.js";
-import type { FaultCodeRow, HourReadingRow, MeasurementRow, RepairLineRow } from "../../db/queries/claims.js";
-import { coverageClassFor, eligibility, termsFor } from "./eligibility.js";
+import type { FaultCodeRow, HourReadingRow, MeasurementRow, PolicyRow, RepairLineRow } from "../../db/queries/claims.js";
+import { coverageClassFor, DEFAULT_TERMS, eligibility, termsFor, termsSourceWords, type PolicyCoverage } from "./eligibility.js";
 import { filingDeadline } from "./deadline.js";
 
 const num = (v: string | number | null | undefined): number | null => (v === null || v === undefined || v === "" ? null : Number(v));
@@ -11,40 +12,81 @@ const num = (v: string | number | null | undefined): number | null => (v === nul
 const hasPreheatCode = (faults: readonly FaultCodeRow[]) => faults.some((f) => f.fmi === 4 || f.fmi === 5);
 
 /**
+ * Where a band's threshold comes from, in words for the maker. Every band is Ironledger's own (a rule of thumb
+ * or a recalled value, by its provenance tag): no store of the maker's values entered by a shop exists yet, so
+ * each reads as general service practice (shared/threshold-source.ts).
+ */
+const sourceOf = (provenance: Provenance) => thresholdSourceWords(generalSource(provenance));
+const bandSource = (label: string) => sourceOf(compressionBands.find((b) => b.label === label)?.provenance ?? "common practice, no source");
+
+/**
  * The readings of one repair line, interpreted: compression per cylinder (mean of attempts, average,
- * lowest, spread, pattern), each heater plug's resistance against its siblings, rail and battery voltage.
+ * lowest, spread, pattern), each heater plug's resistance against its siblings, rail and battery voltage;
+ * each verdict with where its threshold comes from, in words.
  */
 export function interpretMeasurements(ms: readonly MeasurementRow[], faults: readonly FaultCodeRow[]): Interpretation {
   const byPos = new Map<number, number[]>();
   for (const m of ms.filter((x) => x.kind === "compression" && x.value !== null)) {
     byPos.set(m.position, [...(byPos.get(m.position) ?? []), Number(m.value)]);
   }
-  const compression = summariseCompression([...byPos].map(([position, attempts]) => ({ position, attempts })));
+  const summary = summariseCompression([...byPos].map(([position, attempts]) => ({ position, attempts })));
+  const compression = summary && {
+    ...summary,
+    cylinders: summary.cylinders.map((c) => ({ ...c, source: bandSource(c.band) })),
+    lowest: { ...summary.lowest, source: bandSource(summary.lowest.band) },
+    spreadSource: sourceOf(spreadBands.find((b) => b.label === summary.spreadBand)?.provenance ?? "common practice, no source"),
+    pattern: { ...summary.pattern, source: sourceOf(summary.pattern.provenance) },
+  };
   const plugRows = ms.filter((x) => x.kind === "plug_resistance");
   const plugOhms = plugRows.map((p) => (p.over_range ? null : num(p.value)));
   const plugs = plugRows.map((p, i) => {
     const c = classifyPlug(plugOhms[i], plugOhms.filter((_, j) => j !== i));
-    return { position: p.position, ohms: plugOhms[i], raw: `${p.raw_value}${p.raw_unit ? ` ${p.raw_unit}` : ""}`, ...c };
+    return { position: p.position, ohms: plugOhms[i], raw: `${p.raw_value}${p.raw_unit ? ` ${p.raw_unit}` : ""}`, ...c, source: sourceOf(c.provenance) };
   });
   const rail = ms
     .filter((x) => x.kind === "rail_voltage" && x.value !== null)
-    .map((r) => ({ volts: Number(r.value), raw: `${r.raw_value}${r.raw_unit ? ` ${r.raw_unit}` : ""}`, ...classifyRailVoltage(Number(r.value), hasPreheatCode(faults)) }));
+    .map((r) => {
+      const c = classifyRailVoltage(Number(r.value), hasPreheatCode(faults));
+      return { volts: Number(r.value), raw: `${r.raw_value}${r.raw_unit ? ` ${r.raw_unit}` : ""}`, ...c, source: sourceOf(c.provenance) };
+    });
   const battery = ms
     .filter((x) => x.kind === "battery_voltage" && x.value !== null)
     .map((r) => ({ volts: Number(r.value), raw: `${r.raw_value}${r.raw_unit ? ` ${r.raw_unit}` : ""}` }));
   return { compression, plugs, rail, battery };
 }
 
-export function lineEligibility(l: RepairLineRow): EligibilityView {
+/** The warranty policy version a line is judged under: its number, family and coverage per class. */
+export interface JudgingPolicy {
+  version: number;
+  engineFamily: string;
+  coverage: PolicyCoverage;
+}
+
+/**
+ * A line's eligibility under a policy version (registry terms on the machine take precedence); without one,
+ * under the version-1 coverage every policy started from.
+ */
+/** The cover terms and name of a policy version, as eligibility judges a line under it. */
+export const judging = (p: PolicyRow) => ({
+  version: p.version,
+  engineFamily: p.engine_family,
+  coverage: { base: { months: p.base_months, hours: p.base_hours }, engine: { months: p.engine_months, hours: p.engine_hours } },
+});
+
+export function lineEligibility(l: RepairLineRow, policy: JudgingPolicy | null = null): EligibilityView {
   const cls = coverageClassFor(l);
-  const t = termsFor(cls, {
-    warrantyBaseMonths: l.warranty_base_months,
-    warrantyBaseHours: l.warranty_base_hours,
-    warrantyEngineMonths: l.warranty_engine_months,
-    warrantyEngineHours: l.warranty_engine_hours,
-  });
+  const t = termsFor(
+    cls,
+    {
+      warrantyBaseMonths: l.warranty_base_months,
+      warrantyBaseHours: l.warranty_base_hours,
+      warrantyEngineMonths: l.warranty_engine_months,
+      warrantyEngineHours: l.warranty_engine_hours,
+    },
+    policy?.coverage ?? DEFAULT_TERMS,
+  );
   const e = eligibility({ coverageClass: cls, terms: t, deliveryDate: l.delivery_date, failureDate: l.opened_date, hoursAtFailure: num(l.hour_meter) });
-  return { ...e, termsFromRegistry: t.fromRegistry };
+  return { ...e, termsFromRegistry: t.fromRegistry, termsSource: termsSourceWords(t.fromRegistry, policy) };
 }
 
 /** A repair line as warranty evidence: facts, readings with their interpretation, eligibility, deadline. */
@@ -55,6 +97,7 @@ export function toEvidence(
   claimDays: number,
   today: string,
   trail: readonly HourReadingRow[] | null = null,
+  policy: JudgingPolicy | null = null,
 ): RepairLineEvidence {
   const own = ms.filter((m) => m.repair_line_key === l.repair_line_key);
   const roReading = trail?.find((r) => r.repair_line_key === l.repair_line_key);
@@ -103,7 +146,7 @@ export function toEvidence(
       rawUnit: m.raw_unit,
     })),
     interpretation: interpretMeasurements(own, codes),
-    eligibility: lineEligibility(l),
+    eligibility: lineEligibility(l, policy),
     deadline: l.closed_date ? filingDeadline(l.closed_date, claimDays, today) : null,
     hourTrail: trail
       ? trail.map((r) => ({

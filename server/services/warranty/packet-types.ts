@@ -1,4 +1,5 @@
 /** The data the claim packet is rendered from. */
+import type { ClaimLineSplit } from "../../../shared/schemas/claim-lifecycle.js";
 import type { ClaimKind, ClaimStatus, ClusterSnapshot, RepairLineEvidence } from "../../../shared/schemas/claims.js";
 
 export interface PacketAttachment {
@@ -33,5 +34,14 @@ export interface ClaimSnapshotForPacket {
   /** the unit temperatures are stated in (the claim's) */
   temperatureUnit: "C" | "F";
   cautions: readonly string[];
+  /** the lines in the amount claimed (covered, or included deliberately with a reason) and those listed apart */
+  split?: ClaimLineSplit;
+  /** the version of the claim, and what was corrected in it after a rejection */
+  revision?: number;
+  correction?: string | null;
+  /** "judged under policy version N of <family>" (the warranty policy version the claim was judged under) */
+  policyText?: string;
+  /** the claim's narrative (empty strings where not written) */
+  narrative: { found: string; done: string; why: string };
   generatedAt: string;
 }

@@ -201,7 +201,7 @@ function eligibilitySection(doc: Doc, l: RepairLineEvidence) {
   doc.font("regular").fontSize(9).fillColor(INK);
   doc.text(pdfText(`Months: ${e.monthsCheck.text}`), { width: pageWidth(doc) });
   doc.text(pdfText(`Hours: ${e.hoursCheck.text}`), { width: pageWidth(doc) });
-  doc.fillColor(MUTED).fontSize(8).text(e.termsFromRegistry ? "Terms from the machine registry." : "Terms from the common-practice defaults (no terms in the machine registry).");
+  doc.fillColor(MUTED).fontSize(8).text(pdfText(e.termsSource), { width: pageWidth(doc) });
   if (l.hoursAtRisk) doc.fillColor(ALERT).fontSize(9).text(pdfText(`At risk: ${l.hoursAtRisk}`), { width: pageWidth(doc) });
   if (l.deadline) doc.fillColor(INK).fontSize(9).text(pdfText(`Filing: ${l.deadline.text}`));
   doc.fillColor(INK);
@@ -223,19 +223,20 @@ function measurementSection(doc: Doc, l: RepairLineEvidence) {
     table(
       doc,
       [
-        { label: "Cylinder", width: 55 },
-        { label: "Attempts (psi)", width: 150 },
-        { label: "Mean (psi)", width: 70, align: "right" },
-        { label: "Band", width: 200 },
+        { label: "Cylinder", width: 50 },
+        { label: "Attempts (psi)", width: 120 },
+        { label: "Mean (psi)", width: 60, align: "right" },
+        { label: "Band", width: 170 },
+        { label: "Threshold from", width: 110 },
       ],
-      c.cylinders.map((y) => [String(y.position), y.attempts.map((a) => fmt(a, 0)).join(" / "), fmt(y.mean, 0), y.band]),
+      c.cylinders.map((y) => [String(y.position), y.attempts.map((a) => fmt(a, 0)).join(" / "), fmt(y.mean, 0), y.band, y.source]),
       { highlight: (i) => c.cylinders[i].verdict === "fault" },
     );
     facts(doc, [
       ["Average", `${fmt(c.average, 0)} psi`],
-      ["Lowest cylinder (the engine is rated by it)", `cylinder ${c.lowest.position}: ${fmt(c.lowest.mean, 0)} psi – ${c.lowest.band}`],
-      ["Spread (max − min) ÷ max", `(${fmt(c.highest.mean, 0)} − ${fmt(c.lowest.mean, 0)}) ÷ ${fmt(c.highest.mean, 0)} = ${fmt(c.spread * 100, 1)} % – ${c.spreadBand}`],
-      ["Pattern", c.pattern.meaning],
+      ["Lowest cylinder (the engine is rated by it)", `cylinder ${c.lowest.position}: ${fmt(c.lowest.mean, 0)} psi – ${c.lowest.band} (threshold from ${c.lowest.source})`],
+      ["Spread (max − min) ÷ max", `(${fmt(c.highest.mean, 0)} − ${fmt(c.lowest.mean, 0)}) ÷ ${fmt(c.highest.mean, 0)} = ${fmt(c.spread * 100, 1)} % – ${c.spreadBand} (threshold from ${c.spreadSource})`],
+      ["Pattern", `${c.pattern.meaning} (reading from ${c.pattern.source})`],
     ]);
   }
   if (m.plugs.length) {
@@ -243,18 +244,23 @@ function measurementSection(doc: Doc, l: RepairLineEvidence) {
     table(
       doc,
       [
-        { label: "Plug", width: 50 },
-        { label: "As recorded", width: 90 },
-        { label: "Ohm", width: 70, align: "right" },
-        { label: "Verdict", width: 230 },
+        { label: "Plug", width: 45 },
+        { label: "As recorded", width: 80 },
+        { label: "Ohm", width: 60, align: "right" },
+        { label: "Verdict", width: 200 },
+        { label: "Threshold from", width: 125 },
       ],
-      m.plugs.map((p) => [String(p.position), p.raw, p.ohms === null ? "–" : fmt(p.ohms, 2), p.label]),
+      m.plugs.map((p) => [String(p.position), p.raw, p.ohms === null ? "–" : fmt(p.ohms, 2), p.label, p.source]),
       { highlight: (i) => m.plugs[i].verdict !== "healthy" },
     );
   }
   if (m.rail.length) {
     subheading(doc, "Preheat rail voltage (key on, while energised)");
-    table(doc, [{ label: "As recorded", width: 100 }, { label: "Volts", width: 70, align: "right" }, { label: "Verdict", width: 270 }], m.rail.map((r) => [r.raw, fmt(r.volts, 2), r.label]));
+    table(
+      doc,
+      [{ label: "As recorded", width: 90 }, { label: "Volts", width: 60, align: "right" }, { label: "Verdict", width: 230 }, { label: "Threshold from", width: 125 }],
+      m.rail.map((r) => [r.raw, fmt(r.volts, 2), r.label, r.source]),
+    );
   }
   if (m.battery.length) {
     subheading(doc, "Battery voltage");
@@ -337,6 +343,41 @@ function clusterSection(doc: Doc, s: ClaimSnapshotForPacket) {
         ];
       }),
     );
+    const sources = [
+      ...new Set(withReadings.flatMap((l) => [...(l.interpretation.compression ? [l.interpretation.compression.lowest.source, l.interpretation.compression.spreadSource] : []), ...l.interpretation.plugs.map((p) => p.source)])),
+    ];
+    doc.font("regular").fontSize(8).fillColor(MUTED).text(pdfText(`Thresholds from ${sources.join("; ")}.`), MARGIN, doc.y, { width: pageWidth(doc) });
+    doc.fillColor(INK);
+  }
+}
+
+/** Lines claimed although not covered (each with the clerk's reason), and the lines the claim leaves apart. */
+function inclusionSection(doc: Doc, s: ClaimSnapshotForPacket) {
+  const split = s.split;
+  if (!split) return;
+  const byId = new Map(s.lines.map((l) => [l.id, l]));
+  const ro = (id: string) => {
+    const l = byId.get(id);
+    return l ? `${l.roNumber}/${l.lineNo} (${l.machine.serial})` : id;
+  };
+  const deliberate = split.included.filter((x) => x.basis === "included");
+  if (deliberate.length) {
+    heading(doc, `Claimed although not covered (${deliberate.length})`);
+    table(
+      doc,
+      [{ label: "RO / line", width: 110 }, { label: "Why not covered", width: 170 }, { label: "Reason for claiming it", width: 160 }, { label: "Parts + labour", width: 70, align: "right" }],
+      deliberate.map((x) => [ro(x.lineId), x.why ?? "", `${x.reason ?? ""} (${x.includedBy ?? ""})`, money(x.amount)]),
+    );
+  }
+  if (split.apart.length) {
+    heading(doc, `Not claimed: listed apart (${split.apart.length})`);
+    doc.fontSize(9).text(`These lines are part of the case as evidence; their parts and labour (${money(split.amountApart)}) are not in the amount claimed.`);
+    doc.moveDown(0.3);
+    table(
+      doc,
+      [{ label: "RO / line", width: 120 }, { label: "Why", width: 310 }, { label: "Parts + labour", width: 80, align: "right" }],
+      split.apart.map((x) => [ro(x.lineId), x.why, money(x.amount)]),
+    );
   }
 }
 
@@ -373,6 +414,14 @@ function attachmentSection(doc: Doc, attachments: readonly PacketAttachment[]) {
     doc.fontSize(8).fillColor(MUTED).text("Files other than PNG and JPEG images are not shown in this packet; they are kept with the claim.");
     doc.fillColor(INK);
   }
+}
+
+/** The story the maker reads first: what was found, what was done, why it is the maker's (parts left empty are left out). */
+function narrativeSection(doc: Doc, n: ClaimSnapshotForPacket["narrative"]) {
+  const parts: [string, string][] = [["What was found", n.found], ["What was done", n.done], ["Why it is the maker's", n.why]];
+  if (!parts.some(([, t]) => t.trim())) return;
+  heading(doc, "The claim in words");
+  for (const [label, text] of parts) if (text.trim()) paragraph(doc, label, text);
 }
 
 function cautionSection(doc: Doc, cautions: readonly string[]) {
@@ -417,9 +466,12 @@ export async function renderPacket(s: ClaimSnapshotForPacket): Promise<Buffer> {
     ["Amount claimed (parts + labour)", money(s.amountClaimed)],
     ["Prepared by", `${s.createdBy} on ${s.createdAt.slice(0, 10)}`],
     ["Sent to", s.warrantyEmail],
+    ...(s.policyText ? ([["Warranty policy", s.policyText.charAt(0).toUpperCase() + s.policyText.slice(1)]] as [string, string][]) : []),
   ]);
+  if (s.revision && s.revision > 1) paragraph(doc, `Version ${s.revision}: what was corrected`, s.correction ?? "");
   if (s.reason) paragraph(doc, "Maker's reason", s.reason);
   if (s.note) paragraph(doc, "Note", s.note);
+  narrativeSection(doc, s.narrative);
 
   if (s.kind === "repair" && s.lines[0]) {
     const l = s.lines[0];
@@ -430,6 +482,7 @@ export async function renderPacket(s: ClaimSnapshotForPacket): Promise<Buffer> {
   } else {
     clusterSection(doc, s);
   }
+  inclusionSection(doc, s);
   attachmentSection(doc, s.attachments);
   cautionSection(doc, s.cautions);
 

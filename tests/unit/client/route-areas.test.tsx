@@ -96,8 +96,11 @@ describe("route area error boundaries", { timeout: 20_000 }, () => {
 
 describe("route loaders", { timeout: 20_000 }, () => {
   it("have the claim list in the cache before the page renders, so the page never shows its skeleton", async () => {
-    answers[apiPaths.claims()] = { status: 200, body: { today: "2025-06-02", claims: [] }, delayMs: 300 };
-    answers[apiPaths.claimCandidates()] = { status: 200, body: { candidates: [] } };
+    const none = { count: 0, amount: 0 };
+    answers[apiPaths.claims()] = { status: 200, body: { today: "2025-06-02", claims: [], buckets: { toFile: none, waiting: none, rejected: none, closed: none } }, delayMs: 300 };
+    answers[apiPaths.claimCandidates("page=1&pageSize=25&sort=deadline&dir=asc")] = { status: 200, body: { total: 0, page: 1, pageSize: 25, rows: [], elsewhere: [] } };
+    const zero = { key: "all", claims: 0, claimed: 0, paid: 0, writtenOff: 0, open: 0 };
+    answers[apiPaths.claimMoney()] = { status: 200, body: { basis: "", byMonth: [], byEngineFamily: [], total: zero } };
     visit("/claims");
     await screen.findByRole("heading", { name: "Warranty claims", level: 1 }, { timeout: 10_000, interval: 20 });
     expect(screen.queryByRole("status", { name: "Loading claims" })).toBeNull();

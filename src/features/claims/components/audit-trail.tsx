@@ -13,10 +13,10 @@ export function AuditTrail({ audit }: { audit: ClaimDetail["audit"] }) {
   return (
     <ol className="space-y-1 text-sm" aria-label="Audit trail">
       {audit.map((a) => (
-        <li key={a.id} className="grid grid-cols-[10rem_8rem_1fr] gap-2 border-b border-line/50 py-1">
+        <li key={a.id} className="grid grid-cols-[auto_minmax(0,1fr)] gap-x-2 border-b border-line/50 py-1 sm:grid-cols-[10rem_8rem_minmax(0,1fr)]">
           <time dateTime={a.at} className="text-muted tabular-nums">{new Date(a.at).toLocaleString()}</time>
           <span>{a.actorName}</span>
-          <span><b>{a.action}</b> <span className="text-muted">{describe(a.changes)}</span></span>
+          <span className="col-span-2 break-words sm:col-span-1"><b>{a.action}</b> {a.text ? <span>{a.text}</span> : <span className="text-muted">{describe(a.changes)}</span>}</span>
         </li>
       ))}
     </ol>

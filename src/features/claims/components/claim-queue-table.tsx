@@ -93,7 +93,7 @@ export function ClaimQueueTable({ onPick }: { onPick: (id: string) => void }) {
     },
   });
   const select = (label: string, value: string, onChange: (v: string) => void, options: { value: string; label: string }[]) => (
-    <label className="text-xs font-semibold text-muted">
+    <label className="min-w-0 text-xs font-semibold text-muted">
       {label}
       <select value={value} onChange={(e) => onChange(e.target.value)} className="mt-0.5 block w-full rounded border border-line bg-white px-1 py-1 text-sm font-normal text-ink">
         {options.map((o) => <option key={o.value} value={o.value}>{o.label}</option>)}
@@ -103,7 +103,7 @@ export function ClaimQueueTable({ onPick }: { onPick: (id: string) => void }) {
   const d = list.data;
   const pages = d ? Math.max(1, Math.ceil(d.total / d.pageSize)) : 1;
   return (
-    <div className="space-y-3">
+    <div className="min-w-0 space-y-3">
       <form
         role="search"
         aria-label="Find a repair line to claim"

@@ -1,4 +1,4 @@
-import type { ClaimSummary } from "@shared/schemas/claims";
+import { claimStatusLabels, type ClaimSummary } from "@shared/schemas/claims";
 
 /** Days left to the filing deadline, in words and colour (overdue in the alert colour). */
 export function DeadlineBadge({ deadline }: { deadline: ClaimSummary["deadline"] }) {
@@ -13,10 +13,12 @@ export function StatusPill({ status }: { status: ClaimSummary["status"] }) {
     draft: "bg-line/60 text-ink",
     submitted: "bg-accent-soft text-accent",
     accepted: "bg-ok/10 text-ok",
+    partly_accepted: "bg-ochre/15 text-ink",
     rejected: "bg-alert/10 text-alert",
     credited: "bg-ok text-white",
+    written_off: "bg-line text-muted",
   };
-  return <span className={`inline-block rounded px-2 py-0.5 text-xs font-semibold capitalize ${tone[status]}`}>{status}</span>;
+  return <span className={`inline-block rounded px-2 py-0.5 text-xs font-semibold ${tone[status]}`}>{claimStatusLabels[status]}</span>;
 }
 
 export const money = (n: number | null) => (n === null ? "–" : n.toLocaleString("en-US", { minimumFractionDigits: 2, maximumFractionDigits: 2 }));

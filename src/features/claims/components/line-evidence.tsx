@@ -11,7 +11,7 @@ export function EligibilityPanel({ line }: { line: RepairLineEvidence }) {
       <p><span className="text-muted">Months:</span> {e.monthsCheck.text}</p>
       <p><span className="text-muted">Hours:</span> {e.hoursCheck.text}</p>
       {line.hoursAtRisk && <p role="note" className="font-semibold text-alert">At risk: {line.hoursAtRisk}</p>}
-      <p className="text-xs text-muted">{e.termsFromRegistry ? "Terms from the machine registry." : "Terms from the common-practice defaults: the machine registry has none."}</p>
+      <p className="text-xs text-muted">{e.termsSource}</p>
     </div>
   );
 }
@@ -99,7 +99,7 @@ export function MeasurementPanel({ line }: { line: RepairLineEvidence }) {
         <div>
           <h3 className="font-semibold">Compression per cylinder (psi, mean of the attempts)</h3>
           <table className="mt-1 w-full text-left">
-            <thead className="border-b border-line text-xs text-muted"><tr><th className="py-1">Cylinder</th><th>Attempts</th><th className="text-right">Mean</th><th className="pl-4">Band</th></tr></thead>
+            <thead className="border-b border-line text-xs text-muted"><tr><th className="py-1">Cylinder</th><th>Attempts</th><th className="text-right">Mean</th><th className="pl-4">Band</th><th className="pl-4">Threshold from</th></tr></thead>
             <tbody>
               {c.cylinders.map((y) => (
                 <tr key={y.position} className="border-b border-line/50">
@@ -107,13 +107,14 @@ export function MeasurementPanel({ line }: { line: RepairLineEvidence }) {
                   <td className="tabular-nums">{y.attempts.map((a) => a.toFixed(0)).join(" / ")}</td>
                   <td className="text-right tabular-nums">{y.mean.toFixed(0)}</td>
                   <td className={`pl-4 ${verdictTone(y.verdict)}`}>{y.band}</td>
+                  <td className="pl-4 text-xs text-muted">{y.source}</td>
                 </tr>
               ))}
             </tbody>
           </table>
           <p className="mt-2">
             Average <b>{c.average.toFixed(0)} psi</b>; lowest cylinder {c.lowest.position} at <b className={verdictTone(c.lowest.verdict)}>{c.lowest.mean.toFixed(0)} psi</b> (the engine is rated by it);
-            spread ({c.highest.mean.toFixed(0)} − {c.lowest.mean.toFixed(0)}) ÷ {c.highest.mean.toFixed(0)} = <b className={verdictTone(c.spreadVerdict)}>{(c.spread * 100).toFixed(1)} %</b> ({c.spreadBand}); {c.pattern.meaning}.
+            spread ({c.highest.mean.toFixed(0)} − {c.lowest.mean.toFixed(0)}) ÷ {c.highest.mean.toFixed(0)} = <b className={verdictTone(c.spreadVerdict)}>{(c.spread * 100).toFixed(1)} %</b> ({c.spreadBand}; threshold from {c.spreadSource}); {c.pattern.meaning} ({c.pattern.source}).
           </p>
         </div>
       )}
@@ -122,7 +123,7 @@ export function MeasurementPanel({ line }: { line: RepairLineEvidence }) {
           <h3 className="font-semibold">Heater-plug resistance (cold, disconnected)</h3>
           <ul className="mt-1 space-y-0.5">
             {m.plugs.map((p) => (
-              <li key={p.position}>Plug {p.position}: {p.raw} → <span className={verdictTone(p.verdict)}>{p.label}</span> <span className="text-xs text-muted">({p.provenance})</span></li>
+              <li key={p.position}>Plug {p.position}: {p.raw} → <span className={verdictTone(p.verdict)}>{p.label}</span> <span className="text-xs text-muted">(threshold from {p.source})</span></li>
             ))}
           </ul>
         </div>
@@ -130,7 +131,7 @@ export function MeasurementPanel({ line }: { line: RepairLineEvidence }) {
       {m.rail.length > 0 && (
         <div>
           <h3 className="font-semibold">Preheat rail voltage</h3>
-          {m.rail.map((r, i) => <p key={i}>{r.raw} → <span className={verdictTone(r.verdict)}>{r.label}</span> <span className="text-xs text-muted">({r.provenance})</span></p>)}
+          {m.rail.map((r, i) => <p key={i}>{r.raw} → <span className={verdictTone(r.verdict)}>{r.label}</span> <span className="text-xs text-muted">(threshold from {r.source})</span></p>)}
         </div>
       )}
       {m.battery.length > 0 && <p>Battery: {m.battery.map((b) => `${b.volts.toFixed(2)} V`).join(", ")}</p>}
