@@ -28,8 +28,14 @@ export function PlotFigure({ options, label }: { options: Plot.PlotOptions; labe
       ...(width && width > 200 ? { width } : {}),
       ...options,
     });
+    // one text alternative for the whole chart: Plot labels its inner groups ("bar", "dot"), which ARIA does not
+    // allow on an element without a role and which a screen reader cannot use anyway
+    for (const el of chart.querySelectorAll("[aria-label], [aria-description]")) {
+      el.removeAttribute("aria-label");
+      el.removeAttribute("aria-description");
+    }
     chart.setAttribute("role", "img");
-    chart.setAttribute("aria-label", label);
+    chart.setAttribute("aria-label", `${label}. The figures are in the chart's table view (the Table button beside its title).`);
     node.replaceChildren(chart);
     return () => chart.remove();
   }, [options, label, width]);

@@ -43,7 +43,7 @@ export function Component() {
           </p>
         )}
       </div>
-      <div className="grid gap-4 lg:grid-cols-3">
+      <div className="grid grid-cols-[minmax(0,1fr)] gap-4 lg:grid-cols-3">
         <Card title="Filing">
           <div className="space-y-1 text-sm">
             <p>{c.deadline.text}</p>

@@ -72,7 +72,7 @@ export function Component() {
             </div>
             <Summary d={d} />
             {readsFindings && <FindingWorkPanel findingKey={findingKey(d.cluster.dimensions)} />}
-            <div className="grid gap-4 lg:grid-cols-2">
+            <div className="grid grid-cols-[minmax(0,1fr)] gap-4 lg:grid-cols-2">
               <div className="lg:col-span-2">
                 <ChartCard title="Failures by month" subtitle="When the cluster's repair orders opened" options={clusterTimelineChart(d, palette)} rows={d.timeline} columns={[{ key: "month", label: "Month" }, { key: "failures", label: "Failures" }]} filename={`cluster-${d.cluster.id}-months.csv`} />
               </div>

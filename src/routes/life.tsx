@@ -186,7 +186,7 @@ export function Component() {
           />
         )}
       </QueryView>
-      <div className="grid gap-4 lg:grid-cols-2">
+      <div className="grid grid-cols-[minmax(0,1fr)] gap-4 lg:grid-cols-2">
         <QueryView query={km} label="the Kaplan–Meier curve" isEmpty={(d) => d.groups.every((g) => g.units === 0)} emptyText={`No ${compName.toLowerCase()} units match these filters.`}>
           {(d) => (
             <ChartCard

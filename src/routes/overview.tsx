@@ -200,7 +200,7 @@ export function Component() {
       <h1 className="text-2xl font-bold">Overview</h1>
       <QueryView query={q} label="the overview" lines={8}>
         {(o) => (
-          <div className="grid gap-4 lg:grid-cols-2">
+          <div className="grid grid-cols-[minmax(0,1fr)] gap-4 lg:grid-cols-2">
             <div className="lg:col-span-2 empty:hidden"><AsOf o={o} /></div>
             <Card title="Failure rates against last year"><Headlines h={o.headlines} /></Card>
             {o.findings ? (

@@ -124,7 +124,7 @@ export function Component() {
           )}
         </div>
       </Card>
-      <div className="grid gap-4 lg:grid-cols-2">
+      <div className="grid grid-cols-[minmax(0,1fr)] gap-4 lg:grid-cols-2">
         <QueryView query={hours} label="hour-band rates" isEmpty={(d) => d.rows.every((r) => r.failures === 0)} emptyText={noFailures}>
           {(d) => (
             <ChartCard

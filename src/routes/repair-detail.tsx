@@ -41,7 +41,7 @@ function Detail({ d }: { d: RepairDetail }) {
           )}
         </div>
       </div>
-      <div className="grid gap-4 lg:grid-cols-3">
+      <div className="grid grid-cols-[minmax(0,1fr)] gap-4 lg:grid-cols-3">
         <Card title="Complaint, cause, correction">
           <dl className="space-y-2 text-sm">
             <div><dt className="text-xs uppercase text-muted">Complaint</dt><dd>{v(l.complaint)}</dd></div>

@@ -35,7 +35,7 @@ describe("the warranty clerk's week in Chromium", () => {
     const queue = page.getByRole("table", { name: "Unclaimed repair lines in warranty" });
     await queue.waitFor();
     await page.getByLabel("Component").selectOption({ label: "Heater-plug set" });
-    await expect.poll(async () => (await queue.locator("tbody tr td:nth-child(6)").allTextContents()).every((t) => t === "Heater-plug set")).toBe(true);
+    await expect.poll(async () => (await queue.locator("tbody tr td:nth-child(6)").allTextContents()).every((t) => t === "Heater-plug set"), { timeout: 30_000 }).toBe(true);
     serial = ((await queue.locator("tbody tr").first().locator("td").nth(3).textContent()) ?? "").trim().split(/\s+/)[0];
     expect(serial).not.toBe("");
     await page.getByLabel("Component").selectOption({ label: "Any" });
@@ -72,7 +72,7 @@ describe("the warranty clerk's week in Chromium", () => {
     await page.getByRole("button", { name: "Preview wrong-machine.png" }).click();
     const dialog = page.getByRole("dialog", { name: "Preview of wrong-machine.png" });
     await dialog.waitFor();
-    await expect.poll(() => dialog.getByRole("img").evaluate((img: HTMLImageElement) => img.complete && img.naturalWidth)).toBe(120);
+    await expect.poll(() => dialog.getByRole("img").evaluate((img: HTMLImageElement) => img.complete && img.naturalWidth), { timeout: 30_000 }).toBe(120);
     await photograph(env.browser, "clerk-02-photo-preview");
     await dialog.getByRole("button", { name: "Close" }).click();
     page.once("dialog", (d) => void d.accept());
@@ -112,7 +112,7 @@ describe("the warranty clerk's week in Chromium", () => {
     await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Claims" }).click();
     const row = page.getByRole("table", { name: "Money by month" }).getByRole("row").filter({ hasText: month });
     await row.waitFor();
-    await expect.poll(async () => number(await row.locator("td").nth(3).textContent())).toBeCloseTo(paidBefore + 100, 2);
+    await expect.poll(async () => number(await row.locator("td").nth(3).textContent()), { timeout: 30_000 }).toBeCloseTo(paidBefore + 100, 2);
     await photograph(env.browser, "clerk-04-claims-money");
   });
 

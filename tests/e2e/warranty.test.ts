@@ -57,7 +57,7 @@ describe("a campaign case from the planted cluster in Chromium", () => {
     await thumb.waitFor();
     // thumbnails load lazily: bring it on screen as the clerk would
     await thumb.scrollIntoViewIfNeeded();
-    await expect.poll(() => thumb.evaluate((img: HTMLImageElement) => img.complete && img.naturalWidth)).toBe(160);
+    await expect.poll(() => thumb.evaluate((img: HTMLImageElement) => img.complete && img.naturalWidth), { timeout: 30_000 }).toBe(160);
     await page.getByRole("list", { name: "Audit trail" }).getByText("attachment added").waitFor();
     await env.browser.screenshot("warranty-campaign-detail");
   });

@@ -41,7 +41,7 @@ export function ClaimMoneySection() {
   return (
     <div className="space-y-4">
       <p className="text-xs text-muted">{m.basis}</p>
-      <div className="grid gap-4 lg:grid-cols-2">
+      <div className="grid grid-cols-[minmax(0,1fr)] gap-4 lg:grid-cols-2">
         <MoneyTable rows={m.byMonth} total={m.total} keyLabel="Month filed" label="Money by month" />
         <MoneyTable rows={m.byEngineFamily} total={m.total} keyLabel="Engine family" label="Money by engine family" />
       </div>

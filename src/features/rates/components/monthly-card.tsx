@@ -14,7 +14,7 @@ const pct = (v: unknown) => (typeof v === "number" ? `${Math.floor(v * 100)} %` 
 export function MonthlyCard({ d }: { d: MonthlyRates }) {
   const [view, setView] = useState<"expected" | "plain">("expected");
   const button = (id: "expected" | "plain", label: string) => (
-    <button type="button" aria-pressed={view === id} onClick={() => setView(id)} className={`rounded border px-2 py-0.5 text-xs ${view === id ? "border-accent bg-accent-soft font-semibold" : "border-line hover:bg-paper"}`}>
+    <button type="button" aria-pressed={view === id} onClick={() => setView(id)} className={`rounded border px-2 py-0.5 text-xs text-ink ${view === id ? "border-accent bg-accent-soft font-semibold" : "border-line bg-white hover:bg-paper"}`}>
       {label}
     </button>
   );

@@ -163,7 +163,7 @@ export function ProfileForm({ detail, readOnly, onSaved }: Props) {
       <fieldset className="space-y-3" disabled={readOnly}>
         <legend className="text-lg font-semibold">Code tables</legend>
         <p className="text-sm text-muted">The shop's own codes and the Ironledger code each means. A code not in a table is read as it is written.</p>
-        <div className="grid gap-4 lg:grid-cols-2">
+        <div className="grid grid-cols-[minmax(0,1fr)] gap-4 lg:grid-cols-2">
           {codeTables.map((t) => (
             <CodeTableEditor key={t} table={t} form={form} errorOf={errorOf} fid={fid} readOnly={readOnly} />
           ))}
