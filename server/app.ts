@@ -19,7 +19,8 @@ import { apiNotFound, errorHandler, requestId } from "./middleware/error-handler
 import { createSessionMiddleware } from "./auth/session.js";
 import { authRoutes } from "./auth/routes.js";
 import type { OidcClient } from "./auth/oidc-client.js";
-import { upsertUser } from "./db/queries/users.js";
+import { storedAccess, upsertUser } from "./db/queries/users.js";
+import { applyStoredAccess, createAccessCache, DEACTIVATED_MESSAGE } from "./auth/effective-user.js";
 import { healthRoutes } from "./routes/health.js";
 import { meRoutes } from "./routes/me.js";
 import { adminUserRoutes } from "./routes/admin-users.js";
@@ -103,6 +104,9 @@ export function createApp(d: AppDeps): express.Express {
   app.use("/api/health", healthRoutes({ db: d.db, storage: d.storage, mailer: d.mailer }));
   // only the API and sign-in read sessions: the client's files load while the database is down, and say so in words
   app.use(["/api", "/auth"], createSessionMiddleware(d.pool, d.sessionSecret, secure));
+  // roles and shops an admin stored in Ironledger replace the provider's on every request, not only at sign-in
+  const access = createAccessCache((sub) => storedAccess(d.db, sub));
+  app.use(["/api", "/auth"], applyStoredAccess(access));
 
   app.use(
     "/auth",
@@ -114,12 +118,13 @@ export function createApp(d: AppDeps): express.Express {
       rolesClaim: d.rolesClaim,
       shopsClaim: d.shopsClaim,
       onSignIn: (u) => upsertUser(d.db, u),
+      admit: async (u) => ((await storedAccess(d.db, u.sub))?.deactivated ? DEACTIVATED_MESSAGE : null),
       rateLimits: d.rateLimits ?? defaultRateLimits,
     }),
   );
 
   app.use("/api/me", meRoutes());
-  app.use("/api/admin/users", adminUserRoutes(d.db));
+  app.use("/api/admin/users", adminUserRoutes(d.db, access));
   app.use("/api/admin/shops", adminShopRoutes(d.db, d.pool));
   app.use("/api/admin/profiles", adminProfileRoutes(d.db, d.pool, d.imports?.spoolDir ?? path.join(os.tmpdir(), "ironledger-uploads")));
   app.use("/api/admin/mail", adminMailRoutes(d.mailArchive ?? null));

@@ -16,6 +16,8 @@ export interface AuthRouteOptions {
   rolesClaim: string;
   shopsClaim: string;
   onSignIn?: (user: SessionUser) => Promise<void>;
+  /** a refusal in words for a user who may not sign in (deactivated), else null */
+  admit?: (user: SessionUser) => Promise<string | null>;
   /** sign-ins started and failed callbacks allowed per address (defaults: config.ts) */
   rateLimits?: RateLimits;
 }
@@ -76,8 +78,14 @@ export function authRoutes(o: AuthRouteOptions): Router {
     const claims = tokens.claims();
     if (!claims) throw new HttpError(400, "sign_in_failed", "The identity provider returned no identity.");
     const user = userFromClaims(claims as Record<string, unknown>, o.rolesClaim, o.shopsClaim);
+    const refusal = await o.admit?.(user);
+    if (refusal) {
+      delete req.session.login;
+      throw new HttpError(403, "account_deactivated", refusal);
+    }
     await regenerate(req); // new session id at sign-in
     req.session.user = user;
+    req.session.claims = user;
     req.session.idToken = tokens.id_token;
     await save(req);
     await o.onSignIn?.(user);

@@ -16,7 +16,10 @@ export interface SessionUser {
 
 declare module "express-session" {
   interface SessionData {
+    /** the user requests act as: the provider's claims with any access stored in Ironledger applied (effective-user.ts) */
     user?: SessionUser;
+    /** the identity provider's claims at sign-in */
+    claims?: SessionUser;
     idToken?: string;
     login?: { state: string; nonce: string; codeVerifier: string; returnTo: string };
   }

@@ -13,7 +13,26 @@ export interface AppUserTable {
   roles: string[];
   shops: string[];
   first_seen: ColumnType<Date, Date | undefined, never>;
+  /** the time of the last sign-in (written at each sign-in only) */
   last_seen: ColumnType<Date, Date | undefined, Date>;
+  /** roles and shops an admin set in Ironledger, replacing the provider's (migrations/0064); null: the claims apply */
+  access_roles: ColumnType<string[] | null, string[] | null | undefined, string[] | null>;
+  access_shops: ColumnType<string[] | null, string[] | null | undefined, string[] | null>;
+  access_set_at: ColumnType<Date | null, Date | null | undefined, Date | null>;
+  access_set_by: ColumnType<string | null, string | null | undefined, string | null>;
+  deactivated_at: ColumnType<Date | null, Date | null | undefined, Date | null>;
+  deactivated_by: ColumnType<string | null, string | null | undefined, string | null>;
+}
+
+/** An admin's change to a user's access, as a sentence (migrations/0064). */
+export interface AppUserEventTable {
+  event_id: Generated<string>;
+  sub: string;
+  at: Generated<Date>;
+  kind: "access" | "provider" | "deactivated" | "reactivated";
+  actor_sub: string;
+  actor_name: string;
+  sentence: string;
 }
 
 /** Overview visits: the baseline for "new clusters since your last visit" (migrations/0030). */
@@ -65,6 +84,7 @@ import type { WarehouseTables } from "./warehouse-schema.js";
 export interface Database extends WarehouseTables {
   app_session: AppSessionTable;
   app_user: AppUserTable;
+  app_user_event: AppUserEventTable;
   app_user_visit: AppUserVisitTable;
   finding_state: FindingStateTable;
   finding_event: FindingEventTable;

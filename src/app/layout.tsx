@@ -26,7 +26,7 @@ function UserMenu({ me }: { me: Me }) {
         <span>{me.name}</span>
       </button>
       {open && (
-        <div role="menu" className="absolute right-0 z-20 mt-2 w-64 rounded-lg border border-line bg-card p-3 text-sm text-ink shadow-lg">
+        <div role="menu" className="absolute right-0 z-20 mt-2 w-64 max-sm:left-0 max-sm:right-auto rounded-lg border border-line bg-card p-3 text-sm text-ink shadow-lg">
           <p className="font-semibold">{me.name}</p>
           <p className="text-muted">{me.roles.map((r) => roleLabels[r]).join(", ")}</p>
           <p className="text-muted">

@@ -75,6 +75,8 @@ const ANALYTICS: readonly Role[] = ["admin", "analyst", "director", "clerk", "ma
 const BENCHMARKS: readonly Role[] = ["admin", "analyst", "director", "manager"];
 const CLAIMS: readonly Role[] = ["clerk", "manager"];
 const ADMIN: readonly Role[] = ["admin"];
+/** a user id no one has signed in with */
+const NO_SUCH_USER = "no-such-user";
 const IMPORTS: readonly Role[] = ["admin", "analyst", "manager"];
 const FINDINGS_READ: readonly Role[] = ["analyst", "director", "clerk", "admin"];
 const FINDINGS_WORK: readonly Role[] = ["analyst", "director", "admin"];
@@ -121,6 +123,16 @@ const ACCESS: Record<string, Entry> = {
   "GET /api/me": { req: () => ({ path: apiPaths.me() }), expect: gate(ALL, 200) },
   "GET /api/shops": { req: () => ({ path: apiPaths.shops() }), expect: gate(ALL, 200) },
   "GET /api/admin/users": { req: () => ({ path: apiPaths.adminUsers() }), expect: gate(ADMIN, 200) },
+  // a user who never signed in: past the role check (and the body's rules) an admin gets 404 in words, and nothing changes
+  "GET /api/admin/users/:sub/history": { req: () => ({ path: apiPaths.adminUserHistory(NO_SUCH_USER) }), expect: gate(ADMIN, 404) },
+  "PUT /api/admin/users/:sub/access": {
+    req: () => ({ path: apiPaths.adminUserAccess(NO_SUCH_USER), body: { roles: ["manager"], shops: [OWN] } }),
+    expect: gate(ADMIN, 404),
+    invalid: () => ({ path: apiPaths.adminUserAccess(NO_SUCH_USER), body: { roles: ["manager"], shops: [] } }),
+  },
+  "DELETE /api/admin/users/:sub/access": { req: () => ({ path: apiPaths.adminUserAccess(NO_SUCH_USER) }), expect: gate(ADMIN, 404) },
+  "POST /api/admin/users/:sub/deactivate": { req: () => ({ path: apiPaths.adminUserDeactivate(NO_SUCH_USER) }), expect: gate(ADMIN, 404) },
+  "POST /api/admin/users/:sub/reactivate": { req: () => ({ path: apiPaths.adminUserReactivate(NO_SUCH_USER) }), expect: gate(ADMIN, 404) },
   "GET /api/admin/shops": { req: () => ({ path: apiPaths.adminShops() }), expect: gate(ADMIN, 200) },
   // a code the demo world has already: an admin is told so (409) and nothing is added
   "POST /api/admin/shops": {

@@ -21,6 +21,7 @@ const MOUNTS: Record<string, string> = {
   "server/routes/admin-shops.ts": "/api/admin/shops",
   "server/routes/admin-profiles.ts": "/api/admin/profiles",
   "server/routes/admin-warranty-policies.ts": "/api/admin/warranty-policies",
+  "server/routes/admin-users.ts": "/api/admin/users",
   "server/routes/claims.ts": "/api/claims",
   "server/routes/claim-lifecycle.ts": "/api/claims",
   "server/routes/claim-story.ts": "/api/claims",
