@@ -177,10 +177,10 @@ export function Component() {
         {(d) => (
           <ChartCard
             title={`Weibull probability plot: ${compName}`}
-            subtitle="Points: failures by median rank; line: maximum-likelihood fit; band: 90 % interval"
+            subtitle="Points: each failure at its estimated share failed; line: maximum-likelihood fit; band: 90 % confidence band of the fit"
             options={weibullChart(d, palette)}
             rows={d.groups.flatMap((g) => g.points.map((pt) => ({ group: g.label, time: pt.time, medianRank: pt.medianRank })))}
-            columns={[{ key: "group", label: "Group" }, { key: "time", label: "Engine hours" }, { key: "medianRank", label: "Median rank" }]}
+            columns={[{ key: "group", label: "Group" }, { key: "time", label: "Engine hours" }, { key: "medianRank", label: "Estimated share failed" }]}
             filename="life-weibull-points.csv"
             footer={<><FitTable d={d} /><p className="mt-2">{d.method}</p></>}
           />

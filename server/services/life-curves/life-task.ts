@@ -65,7 +65,7 @@ export function weibullAnswer(units: LifeUnit[], q: LifeQuery, cold: Set<string>
   const groups = split<LifeUnit>(units, q, cold);
   const body: WeibullResponse = {
     component: q.component,
-    method: "Maximum likelihood with right censoring (survivors censored at their last valid reading) and delayed entry; 90 % profile-likelihood-ratio intervals; plot points by Johnson's adjusted ranks with Bernard's approximation; band: 90 % Fisher-matrix band on the plot scale.",
+    method: "Maximum likelihood with right censoring (survivors censored at their last valid reading) and delayed entry; 90 % profile-likelihood-ratio intervals; plot points by Johnson's adjusted ranks with Bernard's approximation; band: the 90 % confidence band of the fit (from the fit's covariance, on the plot scale).",
     groups: groups.map((g) => {
       const fit = fitWeibull(g.items);
       const points = g.items.length ? weibullPlotPoints(g.items) : [];

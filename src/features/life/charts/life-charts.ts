@@ -8,7 +8,7 @@ const fromWeibullY = (y: number) => 1 - Math.exp(-Math.exp(y));
 const PROBABILITY_TICKS = [0.001, 0.005, 0.01, 0.02, 0.05, 0.1, 0.2, 0.3, 0.5, 0.632, 0.8, 0.9, 0.99];
 const pct = (F: number) => `${+(F * 100).toPrecision(2)} %`;
 
-/** Probability plot: points by median ranks, the fitted line and its 90 % band, one colour per group. */
+/** Probability plot: each failure at its estimated share failed, the fitted line and its 90 % confidence band, one colour per group. */
 export function weibullChart(d: WeibullResponse, c: Palette): Plot.PlotOptions {
   const points = d.groups.flatMap((g) => g.points.filter((p) => p.medianRank > 0 && p.medianRank < 1 && p.time > 0).map((p) => ({ ...p, group: g.label, y: weibullY(p.medianRank) })));
   const line = d.groups.flatMap((g) =>
@@ -30,7 +30,7 @@ export function weibullChart(d: WeibullResponse, c: Palette): Plot.PlotOptions {
       Plot.areaY(line, { x: "time", y1: "lo", y2: "hi", fill: "group", fillOpacity: 0.15, clip: true }),
       Plot.lineY(line, { x: "time", y: "y", stroke: "group", strokeWidth: 2, clip: true }),
       Plot.dot(points, { x: "time", y: "y", stroke: "group", r: 2.5 }),
-      Plot.tip(points, Plot.pointer({ x: "time", y: "y", title: (p: (typeof points)[number]) => `${p.group}\nfailure at ${Math.round(p.time).toLocaleString("en-US")} h\nmedian rank ${pct(p.medianRank)}` })),
+      Plot.tip(points, Plot.pointer({ x: "time", y: "y", title: (p: (typeof points)[number]) => `${p.group}\nfailure at ${Math.round(p.time).toLocaleString("en-US")} h\nestimated share failed ${pct(p.medianRank)}` })),
     ],
   };
 }
