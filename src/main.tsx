@@ -3,8 +3,12 @@ import { createRoot } from "react-dom/client";
 import { QueryClientProvider } from "@tanstack/react-query";
 import { RouterProvider } from "react-router-dom";
 import { createQueryClient } from "./app/query-client";
+import { installZodWords } from "@shared/zod-words";
 import { createRouter } from "./app/router";
 import "./index.css";
+
+// zod's own messages in words, for every form checked in the browser
+installZodWords();
 
 const queryClient = createQueryClient();
 const router = createRouter(queryClient);

@@ -4,6 +4,9 @@ import { randomUUID } from "node:crypto";
 import { databaseUnavailable, DEPENDENCY_CODES, HttpError, isDatabaseUnreachable, RETRY_AFTER_SECONDS } from "../errors.js";
 import { logger } from "../logger.js";
 import type { ErrorEnvelope } from "../../shared/schemas/error.js";
+import { installZodWords, issueInWords } from "../../shared/zod-words.js";
+
+installZodWords();
 
 export const requestId: RequestHandler = (req, res, next) => {
   const id = (req.headers["x-request-id"] as string | undefined)?.slice(0, 64) || randomUUID();
@@ -12,9 +15,12 @@ export const requestId: RequestHandler = (req, res, next) => {
   next();
 };
 
-/** Plain-words summary of a zod failure: "from: Invalid ISO date; shops: …". */
+/** The query and body fields many routes share, named as the pages name them. */
+const FIELD_LABELS: Record<string, string> = { q: "The search", from: "From", to: "To", page: "The page", pageSize: "Rows per page", sort: "The sort", dir: "The sort direction" };
+
+/** Plain-words summary of a zod failure: "The search is at most 100 characters long; to: The From date is after the To date". */
 function describeZod(err: ZodError): string {
-  return err.issues.map((i) => (i.path.length ? `${i.path.join(".")}: ${i.message}` : i.message)).join("; ");
+  return err.issues.map((i) => issueInWords(i.path, i.message, FIELD_LABELS)).join("; ");
 }
 
 const kb = (bytes: number) => (bytes >= 1024 * 1024 ? `${(bytes / 1024 / 1024).toFixed(0)} MB` : `${Math.ceil(bytes / 1024)} kB`);

@@ -35,9 +35,9 @@ export const analyticsFiltersSchema = z
     /** the temperature unit of the bands the answers are grouped by (and of the words); the filters do not depend on it */
     unit: z.enum(["C", "F"]).default("C"),
   })
-  .refine((f) => !f.from || !f.to || f.from <= f.to, { error: "from must not be after to", path: ["to"] })
+  .refine((f) => !f.from || !f.to || f.from <= f.to, { error: "The From date is after the To date", path: ["to"] })
   .refine((f) => !f.buildFrom || !f.buildTo || f.buildFrom <= f.buildTo, {
-    error: "buildFrom must not be after buildTo",
+    error: "The first build month is after the last",
     path: ["buildTo"],
   });
 export type AnalyticsFilters = z.infer<typeof analyticsFiltersSchema>;

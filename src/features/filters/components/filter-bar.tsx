@@ -51,7 +51,7 @@ const single = (v: string) => (v ? [v] : []);
  * from page to page. `show` hides the controls a page does not use.
  */
 export function FilterBar({ hide = [] }: { hide?: (keyof UrlFilters)[] }) {
-  const { filters, setFilters } = useFilters();
+  const { filters, setFilters, problems, typed } = useFilters();
   const shops = useQuery(shopQueries.list());
   const [unit, setUnit] = useTemperatureUnit();
   const [open, setOpen] = useState(false);
@@ -71,10 +71,10 @@ export function FilterBar({ hide = [] }: { hide?: (keyof UrlFilters)[] }) {
     <section aria-label="Filters" className="rounded-lg border border-line bg-card p-3 shadow-sm">
       <div className="flex flex-wrap items-end gap-3">
         <Field label="From">
-          <input type="date" className={field} value={filters.from ?? ""} onChange={(e) => setFilters({ from: e.target.value || undefined })} />
+          <input type="date" className={field} value={typed.from ?? ""} aria-invalid={problems.some((x) => x.startsWith("The From date"))} onChange={(e) => setFilters({ from: e.target.value || undefined })} />
         </Field>
         <Field label="To">
-          <input type="date" className={field} value={filters.to ?? ""} onChange={(e) => setFilters({ to: e.target.value || undefined })} />
+          <input type="date" className={field} value={typed.to ?? ""} aria-invalid={problems.some((x) => x.startsWith("The From date"))} onChange={(e) => setFilters({ to: e.target.value || undefined })} />
         </Field>
         {shown("engineFamilies") && (
           <Field label="Engine family">
@@ -125,6 +125,11 @@ export function FilterBar({ hide = [] }: { hide?: (keyof UrlFilters)[] }) {
           )}
         </div>
       </div>
+      {problems.length > 0 && (
+        <ul role="alert" className="mt-2 space-y-0.5 text-sm text-alert">
+          {problems.map((x) => <li key={x}>{x}</li>)}
+        </ul>
+      )}
       {open && (
         <div className="mt-3 grid gap-3 border-t border-line pt-3 md:grid-cols-2">
           {shops.data && shops.data.shops.length > 1 && (
@@ -132,10 +137,10 @@ export function FilterBar({ hide = [] }: { hide?: (keyof UrlFilters)[] }) {
           )}
           <div className="flex flex-wrap gap-3">
             <Field label="Built from">
-              <input type="month" className={field} value={filters.buildFrom ?? ""} onChange={(e) => setFilters({ buildFrom: e.target.value || undefined })} />
+              <input type="month" className={field} value={typed.buildFrom ?? ""} onChange={(e) => setFilters({ buildFrom: e.target.value || undefined })} />
             </Field>
             <Field label="Built to">
-              <input type="month" className={field} value={filters.buildTo ?? ""} onChange={(e) => setFilters({ buildTo: e.target.value || undefined })} />
+              <input type="month" className={field} value={typed.buildTo ?? ""} onChange={(e) => setFilters({ buildTo: e.target.value || undefined })} />
             </Field>
             <Field label="Supplier lot">
               <input
