@@ -29,7 +29,7 @@ export const apiPaths = {
   rateCompare: (search: string) => `/api/analytics/rates/compare${search ? `?${search}` : ""}`,
   costRates: (search = "") => `/api/analytics/rates/costs${search ? `?${search}` : ""}`,
   lifeCostMcf: (search = "") => `/api/analytics/life/cost-mcf${search ? `?${search}` : ""}`,
-  benchmarks: (what: "shops" | "funnel" | "trend" | "comebacks", params: Record<string, string | number | undefined> = {}) => {
+  benchmarks: (what: "shops" | "funnel" | "trend" | "comebacks" | "lines" | "lines.csv" | "waits" | "fix-cycle", params: Record<string, string | number | undefined> = {}) => {
     const q = new URLSearchParams(Object.entries(params).filter((e): e is [string, string | number] => e[1] !== undefined).map(([k, v]) => [k, String(v)]));
     return `/api/benchmarks/${what}${q.size ? `?${q}` : ""}`;
   },

@@ -27,3 +27,9 @@ export const findingReadRoles = ["analyst", "director", "clerk", "admin"] as con
 export const findingWorkRoles = ["analyst", "director", "admin"] as const satisfies readonly Role[];
 
 export const analyticsRoles = ["analyst", "director", "manager", "clerk", "admin"] as const satisfies readonly Role[];
+
+/** Roles that read the life curves (Weibull, Kaplan–Meier, MCF): the group-wide analysis roles, not a shop manager or clerk. */
+export const lifeRoles = ["analyst", "director", "admin"] as const satisfies readonly Role[];
+
+/** Roles that read the failure rates (the rates page, and the life page that shares its filters): not the clerk, whose menu has neither. */
+export const rateRoles = ["analyst", "director", "manager", "admin"] as const satisfies readonly Role[];

@@ -5,7 +5,7 @@ import { analyticsFiltersSchema } from "../../shared/schemas/analytics-filters.j
 import { lifeQuerySchema } from "../../shared/schemas/analytics-life.js";
 import { costRecurrences, lifeUnits, recurrences } from "../db/queries/analytics-life.js";
 import { coldShopCodes } from "../db/queries/shops.js";
-import { analyticsRoles } from "../../shared/roles.js";
+import { lifeRoles } from "../../shared/roles.js";
 import { AnswerCache } from "../services/answer-cache.js";
 import { lifeOnWorker } from "../services/life-curves/life-pool.js";
 
@@ -15,7 +15,7 @@ import { lifeOnWorker } from "../services/life-curves/life-pool.js";
  */
 export function analyticsLifeRoutes(db: Db): Router {
   const router = Router();
-  router.use(allow(...analyticsRoles));
+  router.use(allow(...lifeRoles));
   // Fits and curves change only when the warehouse does: cache each answer per request and data version.
   const answers = new AnswerCache(db, 200);
 

@@ -25,7 +25,7 @@ import { poissonRate, type RateEstimate } from "../analytics/poisson.js";
 import { flaggedMonthWords, standardisedChart, uChart } from "../analytics/control-chart.js";
 import { hourBands, temperatureBandLabel, temperatureBandsIn } from "../../shared/bands.js";
 import { components } from "../../shared/catalog.js";
-import { analyticsRoles } from "../../shared/roles.js";
+import { rateRoles } from "../../shared/roles.js";
 import { AnswerCache } from "../services/answer-cache.js";
 
 const rate = (r: RateEstimate | null): Rate | null =>
@@ -39,7 +39,7 @@ function inBandOrder<T extends { band: string }>(ids: readonly string[], rows: T
 
 export function analyticsRateRoutes(db: Db): Router {
   const router = Router();
-  router.use(allow(...analyticsRoles));
+  router.use(allow(...rateRoles));
   // Each answer reads every failure line the filters select: keep it per request until the next load.
   const answers = new AnswerCache(db, 200);
 

@@ -14,6 +14,8 @@ import { warrantyClaimCounts } from "../db/queries/benchmarks.js";
 import { todayIso } from "../../shared/dates.js";
 import type { ShopScope } from "../../shared/schemas/me.js";
 import { benchmarkQuerySchema, comebackPairsQuerySchema, trendQuerySchema } from "../../shared/schemas/benchmarks.js";
+import { benchmarkLinesQuerySchema } from "../../shared/schemas/benchmark-details.js";
+import { benchmarkLinesCsv } from "../services/benchmarks/details.js";
 
 const BENCHMARK_ROLES = ["director", "analyst", "manager", "admin"] as const;
 
@@ -35,6 +37,27 @@ export function benchmarkRoutes(db: Db, peerSecret: string): Router {
   router.get("/shops", (req, res) => answer(req, res, (scope) => benchmarks.shops(scope, benchmarkQuerySchema.parse(req.query))));
   router.get("/funnel", (req, res) => answer(req, res, (scope) => benchmarks.funnel(scope, benchmarkQuerySchema.parse(req.query))));
   router.get("/trend", (req, res) => answer(req, res, (scope) => benchmarks.trend(scope, trendQuerySchema.parse(req.query))));
+
+  router.get("/waits", (req, res) => answer(req, res, (scope) => benchmarks.waits(scope, benchmarkQuerySchema.parse(req.query))));
+  router.get("/fix-cycle", (req, res) => answer(req, res, (scope) => benchmarks.fixCycle(scope, benchmarkQuerySchema.parse(req.query))));
+
+  // the lines behind one KPI of one shop, as JSON or CSV: a caller limited to some shops is refused another's
+  const kpiLines = async (req: Request) => {
+    const scope = requireScope(req);
+    const q = benchmarkLinesQuerySchema.parse(req.query);
+    const refused = () => forbidden("the lines of a shop outside your scope");
+    if (!scopeIncludes(scope, q.shop)) throw refused();
+    const body = await benchmarks.lines(scope, q);
+    if (!body) throw scope.kind === "shops" ? refused() : notFound(`Shop ${q.shop}`);
+    return body;
+  };
+  router.get("/lines", async (req, res) => {
+    res.json(await kpiLines(req));
+  });
+  router.get("/lines.csv", async (req, res) => {
+    const body = await kpiLines(req);
+    res.attachment(`${body.kpi}-${body.shop.code}-${body.period.key}.csv`).type("text/csv; charset=utf-8").send(benchmarkLinesCsv(body));
+  });
 
   router.get("/comebacks", async (req, res) => {
     const scope = requireScope(req);

@@ -151,6 +151,45 @@ export const formulasSchema = z.object({
 });
 export type Formulas = z.infer<typeof formulasSchema>;
 
+/**
+ * The other shops on one figure, for a caller who may not name them: groups of at least three shops, each given
+ * by its count and the rounded cut points around it (server/analytics/peer-groups.ts states the rule).
+ */
+export const peerGroupSchema = z.object({
+  shops: z.number(),
+  /** figures at or above this (null: the lowest group) */
+  from: z.number().nullable(),
+  /** figures below this (null: the highest group) */
+  to: z.number().nullable(),
+});
+export type PeerGroup = z.infer<typeof peerGroupSchema>;
+
+export const peerSpreadSchema = z.object({
+  /** other shops with this figure */
+  shops: z.number(),
+  /** the rounding step of the figures and cut points (0.01 = whole percent) */
+  step: z.number(),
+  groups: z.array(peerGroupSchema),
+  words: z.string(),
+});
+export type PeerSpread = z.infer<typeof peerSpreadSchema>;
+
+export const peerSummarySchema = z.object({
+  /** how many other shops there are */
+  shops: z.number(),
+  /** the anonymity rule in words */
+  rule: z.string(),
+  lines: peerSpreadSchema,
+  comeback: peerSpreadSchema,
+  efficiency: peerSpreadSchema,
+  partsWaitMedian: peerSpreadSchema,
+  partsWaitP90: peerSpreadSchema,
+  backOrder: peerSpreadSchema,
+  coldStartMeasured: peerSpreadSchema,
+  warrantyOnTime: peerSpreadSchema,
+});
+export type PeerSummary = z.infer<typeof peerSummarySchema>;
+
 /** GET /api/benchmarks/shops */
 export const shopBenchmarksSchema = z.object({
   period: periodSchema,
@@ -166,7 +205,10 @@ export const shopBenchmarksSchema = z.object({
     coldStartMeasured: shareFigureSchema,
     warrantyOnTime: shareFigureSchema,
   }),
+  /** the shops the caller may name (every shop for a group-wide caller) */
   shops: z.array(shopBenchmarkSchema),
+  /** the other shops as groups of at least three, figure by figure; null for a group-wide caller */
+  peers: peerSummarySchema.nullable(),
   /** the answer to "which shop needs a visit": above the 99.8 % limit → visit, above 95 % or Wilson flag → watch */
   visits: z.array(visitSchema),
 });

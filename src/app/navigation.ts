@@ -1,4 +1,48 @@
-import { importRoles, type Role } from "@shared/roles";
+import { claimRoles, importRoles, lifeRoles, rateRoles, type Role } from "@shared/roles";
+import { pagePaths } from "./page-paths";
+
+export type PageKey = keyof typeof pagePaths;
+
+export interface PageAccess {
+  /** the roles the page serves; the router refuses it to anyone else, and the API the same (shared/roles.ts) */
+  roles: readonly Role[];
+  /** what the page is, as it reads in "<title> is for …" */
+  title: string;
+  /** its entry in the main menu, in menu order; pages reached from another page have none */
+  menu?: string;
+}
+
+const ALL: readonly Role[] = ["admin", "analyst", "director", "manager", "clerk"];
+const BENCHMARKS: readonly Role[] = ["director", "analyst", "manager", "admin"];
+const ADMIN: readonly Role[] = ["admin"];
+
+/**
+ * Which roles each page serves: one table for the menu and the router. A page opened by a role outside it is
+ * refused by the page (it names the pages the role can use) as well as by the API. Keys in menu order.
+ */
+export const pageAccess: Record<PageKey, PageAccess> = {
+  overview: { roles: ALL, title: "The overview", menu: "Overview" },
+  // the clerk reads the findings on the overview, whose links open the clusters: they are the clerk's pages too
+  clusters: { roles: ALL, title: "The failure clusters", menu: "Clusters" },
+  cluster: { roles: ALL, title: "A failure cluster" },
+  rates: { roles: rateRoles, title: "The failure rates", menu: "Rates" },
+  life: { roles: lifeRoles, title: "The life curves (Weibull, Kaplan–Meier, repeat repairs)", menu: "Life" },
+  repairs: { roles: ALL, title: "The repair records", menu: "Repairs" },
+  repair: { roles: ALL, title: "A repair record" },
+  benchmarks: { roles: BENCHMARKS, title: "The shop benchmarks", menu: "Benchmarks" },
+  adminUsers: { roles: ADMIN, title: "User administration", menu: "Users" },
+  adminShops: { roles: ADMIN, title: "Shop administration", menu: "Shops" },
+  adminProfiles: { roles: ADMIN, title: "Export profiles", menu: "Profiles" },
+  adminProfile: { roles: ADMIN, title: "An export profile" },
+  adminWarrantyPolicies: { roles: ADMIN, title: "Warranty policies", menu: "Warranty policies" },
+  adminWarrantyPolicy: { roles: ADMIN, title: "A warranty policy" },
+  claims: { roles: claimRoles, title: "Warranty claims", menu: "Claims" },
+  claimNew: { roles: claimRoles, title: "A new warranty claim" },
+  claim: { roles: claimRoles, title: "A warranty claim" },
+  imports: { roles: importRoles, title: "The imports and load history", menu: "Imports" },
+  batchRejects: { roles: importRoles, title: "A load's rejected rows" },
+  adminMail: { roles: ADMIN, title: "Captured mail", menu: "Captured mail" },
+};
 
 export interface NavItem {
   to: string;
@@ -7,22 +51,15 @@ export interface NavItem {
 }
 
 /** Navigation shaped by role: a role sees only the pages it may use (the server enforces the same). */
-export const navItems: readonly NavItem[] = [
-  { to: "/", label: "Overview", roles: ["admin", "analyst", "director", "manager", "clerk"] },
-  { to: "/clusters", label: "Clusters", roles: ["analyst", "director", "manager", "admin"] },
-  { to: "/rates", label: "Rates", roles: ["analyst", "director", "manager", "admin"] },
-  { to: "/life", label: "Life", roles: ["analyst", "director", "admin"] },
-  { to: "/repairs", label: "Repairs", roles: ["analyst", "director", "manager", "clerk", "admin"] },
-  { to: "/benchmarks", label: "Benchmarks", roles: ["director", "analyst", "manager", "admin"] },
-  { to: "/admin/users", label: "Users", roles: ["admin"] },
-  { to: "/admin/shops", label: "Shops", roles: ["admin"] },
-  { to: "/admin/profiles", label: "Profiles", roles: ["admin"] },
-  { to: "/admin/warranty-policies", label: "Warranty policies", roles: ["admin"] },
-  { to: "/claims", label: "Claims", roles: ["clerk", "manager"] },
-  { to: "/imports", label: "Imports", roles: importRoles },
-  { to: "/admin/mail", label: "Captured mail", roles: ["admin"] },
-];
+export const navItems: readonly NavItem[] = (Object.entries(pageAccess) as [PageKey, PageAccess][])
+  .filter(([, p]) => p.menu !== undefined)
+  .map(([key, p]) => ({ to: pagePaths[key], label: p.menu!, roles: p.roles }));
+
+export const mayOpen = (page: PageKey, roles: readonly Role[]): boolean => pageAccess[page].roles.some((r) => roles.includes(r));
 
 export function navFor(roles: readonly Role[]): NavItem[] {
   return navItems.filter((n) => n.roles.some((r) => roles.includes(r)));
 }
+
+/** Where a role starts: its first menu page. */
+export const homeFor = (roles: readonly Role[]): NavItem => navFor(roles)[0] ?? navItems[0]!;

@@ -3,6 +3,8 @@ import type { LoaderFunction, Params } from "react-router-dom";
 import type { QueryClient } from "@tanstack/react-query";
 import { meQueries } from "@/features/session/api/me-queries";
 import type { Me } from "@shared/schemas/me";
+import type { Role } from "@shared/roles";
+import { mayOpen, pageAccess, type PageKey } from "./navigation";
 
 /**
  * Route loaders that prime TanStack Query's cache for a lazy page.
@@ -25,22 +27,35 @@ interface PageModule {
   primeCache?: PrimeCache;
 }
 
+/** Thrown by a page's loader when the signed-in roles are outside the page's roles; the area's boundary explains it. */
+export class PageRefused extends Error {
+  constructor(
+    readonly page: PageKey,
+    readonly roles: readonly Role[],
+  ) {
+    super(`${pageAccess[page].title} is not among the pages of your role.`);
+    this.name = "PageRefused";
+  }
+}
+
 /**
  * The route loader for a page. It waits for the session (the root loader asks for it at the same moment, so
- * this is one request) and primes nothing for a signed-out visitor: the layout asks them to sign in instead.
+ * this is one request), refuses a role the page does not serve before any of its data is asked for, and primes
+ * nothing for a signed-out visitor: the layout asks them to sign in instead.
  */
-function pageLoader(qc: QueryClient, primeCache: PrimeCache): LoaderFunction {
+function pageLoader(qc: QueryClient, page: PageKey, primeCache: PrimeCache | undefined): LoaderFunction {
   return async ({ params, request }) => {
     const me = await qc.ensureQueryData(meQueries.current());
-    if (me) await primeCache(qc, { params, url: new URL(request.url), me });
+    if (me && !mayOpen(page, me.roles)) throw new PageRefused(page, me.roles);
+    if (me && primeCache) await primeCache(qc, { params, url: new URL(request.url), me });
     return null;
   };
 }
 
-/** A route's `lazy`: loads the page module, then hands React Router its component and, if it has one, its loader. */
-export function lazyPage(qc: QueryClient, load: () => Promise<PageModule>) {
-  return async (): Promise<{ Component: ComponentType; loader?: LoaderFunction }> => {
+/** A route's `lazy`: loads the page module, then hands React Router its component and the loader that checks the role and primes the cache. */
+export function lazyPage(qc: QueryClient, page: PageKey, load: () => Promise<PageModule>) {
+  return async (): Promise<{ Component: ComponentType; loader: LoaderFunction }> => {
     const { Component, primeCache } = await load();
-    return primeCache ? { Component, loader: pageLoader(qc, primeCache) } : { Component };
+    return { Component, loader: pageLoader(qc, page, primeCache) };
   };
 }

@@ -34,3 +34,12 @@ const PAGE_STATUSES: ReadonlySet<number> = new Set([401, 403, 404]);
 export function isPageStatus(error: unknown): error is ApiError {
   return error instanceof ApiError && PAGE_STATUSES.has(error.status);
 }
+
+/**
+ * True when trying again can change the answer: the server could not be reached, or failed (5xx), or the error
+ * is not an API answer at all. A refusal or a missing thing (4xx) stays the same however often it is asked.
+ */
+export function isRetryable(error: unknown): boolean {
+  if (!(error instanceof ApiError)) return true;
+  return error.status === 0 || error.status >= 500 || error.status === 408 || error.status === 429;
+}

@@ -7,6 +7,10 @@ import { funnelChart, trendChart } from "@/features/benchmarks/charts/benchmark-
 import { ComebackPairsPanel } from "@/features/benchmarks/components/comeback-pairs";
 import { KpiTable } from "@/features/benchmarks/components/kpi-table";
 import { PeriodControls } from "@/features/benchmarks/components/period-controls";
+import { KpiLinesPanel } from "@/features/benchmarks/components/kpi-lines";
+import { WaitsSection } from "@/features/benchmarks/components/waits-section";
+import { FixCycleSection } from "@/features/benchmarks/components/fix-cycle-section";
+import type { LineKpi } from "@shared/schemas/benchmark-details";
 import { OwnShopSummary, VisitList } from "@/features/benchmarks/components/visit-list";
 import { readBenchmarkParams, useBenchmarkParams } from "@/features/benchmarks/hooks/use-benchmark-params";
 import type { PrimeCache } from "@/app/page-loader";
@@ -41,15 +45,17 @@ export const primeCache: PrimeCache = (qc, { url }) => {
   void qc.prefetchQuery(benchmarkQueries.shops(params));
   void qc.prefetchQuery(benchmarkQueries.funnel(params));
   void qc.prefetchQuery(benchmarkQueries.trend(params));
+  void qc.prefetchQuery(benchmarkQueries.waits(params));
+  void qc.prefetchQuery(benchmarkQueries.fixCycle(params));
 };
 
 export function Component() {
-  const { params, drill, technician, update } = useBenchmarkParams();
+  const { params, drill, technician, kpi, update } = useBenchmarkParams();
   const shops = useQuery(benchmarkQueries.shops(params));
   const funnel = useQuery(benchmarkQueries.funnel(params));
   const trend = useQuery(benchmarkQueries.trend(params));
-  const open = (shop: string, tech?: string) => {
-    update({ shop, tech });
+  const open = (shop: string, tech?: string, lineKpi?: LineKpi) => {
+    update({ shop, tech, kpi: lineKpi });
     requestAnimationFrame(() => document.getElementById("comeback-pairs")?.scrollIntoView({ behavior: "smooth", block: "start" }));
   };
   const drillShop = shops.data?.shops.find((s) => s.shopCode === drill && s.drillDown);
@@ -58,7 +64,7 @@ export function Component() {
     <div className="space-y-4">
       <div>
         <h1 className="text-2xl font-bold">Shop benchmarks</h1>
-        <p className="text-muted">Comebacks, labour against standard time, parts waits and claims, shop by shop, judged against the group at each shop's volume.</p>
+        <p className="text-muted">Comebacks, first-time fix, labour against standard time, parts waits, cycle time and claims, shop by shop, judged against the group at each shop's volume.</p>
       </div>
       <PeriodControls params={params} period={shops.data?.period} onChange={update} />
 
@@ -66,7 +72,20 @@ export function Component() {
         {(d) => (d.viewer.groupWide ? <VisitList data={d} onOpen={open} /> : <OwnShopSummary data={d} onOpen={open} />)}
       </QueryView>
 
-      {drillShop && (
+      {drillShop && kpi && (
+        <div id="comeback-pairs">
+          <KpiLinesPanel
+            params={params}
+            shop={drillShop}
+            kpi={kpi}
+            technician={technician}
+            onKpi={(k) => update({ kpi: k })}
+            onTechnician={(tech) => update({ tech })}
+            onClose={() => update({ shop: undefined, tech: undefined, kpi: undefined })}
+          />
+        </div>
+      )}
+      {drillShop && !kpi && (
         <div id="comeback-pairs">
           <ComebackPairsPanel
             params={params}
@@ -120,7 +139,10 @@ export function Component() {
         </QueryView>
       </div>
 
-      {shops.data && <KpiTable data={shops.data} onOpen={(s) => open(s)} />}
+      {shops.data && <KpiTable data={shops.data} onOpen={(s, k) => open(s, undefined, k)} />}
+
+      <WaitsSection params={params} />
+      <FixCycleSection params={params} />
     </div>
   );
 }

@@ -72,11 +72,13 @@ interface Entry {
 
 const ALL: readonly Role[] = ["admin", "analyst", "director", "clerk", "manager"];
 const ANALYTICS: readonly Role[] = ["admin", "analyst", "director", "clerk", "manager"];
+/** the life curves: the page and its API serve the group-wide analysis roles only (shared/roles.ts lifeRoles) */
+const LIFE: readonly Role[] = ["admin", "analyst", "director"];
+/** the failure rates: the roles whose menu has the rates page (shared/roles.ts rateRoles) */
+const RATES: readonly Role[] = ["admin", "analyst", "director", "manager"];
 const BENCHMARKS: readonly Role[] = ["admin", "analyst", "director", "manager"];
 const CLAIMS: readonly Role[] = ["clerk", "manager"];
 const ADMIN: readonly Role[] = ["admin"];
-/** a user id no one has signed in with */
-const NO_SUCH_USER = "no-such-user";
 const IMPORTS: readonly Role[] = ["admin", "analyst", "manager"];
 const FINDINGS_READ: readonly Role[] = ["analyst", "director", "clerk", "admin"];
 const FINDINGS_WORK: readonly Role[] = ["analyst", "director", "admin"];
@@ -89,6 +91,8 @@ const POLICY = {
 };
 /** an upload or batch id no caller has: past the role check the answer is 404 in words */
 const NO_SUCH = "999999999";
+/** a user id no one has signed in with */
+const NO_SUCH_USER = "no-such-user";
 
 const everyone = (status: number) => Object.fromEntries(principals.map((p) => [p, status])) as Record<Principal, Outcome>;
 
@@ -180,16 +184,16 @@ const ACCESS: Record<string, Entry> = {
   },
 
   "GET /api/overview": { req: () => ({ path: apiPaths.overview() }), expect: gate(ANALYTICS, 200) },
-  "GET /api/analytics/rates/hour-bands": { shop: "filter", req: filtered((s) => apiPaths.rates("hour-bands", s)), expect: gate(ANALYTICS, 200, "as-empty") },
-  "GET /api/analytics/rates/temperature-bands": { shop: "filter", req: filtered((s) => apiPaths.rates("temperature-bands", s)), expect: gate(ANALYTICS, 200, "as-empty") },
-  "GET /api/analytics/rates/components": { shop: "filter", req: filtered((s) => apiPaths.rates("components", s)), expect: gate(ANALYTICS, 200, "as-empty") },
-  "GET /api/analytics/rates/monthly": { shop: "filter", req: filtered((s) => apiPaths.rates("monthly", s)), expect: gate(ANALYTICS, 200, "as-empty") },
-  "GET /api/analytics/life/weibull": { shop: "filter", req: filtered((s) => apiPaths.life("weibull", s)), expect: gate(ANALYTICS, 200, "as-empty") },
-  "GET /api/analytics/life/kaplan-meier": { shop: "filter", req: filtered((s) => apiPaths.life("kaplan-meier", s)), expect: gate(ANALYTICS, 200, "as-empty") },
-  "GET /api/analytics/life/mcf": { shop: "filter", req: filtered((s) => apiPaths.life("mcf", s)), expect: gate(ANALYTICS, 200, "as-empty") },
-  "GET /api/analytics/life/cost-mcf": { shop: "filter", req: filtered((s) => apiPaths.lifeCostMcf(s)), expect: gate(ANALYTICS, 200, "as-empty") },
-  "GET /api/analytics/rates/compare": { shop: "filter", req: filtered((s) => apiPaths.rateCompare(`compareBy=engineFamily&a=K18-3G&b=K26-4R&${s}`)), expect: gate(ANALYTICS, 200, "as-empty") },
-  "GET /api/analytics/rates/costs": { shop: "filter", req: filtered((s) => apiPaths.costRates(s)), expect: gate(ANALYTICS, 200, "as-empty") },
+  "GET /api/analytics/rates/hour-bands": { shop: "filter", req: filtered((s) => apiPaths.rates("hour-bands", s)), expect: gate(RATES, 200, "as-empty") },
+  "GET /api/analytics/rates/temperature-bands": { shop: "filter", req: filtered((s) => apiPaths.rates("temperature-bands", s)), expect: gate(RATES, 200, "as-empty") },
+  "GET /api/analytics/rates/components": { shop: "filter", req: filtered((s) => apiPaths.rates("components", s)), expect: gate(RATES, 200, "as-empty") },
+  "GET /api/analytics/rates/monthly": { shop: "filter", req: filtered((s) => apiPaths.rates("monthly", s)), expect: gate(RATES, 200, "as-empty") },
+  "GET /api/analytics/life/weibull": { shop: "filter", req: filtered((s) => apiPaths.life("weibull", s)), expect: gate(LIFE, 200, "as-empty") },
+  "GET /api/analytics/life/kaplan-meier": { shop: "filter", req: filtered((s) => apiPaths.life("kaplan-meier", s)), expect: gate(LIFE, 200, "as-empty") },
+  "GET /api/analytics/life/mcf": { shop: "filter", req: filtered((s) => apiPaths.life("mcf", s)), expect: gate(LIFE, 200, "as-empty") },
+  "GET /api/analytics/life/cost-mcf": { shop: "filter", req: filtered((s) => apiPaths.lifeCostMcf(s)), expect: gate(LIFE, 200, "as-empty") },
+  "GET /api/analytics/rates/compare": { shop: "filter", req: filtered((s) => apiPaths.rateCompare(`compareBy=engineFamily&a=K18-3G&b=K26-4R&${s}`)), expect: gate(RATES, 200, "as-empty") },
+  "GET /api/analytics/rates/costs": { shop: "filter", req: filtered((s) => apiPaths.costRates(s)), expect: gate(RATES, 200, "as-empty") },
   "GET /api/analytics/clusters": { shop: "filter", req: filtered((s) => apiPaths.clusters(s)), expect: gate(ANALYTICS, 200, "as-empty") },
   // a cluster of the scan filtered to a shop, asked for with the same filter: outside a manager's shops it is not in their scan
   "GET /api/analytics/clusters/:id": {
@@ -205,6 +209,11 @@ const ACCESS: Record<string, Entry> = {
   "GET /api/benchmarks/funnel": { req: () => ({ path: apiPaths.benchmarks("funnel") }), expect: gate(BENCHMARKS, 200) },
   "GET /api/benchmarks/trend": { req: () => ({ path: apiPaths.benchmarks("trend") }), expect: gate(BENCHMARKS, 200) },
   // the comeback pairs behind a shop's figure: a manager asking for another shop is refused, not told it is empty
+  "GET /api/benchmarks/waits": { req: () => ({ path: apiPaths.benchmarks("waits") }), expect: gate(BENCHMARKS, 200) },
+  "GET /api/benchmarks/fix-cycle": { req: () => ({ path: apiPaths.benchmarks("fix-cycle") }), expect: gate(BENCHMARKS, 200) },
+  // the lines behind a shop's KPI, as JSON and CSV: a manager asking for another shop is refused, not told it is empty
+  "GET /api/benchmarks/lines": { shop: "filter", req: (_f, side) => ({ path: apiPaths.benchmarks("lines", { kpi: "partsWait", shop: codeOf(side) }) }), expect: gate(BENCHMARKS, 200, 403) },
+  "GET /api/benchmarks/lines.csv": { shop: "filter", req: (_f, side) => ({ path: apiPaths.benchmarks("lines.csv", { kpi: "backOrder", shop: codeOf(side) }) }), expect: gate(BENCHMARKS, 200, 403) },
   "GET /api/benchmarks/comebacks": { shop: "filter", req: (_f, side) => ({ path: apiPaths.benchmarks("comebacks", { shop: codeOf(side) }) }), expect: gate(BENCHMARKS, 200, 403) },
 
   "GET /api/claims": { req: () => ({ path: apiPaths.claims() }), expect: gate(CLAIMS, 200) },

@@ -4,7 +4,6 @@ import { testApp, type TestApp } from "../helpers/test-app.js";
 import { apiPaths } from "../../shared/api-paths.js";
 import { shops as demoShops } from "../../etl/demo/scenario.js";
 import { peerBands } from "../../server/analytics/benchmark-bands.js";
-import { peerLetters } from "../../server/services/benchmarks/peer-letters.js";
 import {
   comebackPairsSchema,
   funnelSchema,
@@ -113,18 +112,16 @@ describe("GET /api/benchmarks/shops for a shop manager", () => {
     ...otherTowns.filter((town) => json.includes(town)),
   ];
 
-  it("names their own shop and shows the others as lettered peers without codes, towns or counts", async () => {
+  it("names their own shop and shows the others only as groups of three or more, without codes, towns or rows", async () => {
     const body = await shopsFor(manager, { period: "all" });
-    const own = body.shops.filter((s) => !s.peer);
-    expect(own.map((s) => s.label)).toEqual(["S5 Maplewick"]);
-    const peers = body.shops.filter((s) => s.peer);
-    expect(peers.map((p) => p.label)).toEqual(["Peer A", "Peer B", "Peer C", "Peer D", "Peer E", "Peer F", "Peer G"]);
-    for (const p of peers) {
-      expect(p).toMatchObject({ shopCode: null, name: null, lines: null, technicians: null, drillDown: false });
-      expect(p.comeback).toMatchObject({ successes: null, n: null, lower: null, upper: null });
-      expect(p.efficiency).toMatchObject({ standardHours: null, actualHours: null, lines: null });
-      expect(p.partsWait.n).toBeNull();
+    expect(body.shops.map((s) => s.label)).toEqual(["S5 Maplewick"]);
+    expect(body.peers!.shops).toBe(7);
+    const { shops: _count, rule, ...spreads } = body.peers!;
+    expect(rule).toMatch(/at least 3 shops/);
+    for (const [figure, spread] of Object.entries(spreads)) {
+      for (const g of spread.groups) expect(g.shops, figure).toBeGreaterThanOrEqual(3);
     }
+    expect(body.formulas.anonymity).toBe(rule);
     expect(leaks(JSON.stringify(body))).toEqual([]);
   });
 
@@ -139,14 +136,11 @@ describe("GET /api/benchmarks/shops for a shop manager", () => {
     }
   });
 
-  it("keeps a peer's letter for the same period and draws the letters afresh for another", async () => {
-    const a = await shopsFor(manager, { period: "all" });
-    const b = await shopsFor(manager, { period: "all" });
-    expect(b.shops.map((s) => [s.label, s.comeback.value])).toEqual(a.shops.map((s) => [s.label, s.comeback.value]));
-    const codes = ["S1", "S2", "S3", "S4", "S6", "S7", "S8"];
-    const months = ["2024-01", "2024-02", "2024-03", "2024-04", "2024-05", "2024-06"];
-    const orders = new Set(months.map((m) => [...peerLetters(codes, m, "S5", "secret").entries()].sort().map(([, l]) => l).join("")));
-    expect(orders.size).toBeGreaterThan(1);
+  it("plots and charts only their own shop: no point or series stands for another shop", async () => {
+    const funnel = funnelSchema.parse(await get(apiPaths.benchmarks("funnel", { period: "all" }), manager));
+    expect(funnel.points.map((p) => p.label)).toEqual(["S5 Maplewick"]);
+    const trend = trendSchema.parse(await get(apiPaths.benchmarks("trend"), manager));
+    expect(trend.series.map((x) => x.label)).toEqual(["S5 Maplewick"]);
   });
 
   it("refuses the comeback pairs of another shop with 403", async () => {
@@ -165,19 +159,6 @@ describe("GET /api/benchmarks/funnel", () => {
     expect(s5.rate).toBeGreaterThan(near.upper998);
     expect(body.limits.every((l) => l.lower998 <= l.lower95 && l.upper95 <= l.upper998)).toBe(true);
     expect(body.groupRate!).toBeGreaterThan(0.03);
-  });
-
-  it("places a manager's peers across volume bands that each hold two peers or more, with rates rounded to 0.1 %", async () => {
-    for (const period of ["all", "rolling12", "quarter"]) {
-      const body = funnelSchema.parse(await get(apiPaths.benchmarks("funnel", { period }), manager));
-      const peers = body.points.filter((x) => x.peer);
-      for (const p of peers) {
-        expect(p.lines).toBeNull();
-        expect(Math.round(p.rate * 1000)).toBeCloseTo(p.rate * 1000, 9);
-        expect(p.x).toBe((p.band!.from + p.band!.to + 1) / 2);
-        expect(peers.filter((q) => q.volumeBand === p.volumeBand).length, `${period} ${p.volumeBand}`).toBeGreaterThanOrEqual(2);
-      }
-    }
   });
 
   it("merges a peer that would be alone in its band into the nearest band with others", () => {

@@ -1,7 +1,8 @@
 /**
  * Benchmarks of comebacks, labour, parts and claims per shop and period, with a funnel, a monthly trend and the
- * comeback pairs behind a figure. A caller whose scope is a shop list sees those shops by name and every other
- * shop as a lettered peer, without codes, towns, counts or intervals; the pairs only of their own shops.
+ * comeback pairs behind a figure. A caller whose scope is a shop list sees those shops by name and the other
+ * shops only as groups of three or more per figure (analytics/peer-groups.ts): no row, point or series of one
+ * other shop; the pairs only of their own shops.
  */
 import type { Db } from "../../db/database.js";
 import { dataVersion } from "../../db/queries/data-version.js";
@@ -14,9 +15,12 @@ import { funnelCurve, funnelPoint } from "../../analytics/benchmark-funnel.js";
 import { groupRow, shopRow } from "../../analytics/benchmark-shop-rows.js";
 import { trendPoints } from "../../analytics/benchmark-trend.js";
 import { visits } from "../../analytics/benchmark-visits.js";
+import { peerSummary } from "../../analytics/peer-groups.js";
 import { loadWorld, type World } from "./world.js";
 import { loadView, scopeKey, type View } from "./view.js";
 import { comebackRule, FUNNEL_METHOD, formulas, TREND_METHOD } from "./texts.js";
+import { benchmarkLines, fixCycle, waits } from "./details.js";
+import type { BenchmarkLines, BenchmarkLinesQuery, FixCycle, Waits } from "../../../shared/schemas/benchmark-details.js";
 import type { ShopScope } from "../../../shared/schemas/me.js";
 import type {
   BenchmarkQuery,
@@ -36,6 +40,10 @@ export interface BenchmarkService {
   trend(scope: ShopScope, q: TrendQuery): Promise<Trend>;
   /** null when the shop is unknown or outside the scope */
   comebackPairs(scope: ShopScope, q: ComebackPairsQuery): Promise<ComebackPairs | null>;
+  /** the lines behind one KPI of one shop; null when the shop is unknown or outside the scope */
+  lines(scope: ShopScope, q: BenchmarkLinesQuery): Promise<BenchmarkLines | null>;
+  waits(scope: ShopScope, q: BenchmarkQuery): Promise<Waits>;
+  fixCycle(scope: ShopScope, q: BenchmarkQuery): Promise<FixCycle>;
 }
 
 /** `peerSecret` keys the peer letters. */
@@ -53,7 +61,9 @@ export function benchmarkService(db: Db, peerSecret: string): BenchmarkService {
     async shops(scope, q) {
       const v = await view(scope, q);
       const period = v.resolved.period;
-      const rows = v.shops.map((s) => shopRow(s, cellOf(v, s.code), v.bands.get(s.code)!, v.p0, v.anyClaims, v.world.techNames));
+      const rows = v.shops.filter((s) => !s.peer).map((s) => shopRow(s, cellOf(v, s.code), v.bands.get(s.code)!, v.p0, v.anyClaims, v.world.techNames));
+      // the other shops leave only as groups of three or more (analytics/peer-groups.ts), from their exact rows
+      const peerRows = v.shops.filter((s) => s.peer).map((s) => shopRow({ ...s, peer: false }, cellOf(v, s.code), v.bands.get(s.code)!, v.p0, v.anyClaims, v.world.techNames));
       return {
         period,
         settings: { days: q.days, hours: q.hours },
@@ -61,6 +71,7 @@ export function benchmarkService(db: Db, peerSecret: string): BenchmarkService {
         formulas: formulas(q, period, !v.groupWide),
         group: groupRow(v.groupCell, v.anyClaims),
         shops: rows,
+        peers: v.groupWide ? null : peerSummary(peerRows),
         visits: visits(rows, v.groupWide),
       };
     },
@@ -69,7 +80,7 @@ export function benchmarkService(db: Db, peerSecret: string): BenchmarkService {
       const v = await view(scope, q);
       const points: FunnelPoint[] = [];
       const notRated: string[] = [];
-      for (const s of v.shops) {
+      for (const s of v.shops.filter((x) => !x.peer)) {
         const point = funnelPoint(s, cellOf(v, s.code), v.bands.get(s.code)!, v.p0);
         if (point) points.push(point);
         else notRated.push(s.label);
@@ -95,9 +106,24 @@ export function benchmarkService(db: Db, peerSecret: string): BenchmarkService {
         settings: { days: q.days, hours: q.hours },
         months: monthsEnding(last, q.months),
         group: points(v.world.shops.map((s) => s.code), false),
-        series: v.shops.map((s) => ({ key: s.key, label: s.label, peer: s.peer, points: points([s.code], s.peer) })),
+        series: v.shops.filter((s) => !s.peer).map((s) => ({ key: s.key, label: s.label, peer: s.peer, points: points([s.code], s.peer) })),
         method: TREND_METHOD,
       };
+    },
+
+    async lines(scope, q) {
+      const v = await view(scope, q);
+      const entry = v.world.shops.find((s) => s.code === q.shop);
+      if (!entry?.inScope) return null;
+      return benchmarkLines(db, v, q, { code: entry.code, name: entry.name }, scope);
+    },
+
+    async waits(scope, q) {
+      return waits(db, await view(scope, q));
+    },
+
+    async fixCycle(scope, q) {
+      return fixCycle(db, await view(scope, q), scope, { days: q.days, hours: q.hours });
     },
 
     async comebackPairs(scope, q) {

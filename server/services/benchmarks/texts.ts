@@ -1,4 +1,5 @@
 /** The words the benchmarks answer with: the comeback rule, the formulas of every figure, and the methods. */
+import { PEER_RULE } from "../../analytics/peer-groups.js";
 import { MINIMUM_LINES, type BenchmarkQuery, type Formulas, type Period } from "../../../shared/schemas/benchmarks.js";
 
 export const FUNNEL_METHOD =
@@ -26,8 +27,6 @@ export function formulas(q: BenchmarkQuery, period: Period, anonymised: boolean)
     warrantyOnTime:
       "Claims on time = repair claims submitted on or before their deadline ÷ claims submitted or past their deadline, by month of the RO close; 95 % Wilson interval.",
     funnel: FUNNEL_METHOD,
-    anonymity: anonymised
-      ? "Other shops are shown as letters drawn afresh for every period; their volume is a band, and their counts and intervals are withheld, so they cannot be recognised. Rates are rounded to 0.1 %."
-      : null,
+    anonymity: anonymised ? PEER_RULE : null,
   };
 }

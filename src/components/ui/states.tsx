@@ -1,5 +1,5 @@
 import type { ReactNode } from "react";
-import { ApiError } from "@/lib/api-error";
+import { ApiError, isRetryable } from "@/lib/api-error";
 
 export function Skeleton({ lines = 3, label = "Loading" }: { lines?: number; label?: string }) {
   return (
@@ -20,6 +20,7 @@ export function EmptyState({ title, children }: { title: string; children?: Reac
   );
 }
 
+/** An error in words; Retry only where trying again can help (network, 5xx), never for a refusal or a 404. */
 export function ErrorNotice({ error, onRetry }: { error: unknown; onRetry?: () => void }) {
   const message = error instanceof ApiError || error instanceof Error ? error.message : "Something went wrong.";
   const rid = error instanceof ApiError ? error.requestId : undefined;
@@ -28,7 +29,7 @@ export function ErrorNotice({ error, onRetry }: { error: unknown; onRetry?: () =
       <p className="font-semibold text-alert">That did not work</p>
       <p className="mt-1">{message}</p>
       {rid && <p className="mt-1 text-xs text-muted">Request id {rid}</p>}
-      {onRetry && (
+      {onRetry && isRetryable(error) && (
         <button type="button" onClick={onRetry} className="mt-3 rounded bg-alert px-3 py-1.5 text-white">
           Retry
         </button>

@@ -1,6 +1,7 @@
 import { queryOptions } from "@tanstack/react-query";
 import { apiGet } from "@/lib/api-client";
 import { apiPaths } from "@shared/api-paths";
+import { benchmarkLinesSchema, fixCycleSchema, waitsSchema, type LineKpi } from "@shared/schemas/benchmark-details";
 import { comebackPairsSchema, funnelSchema, shopBenchmarksSchema, trendSchema, type PeriodKind } from "@shared/schemas/benchmarks";
 
 export interface BenchmarkParams {
@@ -23,4 +24,10 @@ export const benchmarkQueries = {
       queryKey: [...benchmarkQueries.all(), "comebacks", p] as const,
       queryFn: ({ signal }) => apiGet(apiPaths.benchmarks("comebacks", { ...p }), comebackPairsSchema, signal),
     }),
+  lines: (p: BenchmarkParams & { kpi: LineKpi; shop: string; technician?: string }) =>
+    queryOptions({ queryKey: [...benchmarkQueries.all(), "lines", p] as const, queryFn: ({ signal }) => apiGet(apiPaths.benchmarks("lines", { ...p }), benchmarkLinesSchema, signal) }),
+  waits: (p: BenchmarkParams) =>
+    queryOptions({ queryKey: [...benchmarkQueries.all(), "waits", p] as const, queryFn: ({ signal }) => apiGet(apiPaths.benchmarks("waits", { ...p }), waitsSchema, signal) }),
+  fixCycle: (p: BenchmarkParams) =>
+    queryOptions({ queryKey: [...benchmarkQueries.all(), "fix-cycle", p] as const, queryFn: ({ signal }) => apiGet(apiPaths.benchmarks("fix-cycle", { ...p }), fixCycleSchema, signal) }),
 };

@@ -1,7 +1,20 @@
 import type { ReactNode } from "react";
-import type { FunnelStatus, ShareFigure, ShopBenchmark, ShopBenchmarks } from "@shared/schemas/benchmarks";
+import type { FunnelStatus, PeerSpread, PeerSummary, ShareFigure, ShopBenchmark, ShopBenchmarks } from "@shared/schemas/benchmarks";
 import { downloadText, toCsv } from "@/lib/csv";
 import { days, intervalText, pct, valueText } from "../format";
+import { lineKpiLabels, type LineKpi } from "@shared/schemas/benchmark-details";
+
+/** A figure that opens the lines behind it, for a shop whose lines the caller may see. */
+const opener = (s: ShopBenchmark, kpi: LineKpi, onOpen: (shop: string, kpi?: LineKpi) => void) => (main: ReactNode) =>
+  s.drillDown && s.shopCode ? (
+    // the figure stays part of the button's name (what a speech user says is what they see), after what it opens
+    <button type="button" onClick={() => onOpen(s.shopCode!, kpi)} className="relative text-left underline decoration-dotted hover:text-accent">
+      <span className="sr-only">{`${lineKpiLabels[kpi]} of ${s.label}: see the lines, `}</span>
+      {main}
+    </button>
+  ) : (
+    main
+  );
 
 const statusText: Record<FunnelStatus, string> = {
   above_998: "above 99.8 %",
@@ -39,14 +52,51 @@ function Cell({ main, sub }: { main: ReactNode; sub?: ReactNode }) {
 }
 
 /** Claims on time; "no data yet" in short, the reason in the cell's second line. */
-function ClaimsCell({ f }: { f: ShareFigure }) {
-  if (f.value !== null) return <Cell main={valueText(f)} sub={intervalText(f)} />;
+function ClaimsCell({ f, open }: { f: ShareFigure; open?: (main: ReactNode) => ReactNode }) {
+  if (f.value !== null) return <Cell main={open ? open(valueText(f)) : valueText(f)} sub={intervalText(f)} />;
   const [head, ...rest] = (f.note ?? "–").split(": ");
   return <Cell main={head} sub={rest.join(": ") || undefined} />;
 }
 
+/** One KPI of the other shops: each group on its own line ("3 below 4 %"), or why there is none. */
+function SpreadCell({ spread, second }: { spread: PeerSpread; second?: PeerSpread }) {
+  const lines = (sp: PeerSpread) => (sp.groups.length < 2 ? [sp.words] : sp.words.split(" · "));
+  return (
+    <td className="border-b border-line/60 px-2 py-1.5 align-top text-xs">
+      {lines(spread).map((l) => (
+        <span key={l} className="block">{l}</span>
+      ))}
+      {second && (
+        <span className="mt-1 block text-muted">
+          p90: {lines(second).join(" · ")}
+        </span>
+      )}
+    </td>
+  );
+}
+
+/** The other shops as one row of spreads: never one shop's figure (server/analytics/peer-groups.ts). */
+function PeerRow({ peers }: { peers: PeerSummary }) {
+  return (
+    <tr>
+      <td className="border-b border-line/60 px-2 py-1.5 align-top">
+        <span className="block font-semibold">Other shops ({peers.shops})</span>
+        <span className="block text-xs text-muted">in groups of 3 or more</span>
+        <span className="block text-xs text-muted">{peers.lines.words}</span>
+      </td>
+      <SpreadCell spread={peers.comeback} />
+      <Cell main="—" />
+      <SpreadCell spread={peers.efficiency} />
+      <SpreadCell spread={peers.partsWaitMedian} second={peers.partsWaitP90} />
+      <SpreadCell spread={peers.backOrder} />
+      <SpreadCell spread={peers.coldStartMeasured} />
+      <SpreadCell spread={peers.warrantyOnTime} />
+    </tr>
+  );
+}
+
 /** One row per shop (the group first) with every KPI and its formula in the column header; the full formulas below. */
-export function KpiTable({ data, onOpen }: { data: ShopBenchmarks; onOpen: (shop: string) => void }) {
+export function KpiTable({ data, onOpen }: { data: ShopBenchmarks; onOpen: (shop: string, kpi?: LineKpi) => void }) {
   const { group, formulas } = data;
   const csvColumns = [
     { key: "label", label: "Shop" },
@@ -68,16 +118,22 @@ export function KpiTable({ data, onOpen }: { data: ShopBenchmarks; onOpen: (shop
     funnel: statusText[s.comeback.funnel], efficiency: s.efficiency.value, waitMedian: s.partsWait.median, waitP90: s.partsWait.p90,
     backOrder: s.backOrder.value, coldStart: s.coldStartMeasured.value, claims: s.warrantyOnTime.value ?? s.warrantyOnTime.note,
   });
+  const { peers } = data;
+  const peerCsvRow = (p: PeerSummary) => ({
+    label: `Other shops (${p.shops}), in groups of 3 or more`, lines: p.lines.words, volumeBand: null, comeback: p.comeback.words, comebackLower: null, comebackUpper: null,
+    funnel: null, efficiency: p.efficiency.words, waitMedian: p.partsWaitMedian.words, waitP90: p.partsWaitP90.words,
+    backOrder: p.backOrder.words, coldStart: p.coldStartMeasured.words, claims: p.warrantyOnTime.words,
+  });
   return (
     <section aria-label="Shop KPIs" className="rounded-lg border border-line bg-card p-4 shadow-sm">
       <div className="mb-2 flex flex-wrap items-start justify-between gap-2">
         <div>
           <h2 className="text-base font-semibold">Shop KPIs — {data.period.label}</h2>
-          <p className="text-sm text-muted">Each column shows its formula; proportions carry a 95 % Wilson interval and are not rated below 30 lines.</p>
+          <p className="text-sm text-muted">Each column shows its formula; proportions carry a 95 % Wilson interval and are not rated below 30 lines. Select a figure of your shops to see the lines behind it.</p>
         </div>
         <button
           type="button"
-          onClick={() => downloadText(`benchmarks-${data.period.key}.csv`, toCsv(csvColumns, data.shops.map(csvRow)))}
+          onClick={() => downloadText(`benchmarks-${data.period.key}.csv`, toCsv(csvColumns, [...data.shops.map(csvRow), ...(peers ? [peerCsvRow(peers)] : [])]))}
           className="rounded border border-line px-2 py-1 text-sm hover:bg-paper"
         >
           CSV
@@ -125,15 +181,16 @@ export function KpiTable({ data, onOpen }: { data: ShopBenchmarks; onOpen: (shop
                 />
                 <Cell main={<span className={`rounded px-1.5 py-0.5 text-xs font-semibold ${statusClass[s.comeback.funnel]}`}>{statusText[s.comeback.funnel]}</span>} />
                 <Cell
-                  main={s.efficiency.value === null ? s.efficiency.note : pct(s.efficiency.value)}
+                  main={opener(s, "efficiency", onOpen)(s.efficiency.value === null ? s.efficiency.note : pct(s.efficiency.value))}
                   sub={s.efficiency.standardHours === null ? undefined : `${Math.round(s.efficiency.standardHours).toLocaleString("en-US")} ÷ ${Math.round(s.efficiency.actualHours!).toLocaleString("en-US")} h`}
                 />
-                <Cell main={s.partsWait.n === 0 ? s.partsWait.note : `${days(s.partsWait.median)} · ${days(s.partsWait.p90)}`} sub={s.partsWait.n ? `${s.partsWait.n} part lines` : undefined} />
-                <Cell main={valueText(s.backOrder)} sub={intervalText(s.backOrder)} />
-                <Cell main={valueText(s.coldStartMeasured)} sub={intervalText(s.coldStartMeasured)} />
-                <ClaimsCell f={s.warrantyOnTime} />
+                <Cell main={opener(s, "partsWait", onOpen)(s.partsWait.n === 0 ? s.partsWait.note : `${days(s.partsWait.median)} · ${days(s.partsWait.p90)}`)} sub={s.partsWait.n ? `${s.partsWait.n} part lines` : undefined} />
+                <Cell main={opener(s, "backOrder", onOpen)(valueText(s.backOrder))} sub={intervalText(s.backOrder)} />
+                <Cell main={opener(s, "coldStart", onOpen)(valueText(s.coldStartMeasured))} sub={intervalText(s.coldStartMeasured)} />
+                <ClaimsCell f={s.warrantyOnTime} open={s.drillDown ? opener(s, "claims", onOpen) : undefined} />
               </tr>
             ))}
+            {peers && <PeerRow peers={peers} />}
           </tbody>
         </table>
       </div>

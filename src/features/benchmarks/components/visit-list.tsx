@@ -79,7 +79,17 @@ export function OwnShopSummary({ data, onOpen }: { data: ShopBenchmarks; onOpen:
           </button>
         </div>
       ))}
-      {data.formulas.anonymity && <p className="mt-3 text-xs text-muted">{data.formulas.anonymity}</p>}
+      {data.peers && (
+        <p className="mt-3">
+          The other shops' comeback rates, in groups of 3 or more: {data.peers.comeback.words}.
+        </p>
+      )}
+      {data.formulas.anonymity && (
+        <div className="mt-3 text-xs text-muted">
+          <p className="font-semibold text-ink">How other shops are shown</p>
+          <p>{data.formulas.anonymity}</p>
+        </div>
+      )}
     </section>
   );
 }

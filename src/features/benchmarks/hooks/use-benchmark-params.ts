@@ -1,6 +1,7 @@
 import { useMemo } from "react";
 import { useSearchParams } from "react-router-dom";
 import { benchmarkQuerySchema } from "@shared/schemas/benchmarks";
+import { lineKpiSchema } from "@shared/schemas/benchmark-details";
 import type { BenchmarkParams } from "../api/benchmark-queries";
 
 /** The period and comeback window a URL's search params hold; invalid values fall back to the defaults. */
@@ -20,6 +21,9 @@ export function useBenchmarkParams() {
   const params = useMemo(() => readBenchmarkParams(search), [search]);
   const drill = search.get("shop") ?? undefined;
   const technician = search.get("tech") ?? undefined;
+  const parsedKpi = lineKpiSchema.safeParse(search.get("kpi"));
+  /** the KPI whose lines are open; none: the comeback pairs */
+  const kpi = parsedKpi.success ? parsedKpi.data : undefined;
   const update = (next: Record<string, string | number | undefined>) => {
     const merged = new URLSearchParams(search);
     for (const [k, v] of Object.entries(next)) {
@@ -28,5 +32,5 @@ export function useBenchmarkParams() {
     }
     setSearch(merged, { replace: true });
   };
-  return { params, drill, technician, update };
+  return { params, drill, technician, kpi, update };
 }
