@@ -12,6 +12,6 @@ export { readShopRegister } from "./shops/read-register.js";
 export { listProfiles } from "./profiles/registry.js";
 export { currentProfiles, storedProfile, saveProfileVersion, DEFAULTS_AUTHOR, type VersionedProfile } from "./profiles/profile-store.js";
 export { rebuildExposureIfCleared, refreshExposure, type ExposureRefresh } from "./derived/refresh-exposure.js";
-export { generateDemo, type Manifest } from "./demo/generate.js";
+export { GENERATOR_VERSION, generateDemo, type Manifest } from "./demo/generate.js";
 export { shops as demoShops } from "./demo/scenario.js";
 export { rejectedLineKey } from "./load/reject-keys.js";

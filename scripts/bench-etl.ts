@@ -37,7 +37,7 @@ async function writeLines(file: string, lines: Iterable<string>): Promise<void> 
   await once(out, "finish");
 }
 
-const models = ["T18", "T35", "L70", "B50", "L85T", "L110T"];
+const models = ["WRN", "DLV", "SKL", "TMB", "TRN", "GRS"];
 const serial = (i: number) => `BM-${String(i).padStart(6, "0")}`;
 
 function* machineRows(n: number): Generator<string> {

@@ -53,12 +53,12 @@ export const engineFamilies = [
 ] as const;
 
 export const modelLines = [
-  { code: "T18", name: "T18 mini excavator", engineFamily: "K18-3G" },
-  { code: "T35", name: "T35 compact excavator", engineFamily: "K26-4R" },
-  { code: "L70", name: "L70 skid-steer loader", engineFamily: "K26-4R" },
-  { code: "B50", name: "B50 compact wheel loader", engineFamily: "K26-4R" },
-  { code: "L85T", name: "L85T compact track loader", engineFamily: "K38-4H" },
-  { code: "L110T", name: "L110T track loader", engineFamily: "K38-4H" },
+  { code: "WRN", name: "Wrenlet mini excavator", engineFamily: "K18-3G" },
+  { code: "DLV", name: "Delvane compact excavator", engineFamily: "K26-4R" },
+  { code: "SKL", name: "Skeller skid-steer", engineFamily: "K26-4R" },
+  { code: "TMB", name: "Tumbrel compact wheel loader", engineFamily: "K26-4R" },
+  { code: "TRN", name: "Trundle compact track loader", engineFamily: "K38-4H" },
+  { code: "GRS", name: "Grister track loader", engineFamily: "K38-4H" },
 ] as const;
 
 /** Measurement kinds and the one canonical unit each is stored in. */

@@ -49,12 +49,12 @@ export function futureYear(iso: string, after: number): string {
   return `${swapped > after ? swapped : year + 10}${iso.slice(4)}`;
 }
 
-/** A model code as a clerk might type it, still recognisable after trimming and case folding: "l70 ", " T35", "L-70". */
+/** A model code as a clerk might type it, still recognisable after trimming and case folding: "skl ", " DLV", "S-KL". */
 export function modelVariant(rng: Rng, code: string): string {
   return rng.pick([`${code.toLowerCase()} `, ` ${code}`, `${code.slice(0, 1)}-${code.slice(1)}`, code.toLowerCase()]);
 }
 
-/** A model code of no model line at all: a suffixed code ("L70X") or a code the maker never used. */
+/** A model code of no model line at all: a suffixed code ("SKLQ") or an invented code the maker never used ("QZV"). */
 export function unknownModel(rng: Rng, code: string): string {
-  return rng.pick([`${code}X`, "Q40", "M22", "T27", "L95", "B65"]);
+  return rng.pick([`${code}Q`, "QZV", "XJQ", "ZQX", "JVQ", "VQZ"]);
 }

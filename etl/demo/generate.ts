@@ -41,8 +41,15 @@ export interface ManifestFile {
   injected?: Partial<FaultTally>;
 }
 
+/**
+ * Raised whenever the generator writes different files for the same seed, scale and anchor (a renamed model line,
+ * open work at the end of history), so a demo folder written by an older generator is written again, not reloaded.
+ */
+export const GENERATOR_VERSION = 3;
+
 export interface Manifest {
   generator: "ironledger-demo";
+  version: number;
   seed: number;
   scale: number;
   /** the history ends the day before this date */
@@ -181,7 +188,7 @@ export async function generateDemo(options: GenerateOptions): Promise<Manifest> 
     ...shopFiles,
   );
   const manifest: Manifest = {
-    generator: "ironledger-demo", seed, scale, anchor: timeline.anchor,
+    generator: "ironledger-demo", version: GENERATOR_VERSION, seed, scale, anchor: timeline.anchor,
     shift: { years: timeline.years, days: shiftDays, padDays: timeline.padDays },
     window: { from: timeline.from, to: timeline.to }, machines: fleet.length,
     files, injected: total, technicians,

@@ -14,7 +14,7 @@ export const WEATHER_START = dayOf("2020-03-01");
 export const WEATHER_BURN_IN_DAYS = 60;
 
 export type EngineFamily = "K18-3G" | "K26-4R" | "K38-4H";
-export type ModelCode = "T18" | "T35" | "L70" | "B50" | "L85T" | "L110T";
+export type ModelCode = "WRN" | "DLV" | "SKL" | "TMB" | "TRN" | "GRS";
 
 export interface ShopDef {
   code: string;
@@ -47,12 +47,12 @@ export const shops: readonly ShopDef[] = [
 ];
 
 export const models: readonly { code: ModelCode; family: EngineFamily; machines: number }[] = [
-  { code: "T18", family: "K18-3G", machines: 600 },
-  { code: "T35", family: "K26-4R", machines: 850 },
-  { code: "L70", family: "K26-4R", machines: 1050 },
-  { code: "B50", family: "K26-4R", machines: 400 },
-  { code: "L85T", family: "K38-4H", machines: 700 },
-  { code: "L110T", family: "K38-4H", machines: 400 },
+  { code: "WRN", family: "K18-3G", machines: 600 },
+  { code: "DLV", family: "K26-4R", machines: 850 },
+  { code: "SKL", family: "K26-4R", machines: 1050 },
+  { code: "TMB", family: "K26-4R", machines: 400 },
+  { code: "TRN", family: "K38-4H", machines: 700 },
+  { code: "GRS", family: "K38-4H", machines: 400 },
 ];
 
 export const cylinders: Record<EngineFamily, number> = { "K18-3G": 3, "K26-4R": 4, "K38-4H": 4 };
@@ -103,7 +103,7 @@ export const processes: readonly ComponentProcess[] = [
   { code: "ENG-AIR-TURBO", families: ["K38-4H"], beta: 2.0, eta: 12000, engineCoverage: true },
   { code: "HYD-PMP-MAIN", families: ALL, beta: 2.2, eta: 12000, engineCoverage: false },
   { code: "HYD-LIN-HOSE", families: ALL, beta: 1.0, eta: 3000, engineCoverage: false },
-  { code: "UND-TRK-ROLLER", families: ["K38-4H"], models: ["L85T", "L110T"], beta: 2.5, eta: 4500, engineCoverage: false },
+  { code: "UND-TRK-ROLLER", families: ["K38-4H"], models: ["TRN", "GRS"], beta: 2.5, eta: 4500, engineCoverage: false },
   { code: "ELE-HAR-CONN", families: ALL, beta: 1.0, eta: 18000, engineCoverage: false },
 ];
 

@@ -27,7 +27,7 @@ export interface MachineStage {
   warranty_engine_hours: number | null;
 }
 
-/** A model code as written ("l70 ", "L-70", a shop's own code) → Ironledger's model line, or null. */
+/** A model code as written ("skl ", "S-KL", a shop's own code) → Ironledger's model line, or null. */
 export function resolveModel(table: Record<string, string>, raw: string): (typeof modelLines)[number] | null {
   const mapped = mapCode(table, raw);
   return modelByCode.get(mapped) ?? modelByCode.get(mapped.replace(/[-\s]+/g, "")) ?? null;

@@ -77,7 +77,7 @@ export function plainText(text: string): string {
   return text.normalize("NFKC").replace(INVISIBLE, "").replace(ODD_SPACE, " ");
 }
 
-/** Serials and part numbers: trimmed, upper-case, without '-' and spaces ("kt-35 0012" → "KT350012"). */
+/** Serials and part numbers: trimmed, upper-case, without '-' and spaces ("kd-lv 0012" → "KDLV0012"). */
 export function normaliseIdentifier(text: string): string {
   return plainText(text).trim().toUpperCase().replace(/[-\s]+/g, "");
 }

@@ -3,7 +3,7 @@ import { existsSync, mkdirSync, readFileSync, writeFileSync } from "node:fs";
 import { format } from "date-fns";
 import type pg from "pg";
 import type { Db } from "../db/database.js";
-import { demoShops, generateDemo, loadFile, refreshExposure, upsertShops, type Manifest } from "../../etl/index.js";
+import { demoShops, GENERATOR_VERSION, generateDemo, loadFile, refreshExposure, upsertShops, type Manifest } from "../../etl/index.js";
 
 export interface DemoLoadSummary {
   files: number;
@@ -61,7 +61,7 @@ export async function loadDemo(
   let manifest: Manifest | null = null;
   if (existsSync(manifestPath)) {
     const m = JSON.parse(readFileSync(manifestPath, "utf8")) as Manifest;
-    if (m.seed === seed && m.scale === scale && m.anchor === anchor) manifest = m;
+    if (m.version === GENERATOR_VERSION && m.seed === seed && m.scale === scale && m.anchor === anchor) manifest = m;
   }
   if (!manifest) {
     log(`Generating the demo world (seed ${seed}, scale ${scale}, history up to the day before ${anchor})…`);

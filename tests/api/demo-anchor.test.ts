@@ -1,4 +1,4 @@
-import { mkdtemp, readFile, rm } from "node:fs/promises";
+import { mkdtemp, readFile, rm, writeFile } from "node:fs/promises";
 import { tmpdir } from "node:os";
 import path from "node:path";
 import { sql } from "kysely";
@@ -81,6 +81,23 @@ describe("loadDemo(db, pool, { dir }) over a directory generated for another anc
       expect(manifest.anchor).toBe("2026-02-01");
       const d = (await sql<{ d: string }>`SELECT max(opened_date)::text AS d FROM fact_repair_line`.execute(other.db)).rows[0]!.d;
       expect(d).toBe("2026-01-31");
+    } finally {
+      await other.drop();
+    }
+  }, 300_000);
+});
+
+describe("loadDemo(db, pool, { dir }) over a directory an older generator wrote", () => {
+  it("writes the world again rather than loading files of another generator version", async () => {
+    const manifestPath = path.join(dir, "manifest.json");
+    const current = JSON.parse(await readFile(manifestPath, "utf8")) as Manifest;
+    await writeFile(manifestPath, JSON.stringify({ ...current, version: current.version - 1 }));
+    const other = await freshTestDb();
+    try {
+      const lines: string[] = [];
+      await loadDemo(other.db, other.pool, { dir, seed: 1, scale: SCALE, anchor: current.anchor, log: (l) => lines.push(l) });
+      expect(lines.some((l) => l.startsWith("Generating"))).toBe(true);
+      expect((JSON.parse(await readFile(manifestPath, "utf8")) as Manifest).version).toBe(current.version);
     } finally {
       await other.drop();
     }

@@ -159,9 +159,9 @@ function weather(shop: string, from: string, days: number, shift = 0): string[] 
 
 const correction = [
   JOBS_HEADER,
-  job("S4", "R-101", "KL70-20002", "2024-01-05", 710),
-  job("S5", "R-103", "KL70-20002", "2024-02-07", 780),
-  job("S4", "R-104", "KL70-20002", "2024-04-10", 1200),
+  job("S4", "R-101", "KSKL-20002", "2024-01-05", 710),
+  job("S5", "R-103", "KSKL-20002", "2024-02-07", 780),
+  job("S4", "R-104", "KSKL-20002", "2024-04-10", 1200),
 ];
 
 const steps: { name: string; file: string }[] = [
@@ -171,11 +171,11 @@ const steps: { name: string; file: string }[] = [
     name: "telematics hours",
     file: write("hours-1.csv", [
       HOURS_HEADER,
-      "KT35-20001,2023-10-01,3700,telematics,", "KT35-20001,2023-11-01,3850,telematics,", "KT35-20001,2023-12-01,3990,telematics,",
-      "KT35-20001,2024-02-15,4100,telematics,",
-      "KL70-20002,2023-06-01,400,telematics,", "KL70-20002,2023-09-01,560,telematics,", "KL70-20002,2023-12-01,690,telematics,",
-      "KL70-20002,2024-02-01,760,telematics,",
-      "KT18-20003,2023-01-01,150,telematics,", "KT18-20003,2023-08-01,260,telematics,", "KT18-20003,2024-02-20,360,telematics,",
+      "KDLV-20001,2023-10-01,3700,telematics,", "KDLV-20001,2023-11-01,3850,telematics,", "KDLV-20001,2023-12-01,3990,telematics,",
+      "KDLV-20001,2024-02-15,4100,telematics,",
+      "KSKL-20002,2023-06-01,400,telematics,", "KSKL-20002,2023-09-01,560,telematics,", "KSKL-20002,2023-12-01,690,telematics,",
+      "KSKL-20002,2024-02-01,760,telematics,",
+      "KWRN-20003,2023-01-01,150,telematics,", "KWRN-20003,2023-08-01,260,telematics,", "KWRN-20003,2024-02-20,360,telematics,",
     ]),
   },
   { name: "a jobs export with a heater-plug failure", file: fixture("jobs-export-1.csv") },
@@ -185,18 +185,18 @@ const steps: { name: string; file: string }[] = [
   { name: "a correction that changes readings and moves a line to another machine", file: write("jobs-correction.csv", correction) },
   {
     name: "hour readings on a replaced meter, and one that makes an unchanged line's rise too steep",
-    file: write("hours-2.csv", [HOURS_HEADER, "KT35-20001,2024-04-01,400,telematics,", "KL70-20002,2024-04-09,1150,telematics,"]),
+    file: write("hours-2.csv", [HOURS_HEADER, "KDLV-20001,2024-04-01,400,telematics,", "KSKL-20002,2024-04-09,1150,telematics,"]),
   },
   {
     name: "a re-export whose unchanged line is judged again and set aside",
-    file: write("jobs-correction-2.csv", [...correction, job("S5", "R-102", "KT18-20003", "2024-01-07", 300, "HYD-LIN-HOSE", "", "1.4")]),
+    file: write("jobs-correction-2.csv", [...correction, job("S5", "R-102", "KWRN-20003", "2024-01-07", 300, "HYD-LIN-HOSE", "", "1.4")]),
   },
   {
     name: "heater-plug replacements that move the lot",
     file: write("jobs-plugs.csv", [
       JOBS_HEADER,
-      job("S4", "R-200", "KT35-20001", "2023-11-15", 3920, HEATER_PLUG, "BT-2301"),
-      job("S4", "R-201", "KL70-20002", "2024-03-20", 900, HEATER_PLUG, "QL-9090"),
+      job("S4", "R-200", "KDLV-20001", "2023-11-15", 3920, HEATER_PLUG, "BT-2301"),
+      job("S4", "R-201", "KSKL-20002", "2024-03-20", 900, HEATER_PLUG, "QL-9090"),
     ]),
   },
   {
@@ -207,14 +207,14 @@ const steps: { name: string; file: string }[] = [
     name: "master data that moves a machine to another shop and cohort",
     file: write("machines-correction.csv", [
       readFileSync(fixture("machines.csv"), "utf8").split("\n")[0],
-      "KL70-20002,L70,E26-60002,2022-03-14,2022-04-20,2.0,S5,QL-2201,N,,24,2000,36,3000",
-      "KT18-20003,T18,E18-60003,2022-05-02,2022-06-30,0.8,S5,QL-2299,Y,2022-06-30,24,2000,36,3000",
+      "KSKL-20002,SKL,E26-60002,2022-03-14,2022-04-20,2.0,S5,QL-2201,N,,24,2000,36,3000",
+      "KWRN-20003,WRN,E18-60003,2022-05-02,2022-06-30,0.8,S5,QL-2299,Y,2022-06-30,24,2000,36,3000",
     ]),
   },
   { name: "the same master file again (already loaded)", file: path.join(dir, "machines-correction.csv") },
   {
     name: "a move of home shop dated in the middle of a machine's trail",
-    file: write("machines-move.csv", [MACHINES_HEADER + ",home_shop_since", "KT35-20001,T35,E26-60001,2021-10-04,2021-12-01,1.5,S5,BT-2109,N,,24,2000,36,3000,2024-01-15"]),
+    file: write("machines-move.csv", [MACHINES_HEADER + ",home_shop_since", "KDLV-20001,DLV,E26-60001,2021-10-04,2021-12-01,1.5,S5,BT-2109,N,,24,2000,36,3000,2024-01-15"]),
   },
   {
     name: "weather of both shops in the months of the move",
@@ -224,13 +224,13 @@ const steps: { name: string; file: string }[] = [
     name: "a move back dated before the current home shop began (rejected), and one after it",
     file: write("machines-move-back.csv", [
       MACHINES_HEADER + ",home_shop_since",
-      "KT35-20001,T35,E26-60001,2021-10-04,2021-12-01,1.5,S4,BT-2109,N,,24,2000,36,3000,2024-01-10",
-      "KT18-20003,T18,E18-60003,2022-05-02,2022-06-30,0.8,S4,QL-2299,Y,2022-06-30,24,2000,36,3000,2024-02-01",
+      "KDLV-20001,DLV,E26-60001,2021-10-04,2021-12-01,1.5,S4,BT-2109,N,,24,2000,36,3000,2024-01-10",
+      "KWRN-20003,WRN,E18-60003,2022-05-02,2022-06-30,0.8,S4,QL-2299,Y,2022-06-30,24,2000,36,3000,2024-02-01",
     ]),
   },
   {
     name: "a third home shop for the moved machine, from the middle of its trail",
-    file: write("machines-move-again.csv", [MACHINES_HEADER + ",home_shop_since", "KT35-20001,T35,E26-60001,2021-10-04,2021-12-01,1.5,S4,BT-2109,N,,24,2000,36,3000,2024-03-03"]),
+    file: write("machines-move-again.csv", [MACHINES_HEADER + ",home_shop_since", "KDLV-20001,DLV,E26-60001,2021-10-04,2021-12-01,1.5,S4,BT-2109,N,,24,2000,36,3000,2024-03-03"]),
   },
 ];
 
@@ -283,37 +283,37 @@ describe("exposure aggregates kept by difference", () => {
     expect([...seen("temp_band")].sort()).toEqual([...storageBands.map((b) => b.id), UNKNOWN_BAND].sort());
     expect(seen("hour_band")).toEqual(new Set(["0-500", "500-1k", "1k-2k", "2k-3k", "3k-4k", "4k-6k"]));
     expect(seen("lot")).toEqual(new Set(["BT-2109", "BT-2301", "QL-2201", "QL-9090", "QL-2299"]));
-    // the moves: KT35-20001 at S4, at S5 from 2024-01-15, at S4 again from 2024-03-03; KT18-20003 at S4 from 2024-02-01;
-    // KL70-20002 at S5 from the load date of its correction
+    // the moves: KDLV-20001 at S4, at S5 from 2024-01-15, at S4 again from 2024-03-03; KWRN-20003 at S4 from 2024-02-01;
+    // KSKL-20002 at S5 from the load date of its correction
     const periods = await sql<{ serial: string; shop: string; valid_from: string; valid_to: string | null }>`
       SELECT m.serial, s.shop_code AS shop, h.valid_from::text AS valid_from, h.valid_to::text AS valid_to
       FROM machine_home_shop h JOIN dim_machine m USING (machine_key) JOIN dim_shop s ON s.shop_key = h.shop_key
       ORDER BY m.serial, h.valid_from`.execute(inc.db);
     expect(periods.rows).toEqual([
-      { serial: "KL7020002", shop: "S4", valid_from: "-infinity", valid_to: TODAY },
-      { serial: "KL7020002", shop: "S5", valid_from: TODAY, valid_to: null },
-      { serial: "KT1820003", shop: "S5", valid_from: "-infinity", valid_to: "2024-02-01" },
-      { serial: "KT1820003", shop: "S4", valid_from: "2024-02-01", valid_to: null },
-      { serial: "KT3520001", shop: "S4", valid_from: "-infinity", valid_to: "2024-01-15" },
-      { serial: "KT3520001", shop: "S5", valid_from: "2024-01-15", valid_to: "2024-03-03" },
-      { serial: "KT3520001", shop: "S4", valid_from: "2024-03-03", valid_to: null },
+      { serial: "KDLV20001", shop: "S4", valid_from: "-infinity", valid_to: "2024-01-15" },
+      { serial: "KDLV20001", shop: "S5", valid_from: "2024-01-15", valid_to: "2024-03-03" },
+      { serial: "KDLV20001", shop: "S4", valid_from: "2024-03-03", valid_to: null },
+      { serial: "KSKL20002", shop: "S4", valid_from: "-infinity", valid_to: TODAY },
+      { serial: "KSKL20002", shop: "S5", valid_from: TODAY, valid_to: null },
+      { serial: "KWRN20003", shop: "S5", valid_from: "-infinity", valid_to: "2024-02-01" },
+      { serial: "KWRN20003", shop: "S4", valid_from: "2024-02-01", valid_to: null },
     ]);
     const shops = await sql<{ serial: string; shops: string }>`
       SELECT m.serial, string_agg(DISTINCT s.shop_code, ',' ORDER BY s.shop_code) AS shops
       FROM agg_exposure_machine c JOIN dim_machine m USING (machine_key) JOIN dim_shop s ON s.shop_key = c.shop_key
       GROUP BY m.serial ORDER BY m.serial`.execute(inc.db);
     expect(shops.rows).toEqual([
-      { serial: "KL7020002", shops: "S4" },
-      { serial: "KT1820003", shops: "S4,S5" },
-      { serial: "KT3520001", shops: "S4,S5" },
+      { serial: "KDLV20001", shops: "S4,S5" },
+      { serial: "KSKL20002", shops: "S4" },
+      { serial: "KWRN20003", shops: "S4,S5" },
     ]);
     const lines = await sql<{ ro_number: string; serial: string; hour_valid: boolean; meter_generation: number }>`
       SELECT f.ro_number, m.serial, f.hour_valid, f.meter_generation FROM fact_repair_line f JOIN dim_machine m USING (machine_key)
       WHERE f.ro_number IN ('R-103', 'R-104', 'R-7') ORDER BY f.ro_number`.execute(inc.db);
     expect(lines.rows).toEqual([
-      { ro_number: "R-103", serial: "KL7020002", hour_valid: true, meter_generation: 0 }, // moved from KT18-20003
-      { ro_number: "R-104", serial: "KL7020002", hour_valid: false, meter_generation: 0 }, // set aside when judged again
-      { ro_number: "R-7", serial: "KT3520001", hour_valid: true, meter_generation: 1 }, // the replaced meter's first reading
+      { ro_number: "R-103", serial: "KSKL20002", hour_valid: true, meter_generation: 0 }, // moved from KWRN-20003
+      { ro_number: "R-104", serial: "KSKL20002", hour_valid: false, meter_generation: 0 }, // set aside when judged again
+      { ro_number: "R-7", serial: "KDLV20001", hour_valid: true, meter_generation: 1 }, // the replaced meter's first reading
     ]);
   });
 });

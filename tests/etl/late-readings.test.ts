@@ -52,9 +52,9 @@ describe("a reading that arrives late", () => {
     t = await freshTestDb();
     await upsertShops(t.pool, [{ code: "S4", name: "Fourth" }, { code: "S5", name: "Fifth" }]);
     await loadFile(t.pool, { path: fixture("machines.csv"), loadedBy: "test", today: TODAY });
-    // KT35-20001: 1,000 h on 10 January, 1,100 h on 10 March, 1,150 h on 30 March
+    // KDLV-20001: 1,000 h on 10 January, 1,100 h on 10 March, 1,150 h on 30 March
     await loadFile(t.pool, {
-      path: file("first.csv", ["S4,L-1,1,KT35-20001,2024-01-10,1000,ENG-CSA-HPLUG", "S4,L-2,1,KT35-20001,2024-03-10,1100,ENG-CSA-HPLUG", "S4,L-3,1,KT35-20001,2024-03-30,1150,ENG-CSA-HPLUG"]),
+      path: file("first.csv", ["S4,L-1,1,KDLV-20001,2024-01-10,1000,ENG-CSA-HPLUG", "S4,L-2,1,KDLV-20001,2024-03-10,1100,ENG-CSA-HPLUG", "S4,L-3,1,KDLV-20001,2024-03-30,1150,ENG-CSA-HPLUG"]),
       loadedBy: "test",
       today: TODAY,
     });
@@ -82,13 +82,13 @@ describe("a reading that arrives late", () => {
   it("leaves every stored reading valid when nothing arrives late", async () => {
     expect((await verdicts("L")).every((v) => v.valid)).toBe(true);
     expect((await t.pool.query(`SELECT 1 FROM hour_verdict_change`)).rowCount).toBe(0);
-    expect(await trailEnd("KT35-20001")).toBe(1150);
+    expect(await trailEnd("KDLV-20001")).toBe(1150);
   });
 
   it("sets aside the stored readings the late one contradicts, with the reason, and records the change", async () => {
     // 1,300 h on 10 February: 300 h in 31 days after January (fine), but March's 1,100 h and 1,150 h are now
     // more than 2 h below an earlier-dated reading
-    const s = await load(file("late.csv", ["S4,L-9,1,KT35-20001,2024-02-10,1300,ENG-CSA-HPLUG"]));
+    const s = await load(file("late.csv", ["S4,L-9,1,KDLV-20001,2024-02-10,1300,ENG-CSA-HPLUG"]));
     expect(s).toMatchObject({ read: 1, inserted: 1, rejected: 0 });
     lateBatch = s.batchId;
     const v = await verdicts("L");
@@ -101,14 +101,14 @@ describe("a reading that arrives late", () => {
       { d: "2024-03-30", h: 1150, source: "ro", was_valid: true, now_valid: false, reason: v[3].reason },
     ]);
     // the exposure refresh after the load counts the machine's trail up to 1,300 h, March set aside
-    expect(await trailEnd("KT35-20001")).toBe(1300);
+    expect(await trailEnd("KDLV-20001")).toBe(1300);
   });
 
   it("judges a rise faster than a day allows since the late reading, and leaves the rest alone", async () => {
-    // KL70-20002: 700 h on 1 May, 760 h on 20 May; then 20 May's neighbour arrives: 745 h on 19 May → 15 h in a day, fine;
-    // and KT18-20003: 300 h on 1 May, 340 h on 3 May; 301 h on 2 May arrives late → 39 h in the day after it: set aside
-    await load(file("may.csv", ["S4,M-1,1,KL70-20002,2024-05-01,700,HYD-LIN-HOSE", "S4,M-2,1,KL70-20002,2024-05-20,760,HYD-LIN-HOSE", "S5,M-3,1,KT18-20003,2024-05-01,300,ENG-CSA-RELAY", "S5,M-4,1,KT18-20003,2024-05-03,340,ENG-CSA-RELAY"]));
-    const s = await load(file("may-late.csv", ["S4,M-5,1,KL70-20002,2024-05-19,745,HYD-LIN-HOSE", "S5,M-6,1,KT18-20003,2024-05-02,301,ENG-CSA-RELAY"]));
+    // KSKL-20002: 700 h on 1 May, 760 h on 20 May; then 20 May's neighbour arrives: 745 h on 19 May → 15 h in a day, fine;
+    // and KWRN-20003: 300 h on 1 May, 340 h on 3 May; 301 h on 2 May arrives late → 39 h in the day after it: set aside
+    await load(file("may.csv", ["S4,M-1,1,KSKL-20002,2024-05-01,700,HYD-LIN-HOSE", "S4,M-2,1,KSKL-20002,2024-05-20,760,HYD-LIN-HOSE", "S5,M-3,1,KWRN-20003,2024-05-01,300,ENG-CSA-RELAY", "S5,M-4,1,KWRN-20003,2024-05-03,340,ENG-CSA-RELAY"]));
+    const s = await load(file("may-late.csv", ["S4,M-5,1,KSKL-20002,2024-05-19,745,HYD-LIN-HOSE", "S5,M-6,1,KWRN-20003,2024-05-02,301,ENG-CSA-RELAY"]));
     const r = await t.pool.query<Verdict>(
       `SELECT ro_number AS ro, hour_valid AS valid, hour_invalid_reason AS reason FROM fact_repair_line WHERE ro_number LIKE 'M-%' ORDER BY ro_number`,
     );
@@ -118,11 +118,11 @@ describe("a reading that arrives late", () => {
   });
 
   it("makes valid again the readings set aside by a comparison with a reading the new order condemns", async () => {
-    // KT35-20001 holds 1,000 h (10 Jan), 1,300 h (10 Feb), and 1,100 h (10 Mar) and 1,150 h (30 Mar) set aside
+    // KDLV-20001 holds 1,000 h (10 Jan), 1,300 h (10 Feb), and 1,100 h (10 Mar) and 1,150 h (30 Mar) set aside
     // as below 1,300 h. 1,010 h on 5 February arrives: 10 Feb's 1,300 h is now a rise of 290 h in 5 days
     // (more than 5 × 24 = 120 h): set aside. Compared with the valid readings only, 10 March's 1,100 h is
     // 90 h in 34 days since 1,010 h and 30 March's 1,150 h 50 h in 20 days: both valid again.
-    const s = await load(file("february.csv", ["S4,L-10,1,KT35-20001,2024-02-05,1010,ENG-CSA-HPLUG"]));
+    const s = await load(file("february.csv", ["S4,L-10,1,KDLV-20001,2024-02-05,1010,ENG-CSA-HPLUG"]));
     expect(s).toMatchObject({ read: 1, inserted: 1, rejected: 0 });
     const v = await verdicts("L");
     expect(v).toEqual([
@@ -150,21 +150,21 @@ describe("a reading that arrives late", () => {
         `${lateBatch} brought a reading of this machine dated 2024-02-10)`,
     );
     // the exposure refresh after the load sees the trail end at 30 March's 1,150 h again
-    expect(await trailEnd("KT35-20001")).toBe(1150);
+    expect(await trailEnd("KDLV-20001")).toBe(1150);
   });
 
   it("makes valid again a meter reading whose rise looked too fast until a reading between arrives", async () => {
-    // KL70-20002, telematics: 800 h on 1 June, 830 h on 2 June, a rise of 30 h in a day: set aside. A repair
+    // KSKL-20002, telematics: 800 h on 1 June, 830 h on 2 June, a rise of 30 h in a day: set aside. A repair
     // order read 810 h later on 1 June: 10 h the same day, then 20 h to 2 June's 830 h: valid again.
-    await load(write("june-hours.csv", [HOURS_HEADER, "KL70-20002,2024-06-01,800,telematics,", "KL70-20002,2024-06-02,830,telematics,"]));
+    await load(write("june-hours.csv", [HOURS_HEADER, "KSKL-20002,2024-06-01,800,telematics,", "KSKL-20002,2024-06-02,830,telematics,"]));
     const reading = async () =>
       (await t.pool.query<{ valid: boolean; reason: string | null; batch: number }>(
         `SELECT valid, invalid_reason AS reason, batch_id::int AS batch FROM fact_meter_reading WHERE source = 'telematics' AND reading_date = '2024-06-02'`,
       )).rows[0];
     expect(await reading()).toMatchObject({ valid: false, reason: "rose 30 h in 1 day(s) since 800 h on 2024-06-01" });
-    expect(await trailEnd("KL70-20002")).toBe(800);
+    expect(await trailEnd("KSKL-20002")).toBe(800);
 
-    const s = await load(file("june-ro.csv", ["S4,N-1,1,KL70-20002,2024-06-01,810,HYD-LIN-HOSE"]));
+    const s = await load(file("june-ro.csv", ["S4,N-1,1,KSKL-20002,2024-06-01,810,HYD-LIN-HOSE"]));
     // the reading is stamped with the batch that changed its verdict, as every row whose content changes
     expect(await reading()).toEqual({ valid: true, reason: null, batch: s.batchId });
     expect(await verdicts("N")).toEqual([{ ro: "N-1", valid: true, reason: null }]);
@@ -172,18 +172,18 @@ describe("a reading that arrives late", () => {
     expect(changes).toHaveLength(1);
     expect(changes[0]).toMatchObject({ d: "2024-06-02", h: 830, source: "telematics", was_valid: false, now_valid: true });
     expect(changes[0].reason).toMatch(/\(it had been set aside: rose 30 h in 1 day\(s\) since 800 h on 2024-06-01\)$/);
-    expect(await trailEnd("KL70-20002")).toBe(830);
+    expect(await trailEnd("KSKL-20002")).toBe(830);
   });
 
   it("keeps a reading set aside by a rule it does not own as it is", async () => {
-    // KT18-20003: 500 h on 1 July, 540 h on 2 July (40 h in a day: set aside), 545 h on 3 July (5 h after 540 h
+    // KWRN-20003: 500 h on 1 July, 540 h on 2 July (40 h in a day: set aside), 545 h on 3 July (5 h after 540 h
     // in the same file: valid), then set aside by another rule (a reason the re-judging does not own).
-    await load(file("july.csv", ["S5,P-1,1,KT18-20003,2024-07-01,500,ENG-CSA-RELAY", "S5,P-2,1,KT18-20003,2024-07-02,540,ENG-CSA-RELAY", "S5,P-3,1,KT18-20003,2024-07-03,545,ENG-CSA-RELAY"]));
+    await load(file("july.csv", ["S5,P-1,1,KWRN-20003,2024-07-01,500,ENG-CSA-RELAY", "S5,P-2,1,KWRN-20003,2024-07-02,540,ENG-CSA-RELAY", "S5,P-3,1,KWRN-20003,2024-07-03,545,ENG-CSA-RELAY"]));
     const note = "the meter note says the meter was replaced, but the line gives no new reading";
     await t.pool.query(`UPDATE fact_repair_line SET hour_valid = false, hour_invalid_reason = $1 WHERE ro_number = 'P-3'`, [note]);
     // 520 h later on 1 July (20 h the same day): 2 July's 540 h is 20 h after it, valid again; 3 July's 545 h
     // would pass too, but its verdict is another rule's: it stays set aside, with its reason, and unrecorded
-    const s = await load(file("july-late.csv", ["S5,P-4,1,KT18-20003,2024-07-01,520,ENG-CSA-RELAY"]));
+    const s = await load(file("july-late.csv", ["S5,P-4,1,KWRN-20003,2024-07-01,520,ENG-CSA-RELAY"]));
     expect(await verdicts("P")).toEqual([
       { ro: "P-1", valid: true, reason: null },
       { ro: "P-4", valid: true, reason: null },

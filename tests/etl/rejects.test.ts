@@ -49,7 +49,7 @@ describe("loadFile with bad rows", () => {
   }
 
   it("keeps the raw row keyed by the file's own header", () => {
-    expect(byLine.get(4)?.raw_row).toMatchObject({ ro_number: "R-3", hour_meter: "12x4", serial: "KT35-20001" });
+    expect(byLine.get(4)?.raw_row).toMatchObject({ ro_number: "R-3", hour_meter: "12x4", serial: "KDLV-20001" });
   });
 
   it("keeps the raw row of rows that only the whole-file checks reject, read back from the file", () => {
@@ -99,7 +99,7 @@ describe("hour-meter checks in a warehouse without any meter change", () => {
 
   const header = readFileSync(fixture("jobs-bad-rows.csv"), "utf8").split("\n")[0];
   const line = (ro: string, date: string, hours: number, meterNote = "") =>
-    `S4,${ro},1,KT35-20001,${date},${date},${hours},${meterNote},Noise,Worn,Replaced,HYD-LIN-HOSE,WEAR,,1.0,1.0,40.00,110.00,customer,failure,S4-T1,,,,,,,N,,`;
+    `S4,${ro},1,KDLV-20001,${date},${date},${hours},${meterNote},Noise,Worn,Replaced,HYD-LIN-HOSE,WEAR,,1.0,1.0,40.00,110.00,customer,failure,S4-T1,,,,,,,N,,`;
   const jobsFile = (lines: string[]) => {
     const file = path.join(mkdtempSync(path.join(os.tmpdir(), "etl-hours-")), "jobs.csv");
     writeFileSync(file, [header, ...lines].join("\n") + "\n");

@@ -266,7 +266,7 @@ describe("Imports page: uploading", { timeout: 20_000 }, () => {
     const huge = new File(["x"], "everything.csv");
     Object.defineProperty(huge, "size", { value: MAX_IMPORT_BYTES + 1 });
     expect(bytesInWords(MAX_IMPORT_BYTES)).toBe("200 MB");
-    const files = [new File(["serial,model_code\nKT1,T18\n"], "south-machines.csv"), new File(["%PDF"], "manual.pdf"), huge];
+    const files = [new File(["serial,model_code\nKWRN1,WRN\n"], "south-machines.csv"), new File(["%PDF"], "manual.pdf"), huge];
     const input = screen.getByLabelText("Choose files");
     Object.defineProperty(input, "files", { value: files });
     fireEvent.change(input);

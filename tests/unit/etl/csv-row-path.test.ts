@@ -55,7 +55,7 @@ function rowFields(r: { shop: string; ro: string; line: string; complaint: strin
   set("shop_code", r.shop);
   set("ro_number", r.ro);
   set("line_no", r.line);
-  set("serial", "KT35-20001");
+  set("serial", "KDLV-20001");
   set("opened_date", "2024-01-03");
   set("component_code", "ENG-CSA-HPLUG");
   set("complaint", r.complaint);

@@ -30,16 +30,16 @@ describe("parseDecimal and parseHours", () => {
 });
 
 describe("normaliseIdentifier", () => {
-  it("trims, upper-cases and strips dashes and spaces", () => expect(normaliseIdentifier(" kt-35 0012 ")).toBe("KT350012"));
+  it("trims, upper-cases and strips dashes and spaces", () => expect(normaliseIdentifier(" kd-lv 0012 ")).toBe("KDLV0012"));
 });
 
 describe("resolveModel", () => {
   it("maps variant spellings onto the catalog's model line", () => {
-    expect(resolveModel({}, "l70 ")?.code).toBe("L70");
-    expect(resolveModel({}, "L-85T")?.code).toBe("L85T");
-    expect(resolveModel({ SS70: "L70" }, "ss70")?.code).toBe("L70");
+    expect(resolveModel({}, "skl ")?.code).toBe("SKL");
+    expect(resolveModel({}, "T-RN")?.code).toBe("TRN");
+    expect(resolveModel({ SKIDDY: "SKL" }, "skiddy")?.code).toBe("SKL");
   });
-  it("returns null for a model that is truly unknown", () => expect(resolveModel({}, "L70X")).toBeNull());
+  it("returns null for a model that is truly unknown", () => expect(resolveModel({}, "SKLQ")).toBeNull());
 });
 
 describe("parseFaultCodes", () => {
