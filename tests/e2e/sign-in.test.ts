@@ -13,12 +13,12 @@ describe("signing in through the local provider in Chromium", () => {
     await signInThroughProvider(env.browser.page, env.stack.url, "admin", DEMO_PASSWORD);
     expect(await navLabels()).toContain("Users");
     await env.browser.page.getByRole("link", { name: "Users" }).click();
-    await env.browser.page.getByRole("cell", { name: /Odile Varrow/ }).waitFor();
+    await env.browser.page.getByRole("cell", { name: /^Odile Varrow/ }).waitFor();
     await env.browser.screenshot("sign-in-admin-users");
   });
 
   it("ends both sessions at sign-out, so the next visit asks for a password again", async () => {
-    await env.browser.page.getByRole("button", { name: /Odile Varrow/ }).click();
+    await env.browser.page.getByRole("button", { name: /^O Odile Varrow$/ }).click();
     await env.browser.page.getByRole("menuitem", { name: "Sign out" }).click();
     await env.browser.page.waitForURL(`${env.stack.url}/signed-out`);
     await env.browser.page.getByText("You are signed out.").waitFor();
