@@ -29,6 +29,8 @@ import { adminProfileRoutes } from "./routes/admin-profiles.js";
 import { adminWarrantyPolicyRoutes } from "./routes/admin-warranty-policies.js";
 import { apiRoutes } from "./routes/index.js";
 import { adminMailRoutes } from "./routes/admin-mail.js";
+import { adminSettingsRoutes } from "./routes/admin-settings.js";
+import { settingsRoutes } from "./routes/settings.js";
 import type { Storage } from "./services/storage.js";
 import type { Mailer } from "./services/mailer.js";
 import type { MailArchive } from "./services/mail-archive.js";
@@ -124,6 +126,8 @@ export function createApp(d: AppDeps): express.Express {
   );
 
   app.use("/api/me", meRoutes());
+  app.use("/api/settings", settingsRoutes(d.db));
+  app.use("/api/admin/settings", adminSettingsRoutes(d.db));
   app.use("/api/admin/users", adminUserRoutes(d.db, access));
   app.use("/api/admin/shops", adminShopRoutes(d.db, d.pool));
   app.use("/api/admin/profiles", adminProfileRoutes(d.db, d.pool, d.imports?.spoolDir ?? path.join(os.tmpdir(), "ironledger-uploads")));

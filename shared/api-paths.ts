@@ -2,6 +2,8 @@
 export const apiPaths = {
   health: () => "/api/health",
   me: () => "/api/me",
+  settings: () => "/api/settings",
+  adminSettings: () => "/api/admin/settings",
   session: () => "/auth/session",
   adminUsers: () => "/api/admin/users",
   adminUserAccess: (sub: string) => `/api/admin/users/${encodeURIComponent(sub)}/access`,

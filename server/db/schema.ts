@@ -35,6 +35,27 @@ export interface AppUserEventTable {
   sentence: string;
 }
 
+/** Group-wide settings an administrator sets once, one row per key (migrations/0065). */
+export interface AppSettingTable {
+  key: "currency";
+  value: string;
+  set_at: Generated<Date>;
+  set_by_sub: string;
+  set_by_name: string;
+}
+
+/** Every change of a setting, as a sentence with who made it (migrations/0065). */
+export interface AppSettingEventTable {
+  event_id: Generated<string>;
+  key: string;
+  at: Generated<Date>;
+  old_value: string | null;
+  new_value: string;
+  actor_sub: string;
+  actor_name: string;
+  sentence: string;
+}
+
 /** Overview visits: the baseline for "new clusters since your last visit" (migrations/0030). */
 export interface AppUserVisitTable {
   sub: string;
@@ -83,6 +104,8 @@ import type { WarehouseTables } from "./warehouse-schema.js";
 
 export interface Database extends WarehouseTables {
   app_session: AppSessionTable;
+  app_setting: AppSettingTable;
+  app_setting_event: AppSettingEventTable;
   app_user: AppUserTable;
   app_user_event: AppUserEventTable;
   app_user_visit: AppUserVisitTable;

@@ -4,6 +4,7 @@ import { pipeline } from "node:stream/promises";
 import type PgBoss from "pg-boss";
 import { allow, requireScope, requireUser } from "../auth/require-user.js";
 import type { Db } from "../db/database.js";
+import { readSettings } from "../db/queries/settings.js";
 import type { Storage } from "../services/storage.js";
 import type { Mailer } from "../services/mailer.js";
 import { HttpError } from "../errors.js";
@@ -110,7 +111,7 @@ export function claimRoutes(d: ClaimRouteDeps): Router {
 
   router.get("/:id/lines.csv", async (req, res) => {
     const view = await detail(req);
-    res.attachment(`${view.claimNumber}-lines.csv`).type("text/csv; charset=utf-8").send(claimLinesCsv(view.claimNumber, view.lines));
+    res.attachment(`${view.claimNumber}-lines.csv`).type("text/csv; charset=utf-8").send(claimLinesCsv(view.claimNumber, view.lines, (await readSettings(d.db)).currency));
   });
 
   router.post("/:id/send", async (req, res) => {

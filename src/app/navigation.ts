@@ -42,6 +42,7 @@ export const pageAccess: Record<PageKey, PageAccess> = {
   imports: { roles: importRoles, title: "The imports and load history", menu: "Imports" },
   batchRejects: { roles: importRoles, title: "A load's rejected rows" },
   adminMail: { roles: ADMIN, title: "Captured mail", menu: "Captured mail" },
+  adminSettings: { roles: ADMIN, title: "Group settings", menu: "Settings" },
 };
 
 export interface NavItem {

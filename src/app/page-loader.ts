@@ -2,6 +2,7 @@ import type { ComponentType } from "react";
 import type { LoaderFunction, Params } from "react-router-dom";
 import type { QueryClient } from "@tanstack/react-query";
 import { meQueries } from "@/features/session/api/me-queries";
+import { settingsQueries } from "@/lib/settings-queries";
 import type { Me } from "@shared/schemas/me";
 import type { Role } from "@shared/roles";
 import { mayOpen, pageAccess, type PageKey } from "./navigation";
@@ -47,6 +48,8 @@ function pageLoader(qc: QueryClient, page: PageKey, primeCache: PrimeCache | und
   return async ({ params, request }) => {
     const me = await qc.ensureQueryData(meQueries.current());
     if (me && !mayOpen(page, me.roles)) throw new PageRefused(page, me.roles);
+    // the group's settings (its currency) for useFormat, not awaited: the page never waits on them, and a failure leaves the fallback
+    if (me) void qc.prefetchQuery(settingsQueries.current());
     if (me && primeCache) await primeCache(qc, { params, url: new URL(request.url), me });
     return null;
   };

@@ -19,6 +19,7 @@ export const pagePaths = {
   adminProfiles: "/admin/profiles",
   adminProfile: "/admin/profiles/:id",
   adminMail: "/admin/mail",
+  adminSettings: "/admin/settings",
   adminWarrantyPolicies: "/admin/warranty-policies",
   adminWarrantyPolicy: "/admin/warranty-policies/:family",
   imports: "/imports",

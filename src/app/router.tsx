@@ -52,6 +52,7 @@ export function routes(qc: QueryClient): RouteObject[] {
           { path: pagePaths.adminProfiles, lazy: lazyPage(qc, "adminProfiles", () => import("@/routes/admin-profiles")) },
           { path: pagePaths.adminProfile, lazy: lazyPage(qc, "adminProfile", () => import("@/routes/admin-profile")) },
           { path: pagePaths.adminMail, lazy: lazyPage(qc, "adminMail", () => import("@/routes/admin-mail")) },
+          { path: pagePaths.adminSettings, lazy: lazyPage(qc, "adminSettings", () => import("@/routes/admin-settings")) },
           { path: pagePaths.adminWarrantyPolicies, lazy: lazyPage(qc, "adminWarrantyPolicies", () => import("@/routes/admin-warranty-policies")) },
           { path: pagePaths.adminWarrantyPolicy, lazy: lazyPage(qc, "adminWarrantyPolicy", () => import("@/routes/admin-warranty-policy")) },
         ]),

@@ -1,11 +1,9 @@
 import { useState, type ReactNode } from "react";
 import type * as Plot from "@observablehq/plot";
 import { PlotFigure } from "./plot-figure";
-import { downloadText, toCsv } from "@/lib/csv";
+import { downloadText, tableCsv, type CsvColumn } from "@/lib/csv";
 
-export interface ChartColumn {
-  key: string;
-  label: string;
+export interface ChartColumn extends CsvColumn {
   format?: (v: unknown) => string;
 }
 
@@ -36,7 +34,7 @@ export function ChartCard(props: {
           </button>
           <button
             type="button"
-            onClick={() => downloadText(props.filename, toCsv(props.columns, props.rows.map((r) => Object.fromEntries(props.columns.map((c) => [c.key, r[c.key]])))))}
+            onClick={() => downloadText(props.filename, tableCsv(props.columns, props.rows))}
             className="rounded border border-line px-2 py-1 hover:bg-paper"
           >
             CSV

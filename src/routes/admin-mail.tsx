@@ -3,6 +3,7 @@ import { Card, EmptyState, ErrorNotice, Skeleton } from "@/components/ui/states"
 import { claimQueries } from "@/features/claims/api/claim-queries";
 import { ApiError } from "@/lib/api-error";
 import type { PrimeCache } from "@/app/page-loader";
+import { useFormat } from "@/lib/use-format";
 
 // prefetched, not awaited: a server without the SMTP fake answers 404 no_mail_capture, which this page shows
 // in place as an empty state; awaiting it would send that answer to the area's error boundary instead
@@ -11,6 +12,7 @@ export const primeCache: PrimeCache = (qc) => {
 };
 
 export function Component() {
+  const fmt = useFormat();
   const q = useQuery(claimQueries.capturedMail());
   return (
     <div className="space-y-4">
@@ -27,7 +29,7 @@ export function Component() {
           {q.data.mail.map((m) => (
             <li key={m.id}>
               <Card title={m.subject || "(no subject)"}>
-                <p className="text-sm text-muted">From {m.from} to {m.to.join(", ")} · {new Date(m.receivedAt).toLocaleString()}</p>
+                <p className="text-sm text-muted">From {m.from} to {m.to.join(", ")} · {fmt.dateTime(m.receivedAt)}</p>
                 <pre className="mt-2 whitespace-pre-wrap text-xs">{m.text}</pre>
                 {m.attachments.length > 0 && (
                   <p className="mt-2 text-sm">Attached: {m.attachments.map((a) => `${a.filename} (${a.contentType}, ${(a.sizeBytes / 1024).toFixed(1)} KB)`).join("; ")}</p>

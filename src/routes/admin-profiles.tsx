@@ -5,11 +5,13 @@ import type { PrimeCache } from "@/app/page-loader";
 import { pagePaths } from "@/app/page-paths";
 import { profileQueries } from "@/features/admin/profiles/api/profile-queries";
 import { dateTimeInWords, kindLabels } from "@/features/imports/import-words";
+import { useFormat } from "@/lib/use-format";
 
 // awaited: a short list, and someone who is not an administrator reaches the area's error boundary
 export const primeCache: PrimeCache = (qc) => qc.ensureQueryData(profileQueries.list());
 
 export function Component() {
+  const fmt = useFormat();
   const q = useQuery(profileQueries.list());
   return (
     <div className="space-y-4">
@@ -39,7 +41,7 @@ export function Component() {
                 </div>
                 <p className="text-xs text-muted">
                   version {p.latest.version}
-                  {p.isDefault ? " (as shipped)" : `, saved by ${p.latest.savedBy} ${dateTimeInWords(p.latest.savedAt)}`} · {p.batches.toLocaleString("en")}{" "}
+                  {p.isDefault ? " (as shipped)" : `, saved by ${p.latest.savedBy} ${dateTimeInWords(p.latest.savedAt)}`} · {fmt.count(p.batches)}{" "}
                   {p.batches === 1 ? "load" : "loads"}
                 </p>
               </li>

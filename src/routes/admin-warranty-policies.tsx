@@ -6,13 +6,15 @@ import { pagePaths } from "@/app/page-paths";
 import { policyQueries } from "@/features/admin/warranty-policies/api/policy-queries";
 import { dateTimeInWords } from "@/features/imports/import-words";
 import { coverageClasses, coverageClassWords } from "@shared/schemas/warranty-policies";
+import { useFormat } from "@/lib/use-format";
 
 // awaited: a short list, and someone who is not an administrator reaches the area's error boundary
 export const primeCache: PrimeCache = (qc) => qc.ensureQueryData(policyQueries.list());
 
-const n = (x: number) => x.toLocaleString("en-US");
 
 export function Component() {
+  const fmt = useFormat();
+  const n = fmt.count;
   const q = useQuery(policyQueries.list());
   return (
     <div className="space-y-4">

@@ -108,7 +108,7 @@ export function Component() {
               columns={[
                 { key: "label", label: "Shop" },
                 { key: "volume", label: "Lines" },
-                { key: "rate", label: "Comeback rate %", format: (v) => (typeof v === "number" ? v.toFixed(1) : String(v)) },
+                { key: "rate", label: "Comeback rate %", percent: true, format: (v) => (typeof v === "number" ? v.toFixed(1) : String(v)) },
                 { key: "status", label: "Against the funnel" },
               ]}
               filename={`funnel-${f.period.key}.csv`}
@@ -128,9 +128,9 @@ export function Component() {
               columns={[
                 { key: "label", label: "Shop" },
                 { key: "month", label: "Month" },
-                { key: "rolling", label: "12-month rate %", format: (v) => (typeof v === "number" ? v.toFixed(1) : "–") },
+                { key: "rolling", label: "12-month rate %", percent: true, format: (v) => (typeof v === "number" ? v.toFixed(1) : "–") },
                 { key: "monthLines", label: "Lines in the month", format: (v) => (v === null || v === undefined ? "–" : String(v)) },
-                { key: "monthRate", label: "Month's own rate % (30+ lines)", format: (v) => (typeof v === "number" ? v.toFixed(1) : "–") },
+                { key: "monthRate", label: "Month's own rate % (30+ lines)", percent: true, csvLabel: "Month's own rate, 30+ lines (fraction)", format: (v) => (typeof v === "number" ? v.toFixed(1) : "–") },
               ]}
               filename={`trend-${t.period.key}.csv`}
               footer={t.method}

@@ -2,7 +2,7 @@ import { useQuery } from "@tanstack/react-query";
 import { Link, useParams } from "react-router-dom";
 import { Card, ErrorNotice, Skeleton } from "@/components/ui/states";
 import { claimQueries } from "@/features/claims/api/claim-queries";
-import { DeadlineBadge, StatusPill, money } from "@/features/claims/components/deadline-badge";
+import { DeadlineBadge, StatusPill } from "@/features/claims/components/deadline-badge";
 import { Cautions, EligibilityPanel, LineFacts, MeasurementPanel } from "@/features/claims/components/line-evidence";
 import { CaseLines, ClusterStats } from "@/features/claims/components/cluster-stats";
 import { StatusActions } from "@/features/claims/components/status-actions";
@@ -14,12 +14,14 @@ import { ClaimLineSplit } from "@/features/claims/components/claim-line-split";
 import { ClaimVersions } from "@/features/claims/components/claim-versions";
 import type { PrimeCache } from "@/app/page-loader";
 import { apiPaths } from "@shared/api-paths";
+import { useFormat } from "@/lib/use-format";
 
 // awaited: one claim is a quick lookup, and a claim that is missing or out of scope reaches the claims
 // area's error boundary before the page renders
 export const primeCache: PrimeCache = (qc, { params }) => qc.ensureQueryData(claimQueries.detail(params.id ?? ""));
 
 export function Component() {
+  const f = useFormat();
   const id = useParams().id!;
   // while a send waits for a retry, look again every few seconds
   const q = useQuery({ ...claimQueries.detail(id), refetchInterval: (query) => (query.state.data?.lastSend?.status === "queued" ? 4000 : false) });
@@ -49,7 +51,7 @@ export function Component() {
             <p>{c.deadline.text}</p>
             <p>{c.shopCode ? `Shop ${c.shopCode}` : "Several shops"} · engine family {c.engineFamily} · {c.claimDays} claim days</p>
             <p className="text-sm text-muted" data-testid="policy-version">{c.policy.text.charAt(0).toUpperCase() + c.policy.text.slice(1)}.</p>
-            <p>Parts + labour claimed: <b>{money(c.amountClaimed)}</b>{c.split.apart.length > 0 && <> · not claimed <b>{money(c.split.amountApart)}</b> ({c.split.apart.length} line{c.split.apart.length === 1 ? "" : "s"} listed apart)</>}{c.amountPaid !== null && <> · paid <b>{money(c.amountPaid)}</b></>}{c.amountCredited !== null && <> · credited <b>{money(c.amountCredited)}</b></>}</p>
+            <p>Parts + labour claimed: <b>{f.money(c.amountClaimed)}</b>{c.split.apart.length > 0 && <> · not claimed <b>{f.money(c.split.amountApart)}</b> ({c.split.apart.length} line{c.split.apart.length === 1 ? "" : "s"} listed apart)</>}{c.amountPaid !== null && <> · paid <b>{f.money(c.amountPaid)}</b></>}{c.amountCredited !== null && <> · credited <b>{f.money(c.amountCredited)}</b></>}</p>
             {c.correction && <p>Version {c.revision} corrects: {c.correction}</p>}
             {c.reason && <p className="text-alert">Maker's reason: {c.reason}</p>}
             {c.note && <p className="text-muted">Note: {c.note}</p>}

@@ -4,7 +4,7 @@ import { Link, useNavigate, useSearchParams } from "react-router-dom";
 import { useState } from "react";
 import { Card, EmptyState, ErrorNotice, Skeleton } from "@/components/ui/states";
 import { claimQueries, useCreateClaim } from "@/features/claims/api/claim-queries";
-import { DeadlineBadge, money, num } from "@/features/claims/components/deadline-badge";
+import { DeadlineBadge } from "@/features/claims/components/deadline-badge";
 import { Cautions, EligibilityPanel, LineFacts, MeasurementPanel } from "@/features/claims/components/line-evidence";
 import { CaseLines, ClusterStats } from "@/features/claims/components/cluster-stats";
 import type { ClaimPreview } from "@shared/schemas/claims";
@@ -12,6 +12,7 @@ import type { Me } from "@shared/schemas/me";
 import type { PrimeCache } from "@/app/page-loader";
 import { meQueries } from "@/features/session/api/me-queries";
 import { ClaimQueueTable } from "@/features/claims/components/claim-queue-table";
+import { useFormat } from "@/lib/use-format";
 
 /** Campaign cases span shops, so only a group-wide role (the clerk) makes them. */
 const makesCampaignCases = (me: Me | null) => me?.scope.kind === "all";
@@ -58,6 +59,7 @@ function Chooser() {
 }
 
 function PreviewView({ p, onCreate, creating }: { p: ClaimPreview; onCreate: () => void; creating: boolean }) {
+  const f = useFormat();
   const c = p.eligibilityCounts;
   const blocked = p.problems.length > 0 && (p.kind === "repair" || p.lines.length === 0);
   return (
@@ -65,7 +67,7 @@ function PreviewView({ p, onCreate, creating }: { p: ClaimPreview; onCreate: () 
       <Card title={p.title}>
         <div className="flex flex-wrap items-center gap-4 text-sm">
           {p.deadline && <span>{p.deadline.text} <DeadlineBadge deadline={p.deadline} /></span>}
-          <span>Parts + labour: <b>{money(p.amountClaimed)}</b></span>
+          <span>Parts + labour: <b>{f.money(p.amountClaimed)}</b></span>
           {p.kind === "campaign" && <span>{p.lines.length} repair lines: {c.covered} covered, {c.notCovered} not covered, {c.unknown} cannot tell</span>}
         </div>
         {p.existingClaims.length > 0 && (

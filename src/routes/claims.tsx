@@ -3,11 +3,12 @@ import { Link, useNavigate } from "react-router-dom";
 import { ClaimQueueTable } from "@/features/claims/components/claim-queue-table";
 import { Card, EmptyState, ErrorNotice, Skeleton } from "@/components/ui/states";
 import { claimQueries } from "@/features/claims/api/claim-queries";
-import { DeadlineBadge, StatusPill, money } from "@/features/claims/components/deadline-badge";
+import { DeadlineBadge, StatusPill } from "@/features/claims/components/deadline-badge";
 import { ClaimMoneySection } from "@/features/claims/components/claim-money";
 import type { PrimeCache } from "@/app/page-loader";
 import type { ClaimSummary } from "@shared/schemas/claims";
 import type { ClaimBucket } from "@shared/schemas/claim-lifecycle";
+import { useFormat } from "@/lib/use-format";
 
 // the claim list is awaited (a short table; a refusal reaches the claims area's error boundary); the queue of
 // unclaimed lines and the money below it are prefetched, not awaited
@@ -31,6 +32,7 @@ function when(c: ClaimSummary) {
 }
 
 function ClaimRows({ claims, label }: { claims: readonly ClaimSummary[]; label: string }) {
+  const f = useFormat();
   return (
     <div className="overflow-x-auto">
     <table className="w-full text-left text-sm" aria-label={label}>
@@ -49,8 +51,8 @@ function ClaimRows({ claims, label }: { claims: readonly ClaimSummary[]; label: 
             <td><StatusPill status={c.status} />{c.supersededBy && <span className="block text-xs text-muted">corrected</span>}</td>
             <td>{when(c)}</td>
             <td className="text-right tabular-nums">{c.lineCount}</td>
-            <td className="text-right tabular-nums">{money(c.amountClaimed)}</td>
-            <td className="text-right tabular-nums">{money(c.amountCredited ?? c.amountPaid)}</td>
+            <td className="text-right tabular-nums">{f.money(c.amountClaimed)}</td>
+            <td className="text-right tabular-nums">{f.money(c.amountCredited ?? c.amountPaid)}</td>
           </tr>
         ))}
       </tbody>
@@ -60,6 +62,7 @@ function ClaimRows({ claims, label }: { claims: readonly ClaimSummary[]; label: 
 }
 
 export function Component() {
+  const f = useFormat();
   const q = useQuery(claimQueries.list());
   const navigate = useNavigate();
   return (
@@ -83,8 +86,8 @@ export function Component() {
             {buckets.map((b) => (
               <a key={b.key} href={`#bucket-${b.key}`} className="rounded-lg border border-line bg-card p-3 shadow-sm hover:border-accent">
                 <p className="text-xs text-muted">{b.title}</p>
-                <p className="text-2xl font-bold tabular-nums">{q.data.buckets[b.key].count.toLocaleString("en-US")}</p>
-                <p className="text-sm tabular-nums">{money(q.data.buckets[b.key].amount)} {b.key === "closed" ? "claimed" : "at stake"}</p>
+                <p className="text-2xl font-bold tabular-nums">{f.count(q.data.buckets[b.key].count)}</p>
+                <p className="text-sm tabular-nums">{f.money(q.data.buckets[b.key].amount)} {b.key === "closed" ? "claimed" : "at stake"}</p>
               </a>
             ))}
           </div>

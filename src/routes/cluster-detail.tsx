@@ -16,6 +16,7 @@ import { claimRoles, findingReadRoles } from "@shared/roles";
 import { findingKey } from "@shared/finding-key";
 import { FindingWorkPanel } from "@/features/clusters/components/finding-work";
 import { meQueries } from "@/features/session/api/me-queries";
+import { useFormat } from "@/lib/use-format";
 
 function Summary({ d }: { d: ClusterDetail }) {
   const c = d.cluster;
@@ -48,6 +49,7 @@ export const primeCache: PrimeCache = (qc, { params, url }) => {
 };
 
 export function Component() {
+  const fmt = useFormat();
   const { id = "" } = useParams();
   const { search } = useFilters();
   const [unit] = useTemperatureUnit();
@@ -106,7 +108,7 @@ export function Component() {
                         <td className="pr-3">{l.shopCode}</td>
                         <td className="pr-3"><Link to={`/repairs/${l.id}`} className="text-accent hover:underline">{l.roNumber}/{l.lineNo}</Link></td>
                         <td className="pr-3">{l.serial}</td>
-                        <td className="pr-3 text-right tabular-nums">{l.hourMeter?.toLocaleString("en-US") ?? "—"}</td>
+                        <td className="pr-3 text-right tabular-nums">{l.hourMeter === null ? "—" : fmt.quantity("hours", l.hourMeter)}</td>
                         <td className="text-muted">{l.complaint ?? "—"}</td>
                       </tr>
                     ))}

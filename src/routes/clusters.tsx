@@ -11,6 +11,7 @@ import { FilterBar } from "@/features/filters/components/filter-bar";
 import { QueryView } from "@/features/filters/components/query-view";
 import { readFilters, useFilters } from "@/features/filters/use-filters";
 import type { PrimeCache } from "@/app/page-loader";
+import { useFormat } from "@/lib/use-format";
 
 // prefetched, not awaited: the cluster scan is the heaviest analysis; the page shows its skeleton meanwhile
 export const primeCache: PrimeCache = (qc, { url }) => {
@@ -18,6 +19,7 @@ export const primeCache: PrimeCache = (qc, { url }) => {
 };
 
 export function Component() {
+  const fmt = useFormat();
   const { filters, search } = useFilters();
   // the scan picks its own components (the cold-start aids) unless the filter names one
   const [unit] = useTemperatureUnit();
@@ -78,7 +80,7 @@ export function Component() {
               </ol>
             </details>
             <div className="rounded-lg border border-line bg-card p-3 text-xs text-muted">
-              <p><b>How:</b> {d.method} {d.cellsTested.toLocaleString("en-US")} cells tested; clusters with q below {d.qThreshold}.</p>
+              <p><b>How:</b> {d.method} {fmt.count(d.cellsTested)} cells tested; clusters with q below {d.qThreshold}.</p>
               <p className="mt-1"><b>Caution:</b> {d.caution}</p>
             </div>
           </>

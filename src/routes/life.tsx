@@ -16,6 +16,7 @@ import { Card } from "@/components/ui/states";
 import { palette } from "@/lib/palette";
 import { components, engineFamilies } from "@shared/catalog";
 import type { BLife, WeibullResponse } from "@shared/schemas/analytics-life";
+import { useFormat } from "@/lib/use-format";
 
 const COMPARISONS = [
   { id: "", label: "No comparison" },
@@ -78,6 +79,7 @@ export const primeCache: PrimeCache = (qc, { url }) => {
 };
 
 export function Component() {
+  const fmt = useFormat();
   const { search } = useFilters();
   const [params, setParams] = useSearchParams();
   const { component, compareBy, compareValue, compareOther, mcfComponent, bLife, lifeSearch, mcfSearch, rateCompareSearch } = readLifeParams(params, search);
@@ -180,7 +182,7 @@ export function Component() {
             subtitle="Points: each failure at its estimated share failed; line: maximum-likelihood fit; band: 90 % confidence band of the fit"
             options={weibullChart(d, palette)}
             rows={d.groups.flatMap((g) => g.points.map((pt) => ({ group: g.label, time: pt.time, medianRank: pt.medianRank })))}
-            columns={[{ key: "group", label: "Group" }, { key: "time", label: "Engine hours" }, { key: "medianRank", label: "Estimated share failed" }]}
+            columns={[{ key: "group", label: "Group" }, { key: "time", label: "Engine hours", csvLabel: "Engine hours (h)" }, { key: "medianRank", label: "Estimated share failed", csvLabel: "Estimated share failed (fraction)" }]}
             filename="life-weibull-points.csv"
             footer={<><FitTable d={d} /><p className="mt-2">{d.method}</p></>}
           />
@@ -194,7 +196,7 @@ export function Component() {
               subtitle={d.logRank ? `Log-rank test between the groups: p ${p(d.logRank.pValue)}` : `${d.groups[0]?.units.toLocaleString("en-US")} units, ${d.groups[0]?.failures} failures`}
               options={kaplanMeierChart(d, palette)}
               rows={d.groups.flatMap((g) => g.steps.map((s) => ({ group: g.label, ...s })))}
-              columns={[{ key: "group", label: "Group" }, { key: "time", label: "Engine hours" }, { key: "atRisk", label: "At risk" }, { key: "survival", label: "Survival" }, { key: "lower", label: "95 % lower" }, { key: "upper", label: "95 % upper" }]}
+              columns={[{ key: "group", label: "Group" }, { key: "time", label: "Engine hours", csvLabel: "Engine hours (h)" }, { key: "atRisk", label: "At risk" }, { key: "survival", label: "Survival", csvLabel: "Survival (fraction)" }, { key: "lower", label: "95 % lower", csvLabel: "95 % lower (fraction)" }, { key: "upper", label: "95 % upper", csvLabel: "95 % upper (fraction)" }]}
               filename="life-kaplan-meier.csv"
               footer={
                 <>
@@ -222,7 +224,7 @@ export function Component() {
               }
               options={mcfChart(d, palette)}
               rows={d.groups.flatMap((g) => g.steps.map((s) => ({ group: g.label, ...s })))}
-              columns={[{ key: "group", label: "Group" }, { key: "age", label: "Engine hours" }, { key: "mcf", label: "Mean repairs" }, { key: "lower", label: "95 % lower" }, { key: "upper", label: "95 % upper" }, { key: "atRisk", label: "Machines" }]}
+              columns={[{ key: "group", label: "Group" }, { key: "age", label: "Engine hours", csvLabel: "Engine hours (h)" }, { key: "mcf", label: "Mean repairs", csvLabel: "Mean repairs (per machine)" }, { key: "lower", label: "95 % lower", csvLabel: "95 % lower (per machine)" }, { key: "upper", label: "95 % upper", csvLabel: "95 % upper (per machine)" }, { key: "atRisk", label: "Machines" }]}
               filename="life-mcf.csv"
               footer={d.method}
             />
@@ -232,12 +234,12 @@ export function Component() {
           {(d) => (
             <ChartCard
               title="Repair cost per machine (Nelson cost MCF)"
-              subtitle={`Parts + labour of ${components.find((c) => c.code === mcfComponent)?.name.toLowerCase() ?? mcfComponent} repairs${d.groups[0]?.slopePerThousandHours != null ? ` · ${Math.round(d.groups[0].slopePerThousandHours).toLocaleString("en-US")} per machine per 1,000 h` : ""}`}
+              subtitle={`Parts + labour of ${components.find((c) => c.code === mcfComponent)?.name.toLowerCase() ?? mcfComponent} repairs${d.groups[0]?.slopePerThousandHours != null ? ` · ${fmt.moneyWhole(d.groups[0].slopePerThousandHours)} per machine per 1,000 h` : ""}`}
               options={costMcfChart(d, palette)}
               rows={d.groups.flatMap((g) => g.steps.map((s) => ({ group: g.label, ...s })))}
-              columns={[{ key: "group", label: "Group" }, { key: "age", label: "Engine hours" }, { key: "mcf", label: "Mean cost" }, { key: "lower", label: "95 % lower" }, { key: "upper", label: "95 % upper" }, { key: "atRisk", label: "Machines" }]}
+              columns={[{ key: "group", label: "Group" }, { key: "age", label: "Engine hours", csvLabel: "Engine hours (h)" }, { key: "mcf", label: "Mean cost", csvLabel: `Mean cost (${fmt.currency} per machine)` }, { key: "lower", label: "95 % lower", csvLabel: `95 % lower (${fmt.currency} per machine)` }, { key: "upper", label: "95 % upper", csvLabel: `95 % upper (${fmt.currency} per machine)` }, { key: "atRisk", label: "Machines" }]}
               filename="life-cost-mcf.csv"
-              footer={<>{d.method} Cost in {d.currency}.</>}
+              footer={<>{d.method} Cost in {fmt.currency}.</>}
             />
           )}
         </QueryView>

@@ -8,10 +8,8 @@ import type { Overview } from "@shared/schemas/overview";
 import { importRoles } from "@shared/roles";
 import { meQueries } from "@/features/session/api/me-queries";
 import { batchPath } from "@/features/imports/batch-path";
+import { useFormat } from "@/lib/use-format";
 
-const n = (v: number) => v.toLocaleString("en-US");
-const rate = (r: { rate: number; lower: number; upper: number } | null) => (r ? `${r.rate.toFixed(3)} (${r.lower.toFixed(3)}–${r.upper.toFixed(3)})` : "—");
-const when = (iso: string | null) => (iso ? new Date(iso).toLocaleString("en-GB", { dateStyle: "medium", timeStyle: "short" }) : "never");
 
 /** The files of a shop's last load that had rejects, each linking to its rejects (for the roles that may open them). */
 function RejectLinks({ files }: { files: Overview["loads"][number]["files"] }) {
@@ -31,6 +29,9 @@ function RejectLinks({ files }: { files: Overview["loads"][number]["files"] }) {
 }
 
 function Loads({ loads }: { loads: Overview["loads"] }) {
+  const fmt = useFormat();
+  const n = fmt.count;
+  const when = (iso: string | null) => (iso ? fmt.dateTime(iso) : "never");
   if (!loads.length) {
     return (
       <EmptyState title="Nothing loaded yet">
@@ -53,7 +54,7 @@ function Loads({ loads }: { loads: Overview["loads"] }) {
               <td className="pr-3 text-right tabular-nums">{n(l.rowsRead)}</td>
               <td className={`text-right tabular-nums ${l.rowsRejected ? "font-semibold text-alert" : ""}`} title={l.files.map((f) => `${f.fileName}: ${f.rowsRejected} rejected`).join("\n")}>
                 {n(l.rowsRejected)}
-                {l.rowsRead > 0 && <span className="ml-1 text-xs font-normal text-muted">({((100 * l.rowsRejected) / l.rowsRead).toFixed(1)} %)</span>}
+                {l.rowsRead > 0 && <span className="ml-1 text-xs font-normal text-muted">({fmt.quantity("percent", (100 * l.rowsRejected) / l.rowsRead)} %)</span>}
                 <RejectLinks files={l.files} />
               </td>
             </tr>
@@ -65,6 +66,9 @@ function Loads({ loads }: { loads: Overview["loads"] }) {
 }
 
 function Headlines({ h }: { h: Overview["headlines"] }) {
+  const fmt = useFormat();
+  const n = fmt.count;
+  const rate = (r: { rate: number; lower: number; upper: number } | null) => (r ? `${fmt.quantity("rate", r.rate)} (${fmt.quantity("rate", r.lower)}–${fmt.quantity("rate", r.upper)})` : "—");
   if (!h.thisYear || !h.rows.length) return <EmptyState title="No exposure yet">{h.note ?? "Rates need machine hours in the warehouse; none are loaded for your shops."}</EmptyState>;
   return (
     <>
@@ -75,10 +79,10 @@ function Headlines({ h }: { h: Overview["headlines"] }) {
           return (
             <div key={r.label} className="rounded border border-line p-3">
               <p className="text-sm font-semibold">{r.label}</p>
-              <p className="mt-1 text-2xl font-bold tabular-nums">{r.thisYear.rate ? r.thisYear.rate.rate.toFixed(3) : "—"}</p>
+              <p className="mt-1 text-2xl font-bold tabular-nums">{r.thisYear.rate ? fmt.quantity("rate", r.thisYear.rate.rate) : "—"}</p>
               <p className="text-xs text-muted">per 1,000 engine hours, {h.thisYear!.from} to {h.thisYear!.to}; 95 % {rate(r.thisYear.rate)}</p>
               <p className="mt-2 text-sm">
-                Last year {r.lastYear.rate ? r.lastYear.rate.rate.toFixed(3) : "—"}
+                Last year {r.lastYear.rate ? fmt.quantity("rate", r.lastYear.rate.rate) : "—"}
                 {r.change !== null && <span className={`ml-2 font-semibold ${up ? "text-alert" : "text-ok"}`}>{up ? "▲" : "▼"} {Math.abs((r.change - 1) * 100).toFixed(0)} %</span>}
               </p>
               <p className="text-xs text-muted">{n(r.thisYear.failures)} failures this year, {n(r.lastYear.failures)} the year before</p>
@@ -92,6 +96,8 @@ function Headlines({ h }: { h: Overview["headlines"] }) {
 }
 
 function NewClusters({ c }: { c: Overview["clusters"] }) {
+  const fmt = useFormat();
+  const when = (iso: string | null) => (iso ? fmt.dateTime(iso) : "never");
   const intro = c.firstVisit
     ? `Your first visit: all ${c.total} clusters the finder reports are new to you.`
     : c.newCount
@@ -133,6 +139,8 @@ function FindingList({ items, empty }: { items: NonNullable<Overview["findings"]
 }
 
 function FindingChanges({ f }: { f: NonNullable<Overview["findings"]> }) {
+  const fmt = useFormat();
+  const when = (iso: string | null) => (iso ? fmt.dateTime(iso) : "never");
   return (
     <div className="space-y-3">
       <div>
@@ -184,6 +192,8 @@ export const primeCache: PrimeCache = (qc) => {
 
 /** Which data the page shows: said only while the server is still computing the answer for a newer load. */
 function AsOf({ o }: { o: Overview }) {
+  const fmt = useFormat();
+  const when = (iso: string | null) => (iso ? fmt.dateTime(iso) : "never");
   if (!overviewUpdating(o)) return null;
   const at = [o.asOf, o.clusters.asOf].filter((a) => a && !a.current).map((a) => a!.computedAt).sort()[0];
   return (

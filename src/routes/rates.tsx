@@ -16,8 +16,8 @@ import { ChartCard } from "@/components/chart-card";
 import { palette } from "@/lib/palette";
 import { hourBandLabel } from "@shared/bands";
 import { components, engineFamilies } from "@shared/catalog";
+import { useFormat } from "@/lib/use-format";
 
-const num = (v: unknown) => (typeof v === "number" ? (Math.abs(v) >= 100 ? Math.round(v).toLocaleString("en-US") : v.toPrecision(3)) : String(v ?? ""));
 const noFailures = "No failures and no exposure match these filters. Widen the dates, shops or components.";
 const field = "mt-1 block rounded border border-line bg-white px-2 py-1 text-sm";
 const label = "text-xs font-semibold uppercase tracking-wide text-muted";
@@ -56,6 +56,11 @@ export const primeCache: PrimeCache = (qc, { url }) => {
 };
 
 export function Component() {
+  const fmt = useFormat();
+  const num = (v: unknown, show: (n: number) => string) => (typeof v === "number" ? show(v) : String(v ?? ""));
+  const wholeHours = (v: unknown) => num(v, (n) => fmt.quantity("hours", n));
+  const rate = (v: unknown) => num(v, (n) => fmt.quantity("rate", n));
+  const share = (v: unknown) => num(v, (n) => fmt.quantity("percent", n));
   const { search } = useFilters();
   const [unit] = useTemperatureUnit();
   const hours = useQuery(rateQueries.hourBands(search));
@@ -131,7 +136,7 @@ export function Component() {
               title="Failure rate by engine-hour band"
               options={hourBandChart(d, palette)}
               rows={d.rows.map((r) => ({ band: hourBandLabel(r.band), failures: r.failures, engineHours: r.engineHours, rate: r.perThousandHours?.rate, lower: r.perThousandHours?.lower, upper: r.perThousandHours?.upper }))}
-              columns={[{ key: "band", label: "Hour band" }, { key: "failures", label: "Failures" }, { key: "engineHours", label: "Engine hours", format: num }, { key: "rate", label: "Per 1,000 h", format: num }, { key: "lower", label: "95 % lower", format: num }, { key: "upper", label: "95 % upper", format: num }]}
+              columns={[{ key: "band", label: "Hour band" }, { key: "failures", label: "Failures" }, { key: "engineHours", label: "Engine hours", csvLabel: "Engine hours (h)", format: wholeHours }, { key: "rate", label: "Per 1,000 h", format: rate }, { key: "lower", label: "95 % lower", csvLabel: "95 % lower (per 1,000 h)", format: rate }, { key: "upper", label: "95 % upper", csvLabel: "95 % upper (per 1,000 h)", format: rate }]}
               filename="rates-hour-bands.csv"
               footer={d.method}
             />
@@ -144,7 +149,7 @@ export function Component() {
               subtitle={`Shown in °${d.unit}; switch the unit in the filter bar`}
               options={temperatureBandChart(d, palette)}
               rows={d.rows.map((r) => ({ band: r.label, failures: r.failures, machineDays: r.machineDays, rate: r.perThousandMachineDays?.rate, perHours: r.perThousandHours?.rate }))}
-              columns={[{ key: "band", label: "Daily minimum" }, { key: "failures", label: "Failures" }, { key: "machineDays", label: "Machine-days", format: num }, { key: "rate", label: "Per 1,000 machine-days", format: num }, { key: "perHours", label: "Per 1,000 h", format: num }]}
+              columns={[{ key: "band", label: "Daily minimum" }, { key: "failures", label: "Failures" }, { key: "machineDays", label: "Machine-days", format: wholeHours }, { key: "rate", label: "Per 1,000 machine-days", format: rate }, { key: "perHours", label: "Per 1,000 h", format: rate }]}
               filename="rates-temperature-bands.csv"
               footer={<>{d.method} <b>Caution:</b> {d.caution}</>}
             />
@@ -157,7 +162,7 @@ export function Component() {
               subtitle="Bars: each component's share; line: cumulative share; dashed: 80 %"
               options={paretoChart(d, palette)}
               rows={d.rows.map((r) => ({ name: r.name, failures: r.failures, share: r.share * 100, cumulative: r.cumulativeShare * 100, rate: r.perThousandHours?.rate }))}
-              columns={[{ key: "name", label: "Component" }, { key: "failures", label: "Failures" }, { key: "share", label: "Share %", format: num }, { key: "cumulative", label: "Cumulative %", format: num }, { key: "rate", label: "Per 1,000 h", format: num }]}
+              columns={[{ key: "name", label: "Component" }, { key: "failures", label: "Failures" }, { key: "share", label: "Share %", percent: true, format: share }, { key: "cumulative", label: "Cumulative %", percent: true, format: share }, { key: "rate", label: "Per 1,000 h", format: rate }]}
               filename="rates-components.csv"
             />
           )}

@@ -9,8 +9,8 @@ import { QueryView } from "@/features/filters/components/query-view";
 import { Card } from "@/components/ui/states";
 import type { PrimeCache } from "@/app/page-loader";
 import type { RepairDetail } from "@shared/schemas/repairs";
+import { useFormat } from "@/lib/use-format";
 
-const v = (x: string | number | null | undefined, unit = "") => (x === null || x === undefined || x === "" ? "—" : `${typeof x === "number" ? x.toLocaleString("en-US") : x}${unit}`);
 
 function Facts({ items }: { items: [string, string][] }) {
   return (
@@ -23,6 +23,9 @@ function Facts({ items }: { items: [string, string][] }) {
 }
 
 function Detail({ d }: { d: RepairDetail }) {
+  const fmt = useFormat();
+  const v = (x: string | number | null | undefined, unit = "") => (x === null || x === undefined || x === "" ? "—" : `${typeof x === "number" ? fmt.quantity("plain", x) : x}${unit}`);
+  const hrs = (x: number | null) => (x === null ? "—" : `${fmt.quantity("hours", x)} h`);
   const { data: me } = useQuery(meQueries.current());
   const canClaim = Boolean(me?.roles.some((r) => r === "clerk" || r === "manager"));
   const [unit] = useTemperatureUnit();
@@ -52,7 +55,7 @@ function Detail({ d }: { d: RepairDetail }) {
         <Card title="The job">
           <Facts items={[
             ["Opened", l.openedDate], ["Closed", v(l.closedDate)], ["Line type", l.lineType], ["Pay type", l.payType],
-            ["Hour meter", v(l.hourMeter, " h")], ["Labour op", v(l.laborOp)], ["Labour", v(l.laborHours, " h")], ["Standard", v(l.standardHours, " h")],
+            ["Hour meter", hrs(l.hourMeter)], ["Labour op", v(l.laborOp)], ["Labour", v(l.laborHours, " h")], ["Standard", v(l.standardHours, " h")],
             ["Technician", v(l.technician)], ["Ambient", l.ambientTempC === null ? "—" : unit === "F" ? `${celsiusToFahrenheit(l.ambientTempC).toFixed(0)} °F` : `${l.ambientTempC} °C`],
           ]} />
         </Card>
@@ -66,7 +69,7 @@ function Detail({ d }: { d: RepairDetail }) {
       <Card title={`Machine ${m.serial}`}>
         <Facts items={[
           ["Model", `${m.modelLine} (${m.modelCode})`], ["Engine family", m.engineFamily], ["Engine serial", v(m.engineSerial)], ["Cold-start aid", m.coldStartAid.replace("_", " ")],
-          ["Built", v(m.buildDate)], ["Delivered", v(m.deliveryDate)], ["Hours at delivery", v(m.deliveryHours, " h")], ["Home shop", v(m.homeShop)],
+          ["Built", v(m.buildDate)], ["Delivered", v(m.deliveryDate)], ["Hours at delivery", hrs(m.deliveryHours)], ["Home shop", v(m.homeShop)],
           ["Heater-plug lot at build", v(m.heaterPlugLot)], ["Block heater", m.blockHeaterFitted ? "fitted" : "none"],
         ]} />
         <details className="mt-3">
@@ -78,7 +81,7 @@ function Detail({ d }: { d: RepairDetail }) {
                 {m.hoursTrail.map((h, i) => (
                   <tr key={i} className={`border-b border-line/60 ${h.valid ? "" : "text-alert"}`}>
                     <td className="py-1 pr-3 tabular-nums">{h.date}</td>
-                    <td className="pr-3 text-right tabular-nums">{h.hours.toLocaleString("en-US")}</td>
+                    <td className="pr-3 text-right tabular-nums">{fmt.quantity("hours", h.hours)}</td>
                     <td className="pr-3">{h.source}</td>
                     <td className="pr-3">{h.meterGeneration === 0 ? "original" : `replacement ${h.meterGeneration}`}</td>
                     <td>{h.valid ? (h.meterNote ?? "") : `set aside: ${h.invalidReason ?? "invalid"}`}</td>

@@ -183,6 +183,15 @@ const ACCESS: Record<string, Entry> = {
     invalid: () => ({ path: apiPaths.adminWarrantyPolicies(), body: { engineFamily: "NEW-1", policy: { ...POLICY, claimDays: 0 }, note: "access check" } }),
   },
 
+  // the group's settings: every role reads them; an admin sets the currency (an ISO 4217 code, else 400 in words)
+  "GET /api/settings": { req: () => ({ path: apiPaths.settings() }), expect: gate(ALL, 200) },
+  "GET /api/admin/settings": { req: () => ({ path: apiPaths.adminSettings() }), expect: gate(ADMIN, 200) },
+  "PUT /api/admin/settings": {
+    req: () => ({ path: apiPaths.adminSettings(), body: { currency: "USD" } }),
+    expect: gate(ADMIN, 200),
+    invalid: () => ({ path: apiPaths.adminSettings(), body: { currency: "dollars" } }),
+  },
+
   "GET /api/overview": { req: () => ({ path: apiPaths.overview() }), expect: gate(ANALYTICS, 200) },
   "GET /api/analytics/rates/hour-bands": { shop: "filter", req: filtered((s) => apiPaths.rates("hour-bands", s)), expect: gate(RATES, 200, "as-empty") },
   "GET /api/analytics/rates/temperature-bands": { shop: "filter", req: filtered((s) => apiPaths.rates("temperature-bands", s)), expect: gate(RATES, 200, "as-empty") },

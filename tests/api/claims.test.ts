@@ -324,6 +324,16 @@ describe("GET /api/claims/:id/lines.csv", () => {
     expect(rows[0].complaint).toBe(`'=HYPERLINK("http://x.invalid","hard start")`);
     expect(rows[0].serial).toBe(line.serial);
   });
+
+  it("carries raw numbers with the unit in the header: hours in h, money in the group's currency", async () => {
+    const line = await pickLine({ shop: "S5" });
+    const c = await createRepairClaim(line.key, managerS5);
+    const res = await request(t.app).get(`/api/claims/${c.id}/lines.csv`).set("Cookie", managerS5).expect(200);
+    const [row] = parse(res.text, { columns: true }) as Record<string, string>[];
+    // no currency set in this database: the fallback, USD (shared/schemas/settings.ts)
+    for (const h of ["hour_meter_h", "standard_hours_h", "actual_hours_h", "parts_cost_usd", "labor_cost_usd"]) expect(Object.keys(row)).toContain(h);
+    for (const h of ["hour_meter_h", "parts_cost_usd", "labor_cost_usd"]) if (row[h] !== "") expect(row[h]).toMatch(/^-?\d+(\.\d+)?$/);
+  });
 });
 
 describe("claims without object storage or mail", () => {

@@ -22,6 +22,7 @@ const MOUNTS: Record<string, string> = {
   "server/routes/admin-profiles.ts": "/api/admin/profiles",
   "server/routes/admin-warranty-policies.ts": "/api/admin/warranty-policies",
   "server/routes/admin-users.ts": "/api/admin/users",
+  "server/routes/admin-settings.ts": "/api/admin/settings",
   "server/routes/claims.ts": "/api/claims",
   "server/routes/claim-lifecycle.ts": "/api/claims",
   "server/routes/claim-story.ts": "/api/claims",

@@ -103,7 +103,8 @@ describe("the warranty clerk's week in Chromium", () => {
     await answer.getByLabel(/Amount the maker pays/).fill("100.00");
     await answer.getByLabel("The maker's reason for what it did not pay").fill("Labour paid at the standard time only.");
     await answer.getByRole("button", { name: "Save" }).click();
-    await page.getByText(/The maker pays 100\.00 of [\d,]+\.\d{2} claimed/).waitFor();
+    // money carries its currency: Chromium's en-US and the fallback USD (no group currency set), CLDR's "¤#,##0.00"
+    await page.getByText(/The maker pays \$100\.00 of \$[\d,]+\.\d{2} claimed/).waitFor();
     await photograph(env.browser, "clerk-03-claim-partly-paid");
   });
 

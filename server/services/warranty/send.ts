@@ -12,6 +12,7 @@ import type { ClaimDetail } from "../../../shared/schemas/claims.js";
 import { HttpError, isDatabaseUnreachable, mailUnavailable } from "../../errors.js";
 import { claimDetail, packetPdf } from "./claims-service.js";
 import { claimLinesCsv } from "./lines-csv.js";
+import { readSettings } from "../../db/queries/settings.js";
 
 export const SEND_QUEUE = "claim-packet-send";
 
@@ -61,7 +62,7 @@ export function describeSendError(err: unknown): string {
 /** The packet mail for a claim: PDF and lines CSV rendered afresh (reads the database and object storage). */
 async function packetMail(deps: Pick<SendDeps, "db" | "storage">, detail: ClaimDetail, from: string, to: string, requestedBy: string) {
   const pdf = await packetPdf(deps, detail);
-  const csv = claimLinesCsv(detail.claimNumber, detail.lines);
+  const csv = claimLinesCsv(detail.claimNumber, detail.lines, (await readSettings(deps.db)).currency);
   return {
     from,
     to,

@@ -56,7 +56,7 @@ export function ComebackPairsPanel(props: {
                   toCsv(
                     [
                       { key: "ro", label: "Original RO" }, { key: "closed", label: "Closed" }, { key: "tech", label: "Technician" }, { key: "component", label: "Component" },
-                      { key: "back", label: "Comeback RO" }, { key: "opened", label: "Opened" }, { key: "days", label: "Days after close" }, { key: "hours", label: "Engine hours after close" },
+                      { key: "back", label: "Comeback RO" }, { key: "opened", label: "Opened" }, { key: "days", label: "Days after close (d)" }, { key: "hours", label: "Engine hours after close (h)" },
                     ],
                     q.data.pairs.map((p) => ({
                       ro: p.original.roNumber === null ? "" : `${p.original.roNumber}/${p.original.lineNo}`, closed: p.original.closed, tech: p.original.technician, component: p.original.component,

@@ -35,10 +35,10 @@ export function WaitsSection({ params }: { params: BenchmarkParams }) {
             columns={[
               { key: "label", label: "Shop" },
               { key: "n", label: "Part lines" },
-              ...d.group.bands.map((b) => ({ key: b.key, label: `${b.label} (%)`, format: num })),
-              { key: "over3", label: "Over 3 days (%)", format: num },
-              { key: "over7", label: "Over 7 days (%)", format: num },
-              { key: "over14", label: "Over 14 days (%)", format: num },
+              ...d.group.bands.map((b) => ({ key: b.key, label: `${b.label} (%)`, percent: true, format: num })),
+              { key: "over3", label: "Over 3 days (%)", percent: true, format: num },
+              { key: "over7", label: "Over 7 days (%)", percent: true, format: num },
+              { key: "over14", label: "Over 14 days (%)", percent: true, format: num },
               { key: "median", label: "Median (days)", format: num },
             ]}
             filename={`parts-waits-${d.period.key}.csv`}
@@ -64,9 +64,9 @@ export function WaitsSection({ params }: { params: BenchmarkParams }) {
             columns={[
               { key: "month", label: "Month ordered" },
               { key: "n", label: "Part lines" },
-              { key: "over7", label: "Over 7 days (%)", format: num },
-              { key: "over14", label: "Over 14 days (%)", format: num },
-              { key: "backOrdered", label: "Back-ordered (%)", format: num },
+              { key: "over7", label: "Over 7 days (%)", percent: true, format: num },
+              { key: "over14", label: "Over 14 days (%)", percent: true, format: num },
+              { key: "backOrdered", label: "Back-ordered (%)", percent: true, format: num },
               { key: "median", label: "Median (days)", format: num },
               { key: "standout", label: "Stands out" },
             ]}

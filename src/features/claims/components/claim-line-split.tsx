@@ -1,8 +1,9 @@
 import { useState } from "react";
 import { ErrorNotice } from "@/components/ui/states";
 import { useClaimActions } from "@/features/claims/api/claim-queries";
-import { money, num } from "@/features/claims/components/deadline-badge";
+
 import type { ClaimDetail, RepairLineEvidence } from "@shared/schemas/claims";
+import { useFormat } from "@/lib/use-format";
 
 const lineName = (l: RepairLineEvidence | undefined, id: string) => (l ? `${l.roNumber}/${l.lineNo}` : id);
 
@@ -35,6 +36,7 @@ function IncludeForm({ claim, lineId, onDone }: { claim: ClaimDetail; lineId: st
 
 /** The lines in the amount claimed (covered, or included deliberately with the reason) and the lines listed apart with why. */
 export function ClaimLineSplit({ claim }: { claim: ClaimDetail }) {
+  const f = useFormat();
   const { include } = useClaimActions(claim.id);
   const [open, setOpen] = useState<string | null>(null);
   const byId = new Map(claim.lines.map((l) => [l.id, l]));
@@ -45,9 +47,9 @@ export function ClaimLineSplit({ claim }: { claim: ClaimDetail }) {
   return (
     <div className="space-y-3 text-sm">
       <p>
-        Claimed: <b>{money(claim.amountClaimed)}</b> for {s.included.length} line{s.included.length === 1 ? "" : "s"} ({covered} covered
+        Claimed: <b>{f.money(claim.amountClaimed)}</b> for {s.included.length} line{s.included.length === 1 ? "" : "s"} ({covered} covered
         {deliberate.length ? `, ${deliberate.length} included deliberately` : ""}).
-        {s.apart.length > 0 && <> Listed apart, not claimed: <b>{money(s.amountApart)}</b> for {s.apart.length} line{s.apart.length === 1 ? "" : "s"}.</>}
+        {s.apart.length > 0 && <> Listed apart, not claimed: <b>{f.money(s.amountApart)}</b> for {s.apart.length} line{s.apart.length === 1 ? "" : "s"}.</>}
       </p>
       {deliberate.length > 0 && (
         <div>
@@ -59,7 +61,7 @@ export function ClaimLineSplit({ claim }: { claim: ClaimDetail }) {
                   <span>
                     <b>{lineName(byId.get(x.lineId), x.lineId)}</b> {byId.get(x.lineId)?.machine.serial} · <span className="text-alert">{x.why}</span>
                   </span>
-                  <span className="tabular-nums">{money(x.amount)}</span>
+                  <span className="tabular-nums">{f.money(x.amount)}</span>
                 </div>
                 <p>Reason: {x.reason} <span className="text-muted">({x.includedBy}, {x.includedAt?.slice(0, 10)})</span></p>
                 {editable && (
@@ -82,9 +84,9 @@ export function ClaimLineSplit({ claim }: { claim: ClaimDetail }) {
                 <li key={x.lineId} className="py-1">
                   <div className="flex flex-wrap items-baseline justify-between gap-2">
                     <span>
-                      <b>{lineName(l, x.lineId)}</b> {l?.machine.serial} · {l ? `${num(l.hourMeter, 0)} h` : ""} · <span className="text-alert">{x.why}</span>
+                      <b>{lineName(l, x.lineId)}</b> {l?.machine.serial} · {l ? `${f.quantity("hours", l.hourMeter)} h` : ""} · <span className="text-alert">{x.why}</span>
                     </span>
-                    <span className="tabular-nums">{money(x.amount)}</span>
+                    <span className="tabular-nums">{f.money(x.amount)}</span>
                   </div>
                   {editable &&
                     (open === x.lineId ? (

@@ -1,10 +1,12 @@
 import { useQuery } from "@tanstack/react-query";
 import { EmptyState, ErrorNotice, Skeleton } from "@/components/ui/states";
 import { claimQueries } from "@/features/claims/api/claim-queries";
-import { money } from "@/features/claims/components/deadline-badge";
+
 import type { MoneyRow } from "@shared/schemas/claim-lifecycle";
+import { useFormat } from "@/lib/use-format";
 
 function MoneyTable({ rows, total, keyLabel, label }: { rows: readonly MoneyRow[]; total: MoneyRow; keyLabel: string; label: string }) {
+  const f = useFormat();
   return (
     <div className="overflow-x-auto">
     <table className="w-full text-left text-sm" aria-label={label}>
@@ -15,16 +17,16 @@ function MoneyTable({ rows, total, keyLabel, label }: { rows: readonly MoneyRow[
         {rows.map((r) => (
           <tr key={r.key} className="border-b border-line/50">
             <td className="py-1">{r.key}</td>
-            <td className="text-right tabular-nums">{r.claims.toLocaleString("en-US")}</td>
-            <td className="text-right tabular-nums">{money(r.claimed)}</td>
-            <td className="text-right tabular-nums text-ok">{money(r.paid)}</td>
-            <td className="text-right tabular-nums text-alert">{money(r.writtenOff)}</td>
-            <td className="text-right tabular-nums">{money(r.open)}</td>
+            <td className="text-right tabular-nums">{f.count(r.claims)}</td>
+            <td className="text-right tabular-nums">{f.money(r.claimed)}</td>
+            <td className="text-right tabular-nums text-ok">{f.money(r.paid)}</td>
+            <td className="text-right tabular-nums text-alert">{f.money(r.writtenOff)}</td>
+            <td className="text-right tabular-nums">{f.money(r.open)}</td>
           </tr>
         ))}
       </tbody>
       <tfoot className="font-semibold">
-        <tr><td className="py-1">All</td><td className="text-right tabular-nums">{total.claims.toLocaleString("en-US")}</td><td className="text-right tabular-nums">{money(total.claimed)}</td><td className="text-right tabular-nums">{money(total.paid)}</td><td className="text-right tabular-nums">{money(total.writtenOff)}</td><td className="text-right tabular-nums">{money(total.open)}</td></tr>
+        <tr><td className="py-1">All</td><td className="text-right tabular-nums">{f.count(total.claims)}</td><td className="text-right tabular-nums">{f.money(total.claimed)}</td><td className="text-right tabular-nums">{f.money(total.paid)}</td><td className="text-right tabular-nums">{f.money(total.writtenOff)}</td><td className="text-right tabular-nums">{f.money(total.open)}</td></tr>
       </tfoot>
     </table>
     </div>

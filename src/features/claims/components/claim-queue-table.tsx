@@ -6,9 +6,10 @@ import { SortedTable } from "@/components/sorted-table";
 import { claimQueries } from "@/features/claims/api/claim-queries";
 import { shopQueries } from "@/features/filters/api/shop-queries";
 import { meQueries } from "@/features/session/api/me-queries";
-import { DeadlineBadge, money, num } from "@/features/claims/components/deadline-badge";
+import { DeadlineBadge } from "@/features/claims/components/deadline-badge";
 import { CANDIDATE_PAGE_SIZES, type ClaimCandidatePage, type ClaimCandidateQuery } from "@shared/schemas/claims";
 import { components, engineFamilies } from "@shared/catalog";
+import { useFormat } from "@/lib/use-format";
 
 type Row = ClaimCandidatePage["rows"][number];
 type SortKey = ClaimCandidateQuery["sort"];
@@ -38,6 +39,7 @@ const none: Filters = { q: "", shop: "", component: "", engineFamily: "", daysLe
  * where they are.
  */
 export function ClaimQueueTable({ onPick }: { onPick: (id: string) => void }) {
+  const f = useFormat();
   const me = useQuery(meQueries.current());
   const scope = me.data?.scope;
   const canFilterShops = scope?.kind === "all" || (scope?.kind === "shops" && scope.shops.length > 1);
@@ -61,10 +63,10 @@ export function ClaimQueueTable({ onPick }: { onPick: (id: string) => void }) {
     col.accessor("serial", { id: "serial", header: "Machine", cell: (i) => <>{i.getValue()} <span className="text-muted">{i.row.original.modelLine}</span></> }),
     col.accessor("engineFamily", { id: "family", header: "Engine family", enableSorting: false }),
     col.accessor("component", { id: "component", header: "Component" }),
-    col.accessor("hourMeter", { id: "hours", header: "Hour meter (h)", enableSorting: false, cell: (i) => num(i.getValue(), 0) }),
+    col.accessor("hourMeter", { id: "hours", header: "Hour meter (h)", enableSorting: false, cell: (i) => f.quantity("hours", i.getValue()) }),
     col.accessor("payType", { id: "pay", header: "Billed as", enableSorting: false, cell: (i) => <span className={i.getValue() === "warranty" ? "" : "font-semibold text-alert"}>{i.getValue()}</span> }),
     col.accessor("closedDate", { id: "closed", header: "Closed" }),
-    col.accessor("amount", { id: "amount", header: "Parts + labour", cell: (i) => money(i.getValue()) }),
+    col.accessor("amount", { id: "amount", header: "Parts + labour", cell: (i) => f.money(i.getValue()) }),
     col.display({
       id: "claim",
       header: "",
@@ -139,7 +141,7 @@ export function ClaimQueueTable({ onPick }: { onPick: (id: string) => void }) {
           <p className="text-sm text-muted" aria-live="polite">
             {d!.total === 0
               ? filters.q ? `No line in the queue matches "${filters.q}".` : "No covered, unclaimed repair line matches these filters."
-              : `${d!.total.toLocaleString("en-US")} covered, unclaimed repair line${d!.total === 1 ? "" : "s"}${filters.q ? ` matching "${filters.q}"` : ""}.`}
+              : `${f.count(d!.total)} covered, unclaimed repair line${d!.total === 1 ? "" : "s"}${filters.q ? ` matching "${filters.q}"` : ""}.`}
           </p>
           {d!.elsewhere.length > 0 && (
             <div className="rounded border border-ochre/50 bg-ochre/10 p-2 text-sm" data-testid="lines-elsewhere">
@@ -156,7 +158,7 @@ export function ClaimQueueTable({ onPick }: { onPick: (id: string) => void }) {
           )}
           <nav aria-label="Queue pages" className="flex flex-wrap items-center gap-2 text-sm">
             <button type="button" disabled={page <= 1 || list.isPlaceholderData} onClick={() => setPage((p) => p - 1)} className="rounded border border-line bg-white px-3 py-1 disabled:opacity-40">Previous</button>
-            <span>Page {page.toLocaleString("en-US")} of {pages.toLocaleString("en-US")}</span>
+            <span>Page {f.count(page)} of {f.count(pages)}</span>
             <button type="button" disabled={page >= pages || list.isPlaceholderData} onClick={() => setPage((p) => p + 1)} className="rounded border border-line bg-white px-3 py-1 disabled:opacity-40">Next</button>
             <label className="ml-auto">Rows per page{" "}
               <select value={pageSize} onChange={(e) => { setPageSize(Number(e.target.value)); setPage(1); }} className="rounded border border-line bg-white px-1 py-0.5">

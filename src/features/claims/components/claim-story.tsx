@@ -5,6 +5,7 @@ import { zodResolver } from "@hookform/resolvers/zod";
 import { ErrorNotice, Skeleton } from "@/components/ui/states";
 import { claimStoryQuery, useClaimStory } from "@/features/claims/api/claim-queries";
 import { narrativeSchema, type ClaimStory, type Narrative } from "@shared/schemas/claim-story";
+import { useFormat } from "@/lib/use-format";
 
 const PARTS: { key: keyof Narrative; label: string; hint: string }[] = [
   { key: "found", label: "What was found", hint: "The complaint, the machine and its hours, what the readings showed." },
@@ -70,6 +71,7 @@ function NarrativeForm({ claimId, story }: { claimId: string; story: ClaimStory 
 
 /** Notes between the warranty clerk and the shop: kept with the claim, never in the packet. */
 export function NotesPanel({ claimId }: { claimId: string }) {
+  const fmt = useFormat();
   const q = useQuery(claimStoryQuery(claimId));
   const { addNote } = useClaimStory(claimId);
   const [text, setText] = useState("");
@@ -84,7 +86,7 @@ export function NotesPanel({ claimId }: { claimId: string }) {
         <ol className="space-y-2" aria-label="Notes">
           {q.data.notes.map((n) => (
             <li key={n.id} className="rounded border border-line/70 bg-paper/60 p-2 text-sm">
-              <p className="text-xs text-muted">{n.authorName} ({n.authorRole === "shop" ? "the shop" : n.authorRole}), {new Date(n.at).toLocaleString("en-GB", { dateStyle: "medium", timeStyle: "short" })}</p>
+              <p className="text-xs text-muted">{n.authorName} ({n.authorRole === "shop" ? "the shop" : n.authorRole}), {fmt.dateTime(n.at)}</p>
               <p className="whitespace-pre-wrap">{n.text}</p>
             </li>
           ))}

@@ -1,6 +1,6 @@
 import { hourBandLabel, temperatureBandLabel } from "@shared/bands";
 import type { ClusterSnapshot, RepairLineEvidence } from "@shared/schemas/claims";
-import { money, num } from "./deadline-badge";
+import { useFormat } from "@/lib/use-format";
 
 export function ClusterStats({ snap }: { snap: ClusterSnapshot }) {
   const c = snap.cluster;
@@ -31,6 +31,7 @@ export function ClusterStats({ snap }: { snap: ClusterSnapshot }) {
 
 /** The repair lines of a campaign case, with each line's eligibility. */
 export function CaseLines({ lines }: { lines: readonly RepairLineEvidence[] }) {
+  const f = useFormat();
   return (
     <div className="max-h-96 overflow-auto">
       <table className="w-full text-left text-sm" aria-label="Repair lines in the case">
@@ -45,11 +46,11 @@ export function CaseLines({ lines }: { lines: readonly RepairLineEvidence[] }) {
               <td>{l.machine.serial}</td>
               <td>{l.machine.modelLine}</td>
               <td>{l.openedDate}</td>
-              <td className="text-right tabular-nums">{num(l.hourMeter, 0)}</td>
+              <td className="text-right tabular-nums">{f.quantity("hours", l.hourMeter)}</td>
               <td title={l.eligibility.summary} className={"pl-4 " + (l.eligibility.verdict === "covered" ? "text-ok" : l.eligibility.verdict === "unknown" ? "text-ochre" : "text-alert")}>
                 {l.eligibility.verdict === "covered" ? "covered" : l.eligibility.verdict === "unknown" ? "cannot tell" : `no: ${l.eligibility.endedBy} limit`}
               </td>
-              <td className="text-right tabular-nums">{money((l.partsCost ?? 0) + (l.laborCost ?? 0))}</td>
+              <td className="text-right tabular-nums">{f.money((l.partsCost ?? 0) + (l.laborCost ?? 0))}</td>
             </tr>
           ))}
         </tbody>

@@ -1,9 +1,11 @@
 import { claimStatusLabels, type ClaimSummary } from "@shared/schemas/claims";
+import { useFormat } from "@/lib/use-format";
 
 /** Days left to the filing deadline, in words and colour (overdue in the alert colour). */
 export function DeadlineBadge({ deadline }: { deadline: ClaimSummary["deadline"] }) {
+  const f = useFormat();
   const { state, daysLeft } = deadline;
-  const text = state === "overdue" ? `${(-daysLeft).toLocaleString("en-US")} days overdue` : state === "due_today" ? "due today" : `${daysLeft} day${daysLeft === 1 ? "" : "s"} left`;
+  const text = state === "overdue" ? `${f.count(-daysLeft)} days overdue` : state === "due_today" ? "due today" : `${daysLeft} day${daysLeft === 1 ? "" : "s"} left`;
   const tone = state === "overdue" ? "bg-alert/10 text-alert border-alert/40" : daysLeft <= 7 ? "bg-ochre/15 text-ink border-ochre/50" : "bg-accent-soft text-accent border-accent/30";
   return <span className={`inline-block whitespace-nowrap rounded-full border px-2 py-0.5 text-xs font-semibold ${tone}`}>{text}</span>;
 }
@@ -21,5 +23,3 @@ export function StatusPill({ status }: { status: ClaimSummary["status"] }) {
   return <span className={`inline-block rounded px-2 py-0.5 text-xs font-semibold ${tone[status]}`}>{claimStatusLabels[status]}</span>;
 }
 
-export const money = (n: number | null) => (n === null ? "–" : n.toLocaleString("en-US", { minimumFractionDigits: 2, maximumFractionDigits: 2 }));
-export const num = (n: number | null, digits = 1) => (n === null ? "–" : n.toLocaleString("en-US", { maximumFractionDigits: digits }));

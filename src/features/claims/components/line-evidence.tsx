@@ -1,5 +1,5 @@
 import type { RepairLineEvidence } from "@shared/schemas/claims";
-import { money, num } from "./deadline-badge";
+import { useFormat } from "@/lib/use-format";
 
 const verdictTone = (v: string) => (v === "good" || v === "healthy" || v === "covered" ? "text-ok" : v === "watch" || v === "unknown" ? "text-ochre" : "text-alert");
 
@@ -27,6 +27,7 @@ function Fact({ label, children }: { label: string; children: React.ReactNode })
 
 /** Machine, repair order and parts/labour of one line. */
 export function LineFacts({ line }: { line: RepairLineEvidence }) {
+  const f = useFormat();
   const l = line;
   return (
     <div className="space-y-3 text-sm">
@@ -37,7 +38,7 @@ export function LineFacts({ line }: { line: RepairLineEvidence }) {
         <Fact label="Engine serial">{l.machine.engineSerial ?? "–"}</Fact>
         <Fact label="Build date">{l.machine.buildDate ?? "–"}</Fact>
         <Fact label="Delivery date">{l.machine.deliveryDate ?? "–"}</Fact>
-        <Fact label="Hour meter">{l.hourMeter === null ? "not recorded" : `${num(l.hourMeter)} h`}</Fact>
+        <Fact label="Hour meter">{l.hourMeter === null ? "not recorded" : `${f.quantity("hours", l.hourMeter)} h`}</Fact>
         <Fact label="Plug lot at build">{l.machine.heaterPlugLot ?? "–"}</Fact>
         <Fact label="Repair order">{l.roNumber} / line {l.lineNo} <span className="text-muted">at {l.shopCode}</span></Fact>
         <Fact label="Opened – closed">{l.openedDate} – {l.closedDate ?? "open"}</Fact>
@@ -53,7 +54,7 @@ export function LineFacts({ line }: { line: RepairLineEvidence }) {
               {line.hourTrail.map((r, i) => (
                 <tr key={i} className={r.thisRepair ? "font-semibold" : ""}>
                   <td className="pr-4">{r.date}{r.thisRepair && " (this RO)"}</td>
-                  <td className="pr-4 text-right tabular-nums">{num(r.hours)}</td>
+                  <td className="pr-4 text-right tabular-nums">{f.quantity("hours", r.hours)}</td>
                   <td className="pr-4">{r.source}</td>
                   <td className={r.valid ? "" : "text-alert"}>{r.valid ? "yes" : `no: ${r.invalidReason ?? ""}`}</td>
                 </tr>
@@ -67,29 +68,33 @@ export function LineFacts({ line }: { line: RepairLineEvidence }) {
         <Fact label="Cause">{l.cause ?? "–"}</Fact>
         <Fact label="Correction">{l.correction ?? "–"}</Fact>
       </dl>
-      <table className="w-full text-left text-sm">
-        <thead className="border-b border-line text-xs text-muted">
-          <tr><th className="py-1">Part</th><th>Lot</th><th className="text-right">Qty</th><th>Labour op</th><th className="text-right">Standard h</th><th className="text-right">Actual h</th><th className="text-right">Parts</th><th className="text-right">Labour</th></tr>
-        </thead>
-        <tbody>
-          <tr>
-            <td className="py-1">{l.partNumber ?? "–"} <span className="text-muted">{l.partDescription}</span></td>
-            <td>{l.supplierLot ?? "–"}</td>
-            <td className="text-right tabular-nums">{num(l.partQty, 2)}</td>
-            <td>{l.laborOp ?? "–"}</td>
-            <td className="text-right tabular-nums">{num(l.standardHours, 2)}</td>
-            <td className="text-right tabular-nums">{num(l.laborHours, 2)}</td>
-            <td className="text-right tabular-nums">{money(l.partsCost)}</td>
-            <td className="text-right tabular-nums">{money(l.laborCost)}</td>
-          </tr>
-        </tbody>
-      </table>
+      {/* money carries its currency sign: on a phone the eight columns scroll inside the card, not the page */}
+      <div className="overflow-x-auto">
+        <table className="w-full text-left text-sm">
+          <thead className="border-b border-line text-xs text-muted">
+            <tr><th className="py-1">Part</th><th>Lot</th><th className="text-right">Qty</th><th className="pl-3">Labour op</th><th className="text-right">Standard h</th><th className="text-right">Actual h</th><th className="text-right">Parts</th><th className="text-right">Labour</th></tr>
+          </thead>
+          <tbody>
+            <tr>
+              <td className="py-1">{l.partNumber ?? "–"} <span className="text-muted">{l.partDescription}</span></td>
+              <td>{l.supplierLot ?? "–"}</td>
+              <td className="text-right tabular-nums">{f.quantity("plain", l.partQty)}</td>
+              <td className="pl-3">{l.laborOp ?? "–"}</td>
+              <td className="text-right tabular-nums">{f.quantity("plain", l.standardHours)}</td>
+              <td className="text-right tabular-nums">{f.quantity("plain", l.laborHours)}</td>
+              <td className="text-right tabular-nums">{f.money(l.partsCost)}</td>
+              <td className="text-right tabular-nums">{f.money(l.laborCost)}</td>
+            </tr>
+          </tbody>
+        </table>
+      </div>
     </div>
   );
 }
 
 /** Readings with their interpretation (shared/measurement-interpretation, computed by the server). */
 export function MeasurementPanel({ line }: { line: RepairLineEvidence }) {
+  const f = useFormat();
   const m = line.interpretation;
   if (!m.compression && !m.plugs.length && !m.rail.length && !m.battery.length) return <p className="text-sm text-muted">No readings were recorded on this line.</p>;
   const c = m.compression;
@@ -104,8 +109,8 @@ export function MeasurementPanel({ line }: { line: RepairLineEvidence }) {
               {c.cylinders.map((y) => (
                 <tr key={y.position} className="border-b border-line/50">
                   <td className="py-1">{y.position}</td>
-                  <td className="tabular-nums">{y.attempts.map((a) => a.toFixed(0)).join(" / ")}</td>
-                  <td className="text-right tabular-nums">{y.mean.toFixed(0)}</td>
+                  <td className="tabular-nums">{y.attempts.map((a) => f.count(a)).join(" / ")}</td>
+                  <td className="text-right tabular-nums">{f.count(y.mean)}</td>
                   <td className={`pl-4 ${verdictTone(y.verdict)}`}>{y.band}</td>
                   <td className="pl-4 text-xs text-muted">{y.source}</td>
                 </tr>
@@ -113,8 +118,8 @@ export function MeasurementPanel({ line }: { line: RepairLineEvidence }) {
             </tbody>
           </table>
           <p className="mt-2">
-            Average <b>{c.average.toFixed(0)} psi</b>; lowest cylinder {c.lowest.position} at <b className={verdictTone(c.lowest.verdict)}>{c.lowest.mean.toFixed(0)} psi</b> (the engine is rated by it);
-            spread ({c.highest.mean.toFixed(0)} − {c.lowest.mean.toFixed(0)}) ÷ {c.highest.mean.toFixed(0)} = <b className={verdictTone(c.spreadVerdict)}>{(c.spread * 100).toFixed(1)} %</b> ({c.spreadBand}; threshold from {c.spreadSource}); {c.pattern.meaning} ({c.pattern.source}).
+            Average <b>{f.withUnit(c.average, "psi")}</b>; lowest cylinder {c.lowest.position} at <b className={verdictTone(c.lowest.verdict)}>{f.withUnit(c.lowest.mean, "psi")}</b> (the engine is rated by it);
+            spread ({f.count(c.highest.mean)} − {f.count(c.lowest.mean)}) ÷ {f.count(c.highest.mean)} = <b className={verdictTone(c.spreadVerdict)}>{f.quantity("percent", c.spread * 100)} %</b> ({c.spreadBand}; threshold from {c.spreadSource}); {c.pattern.meaning} ({c.pattern.source}).
           </p>
         </div>
       )}
@@ -134,7 +139,7 @@ export function MeasurementPanel({ line }: { line: RepairLineEvidence }) {
           {m.rail.map((r, i) => <p key={i}>{r.raw} → <span className={verdictTone(r.verdict)}>{r.label}</span> <span className="text-xs text-muted">(threshold from {r.source})</span></p>)}
         </div>
       )}
-      {m.battery.length > 0 && <p>Battery: {m.battery.map((b) => `${b.volts.toFixed(2)} V`).join(", ")}</p>}
+      {m.battery.length > 0 && <p>Battery: {m.battery.map((b) => f.reading("voltage", b.volts)).join(", ")}</p>}
     </div>
   );
 }

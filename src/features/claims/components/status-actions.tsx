@@ -2,8 +2,8 @@ import { useState } from "react";
 import { useNavigate } from "react-router-dom";
 import { ErrorNotice } from "@/components/ui/states";
 import { useClaimActions } from "@/features/claims/api/claim-queries";
-import { money } from "@/features/claims/components/deadline-badge";
 import type { ClaimDetail, ClaimStatus } from "@shared/schemas/claims";
+import { useFormat } from "@/lib/use-format";
 
 const actionLabels: Record<ClaimStatus, string> = {
   draft: "Back to draft",
@@ -89,6 +89,7 @@ function SubmitForm({ claim, onDone }: { claim: ClaimDetail; onDone: () => void 
 
 /** The maker's answer (acceptance, partial acceptance, rejection), a credit, or a write-off. */
 function AnswerForm({ claim, to, onDone }: { claim: ClaimDetail; to: ClaimStatus; onDone: () => void }) {
+  const f = useFormat();
   const { move } = useClaimActions(claim.id);
   const needsAmount = to === "accepted" || to === "partly_accepted" || to === "credited";
   const needsReason = to === "partly_accepted" || to === "rejected" || to === "written_off";
@@ -111,7 +112,7 @@ function AnswerForm({ claim, to, onDone }: { claim: ClaimDetail; to: ClaimStatus
       {needsAmount && (
         <label className="block">
           {amountLabel}
-          {to !== "credited" && <span className="text-muted"> (claimed {money(claim.amountClaimed)})</span>}
+          {to !== "credited" && <span className="text-muted"> (claimed {f.money(claim.amountClaimed)})</span>}
           <input value={amount} onChange={(e) => setAmount(e.target.value)} inputMode="decimal" className={`${field} max-w-48`} />
         </label>
       )}
@@ -162,6 +163,7 @@ function ResubmitForm({ claim, onDone }: { claim: ClaimDetail; onDone: () => voi
 
 /** The claim's filing and answer as they stand, and the moves it may make next, each with its form. */
 export function StatusActions({ claim }: { claim: ClaimDetail }) {
+  const fmt = useFormat();
   const [target, setTarget] = useState<ClaimStatus | "resubmit" | null>(null);
   const f = claim.filing;
   return (
@@ -180,8 +182,8 @@ export function StatusActions({ claim }: { claim: ClaimDetail }) {
       )}
       {claim.amountPaid !== null && (
         <p>
-          The maker pays <b>{money(claim.amountPaid)}</b> of {money(claim.amountClaimed)} claimed
-          {claim.amountClaimed !== null && claim.amountPaid < claim.amountClaimed ? ` (${money(claim.amountClaimed - claim.amountPaid)} not paid)` : ""}.
+          The maker pays <b>{fmt.money(claim.amountPaid)}</b> of {fmt.money(claim.amountClaimed)} claimed
+          {claim.amountClaimed !== null && claim.amountPaid < claim.amountClaimed ? ` (${fmt.money(claim.amountClaimed - claim.amountPaid)} not paid)` : ""}.
         </p>
       )}
       {claim.writtenOffReason && <p className="text-muted">Written off: {claim.writtenOffReason}</p>}

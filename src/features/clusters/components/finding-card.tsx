@@ -3,6 +3,7 @@ import type { Cluster, Finding } from "@shared/schemas/analytics-clusters";
 import { RatioStrip } from "./ratio-strip";
 import { FindingStatusPill } from "./finding-work";
 import type { FindingState } from "@shared/schemas/findings";
+import { useFormat } from "@/lib/use-format";
 
 const fmt = (v: number) => (v >= 10 ? v.toFixed(0) : v >= 1 ? v.toFixed(1) : v.toFixed(2));
 const q = (v: number) => (v < 0.001 ? "< 0.001" : v.toFixed(3));
@@ -21,6 +22,7 @@ export function ClusterFigures({ c }: { c: Cluster }) {
 
 /** One finding: its sentence (linking to the lead cluster's evidence), its figures, and the cells inside it. */
 export function FindingCard({ f, search, state }: { f: Finding; search: string; state?: FindingState }) {
+  const fmt = useFormat();
   const to = (id: string) => `/clusters/${id}${search ? `?${search}` : ""}`;
   return (
     <article aria-labelledby={`finding-${f.id}`} className="rounded-lg border border-line bg-card p-3 shadow-sm">
@@ -39,7 +41,7 @@ export function FindingCard({ f, search, state }: { f: Finding; search: string; 
           {f.life && <p className="text-sm" data-testid="finding-life">{f.life}</p>}
           <ClusterFigures c={f.lead} />
           <p className="text-xs text-muted">
-            {f.cells === 1 ? "1 significant cell supports it" : `${f.cells.toLocaleString("en-US")} significant cells support it`}
+            {f.cells === 1 ? "1 significant cell supports it" : `${fmt.count(f.cells)} significant cells support it`}
             {f.facets.length > 0 && `, ${f.facets.length} of them shown below as where it concentrates`}.
           </p>
           {f.facets.length > 0 && (

@@ -1,10 +1,11 @@
 import type { CostRates } from "@shared/schemas/analytics-rates";
 import { downloadText, toCsv } from "@/lib/csv";
-
-const money = (v: number | null | undefined) => (v === null || v === undefined ? "—" : Math.round(v).toLocaleString("en-US"));
+import { useFormat } from "@/lib/use-format";
 
 /** Repair cost per 1,000 engine hours, components down, shops across, with each shop's and component's total. */
 export function CostTable({ d }: { d: CostRates }) {
+  const f = useFormat();
+  const money = f.moneyWhole;
   const cell = new Map(d.rows.map((r) => [`${r.component}|${r.shop}`, r]));
   const columns = [
     { key: "shop", label: "Shop" },
@@ -45,7 +46,7 @@ export function CostTable({ d }: { d: CostRates }) {
         </table>
       </div>
       <div className="flex flex-wrap items-center justify-between gap-2 text-xs text-muted">
-        <p>{d.method} Cost in {d.currency}.</p>
+        <p>{d.method} Cost in {f.currency}.</p>
         <button type="button" className="rounded border border-line px-2 py-1 text-sm text-ink hover:bg-paper" onClick={() => downloadText("rates-costs.csv", toCsv(columns, d.rows.map((r) => Object.fromEntries(columns.map((c) => [c.key, r[c.key as keyof typeof r]])))))}>
           CSV
         </button>

@@ -1,10 +1,12 @@
 import type { RateComparisonAnswer } from "@shared/schemas/analytics-rates";
+import { useFormat } from "@/lib/use-format";
 
-const hours = (v: number) => Math.round(v).toLocaleString("en-US");
-const per = (v: number) => (v >= 1 ? v.toFixed(2) : v.toPrecision(2));
 
 /** A two-group rate comparison: the sentence first, then the numbers behind it. */
 export function RateComparisonView({ d }: { d: RateComparisonAnswer }) {
+  const fmt = useFormat();
+  const hours = (v: number) => fmt.quantity("hours", v);
+  const per = (v: number) => fmt.quantity("rate", v);
   return (
     <div className="space-y-2" data-testid="rate-comparison">
       <p className="text-base font-semibold">{d.sentence}</p>
@@ -21,7 +23,7 @@ export function RateComparisonView({ d }: { d: RateComparisonAnswer }) {
           {[d.a, d.b].map((g) => (
             <tr key={g.label} className="border-b border-line/60">
               <td className="py-1.5 pr-3 font-semibold">{g.label}</td>
-              <td className="pr-3 text-right tabular-nums">{g.failures.toLocaleString("en-US")}</td>
+              <td className="pr-3 text-right tabular-nums">{fmt.count(g.failures)}</td>
               <td className="pr-3 text-right tabular-nums">{hours(g.engineHours)}</td>
               <td className="text-right tabular-nums">{g.perThousandHours ? `${per(g.perThousandHours.rate)} (${per(g.perThousandHours.lower)}–${per(g.perThousandHours.upper)})` : "—"}</td>
             </tr>
@@ -30,7 +32,7 @@ export function RateComparisonView({ d }: { d: RateComparisonAnswer }) {
       </table>
       {d.comparison && (
         <p className="text-sm tabular-nums">
-          Rate ratio {d.comparison.ratio === null ? "unbounded" : d.comparison.ratio.toFixed(3)}, 95 % interval {d.comparison.lower.toFixed(3)}–{d.comparison.upper === null ? "unbounded" : d.comparison.upper.toFixed(3)}, two-sided p {d.comparison.pValue < 0.0001 ? d.comparison.pValue.toExponential(1) : d.comparison.pValue.toFixed(4)}; {d.comparison.expectedA.toFixed(1)} failures expected in {d.a.label} if the rates were equal.
+          Rate ratio {d.comparison.ratio === null ? "unbounded" : fmt.quantity("ratio", d.comparison.ratio)}, 95 % interval {fmt.quantity("ratio", d.comparison.lower)}–{d.comparison.upper === null ? "unbounded" : fmt.quantity("ratio", d.comparison.upper)}, two-sided p {d.comparison.pValue < 0.0001 ? d.comparison.pValue.toExponential(1) : d.comparison.pValue.toFixed(4)}; {d.comparison.expectedA.toFixed(1)} failures expected in {d.a.label} if the rates were equal.
         </p>
       )}
       <p className="text-xs text-muted">{d.method}</p>
