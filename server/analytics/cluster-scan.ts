@@ -87,6 +87,12 @@ export interface ClusterScanOptions {
   subject: string;
   /** Keep cells with q strictly below this; default 0.05. */
   qThreshold?: number;
+  /**
+   * A cell needs at least this many failures to be reported, however small its expectation; default 3. One or
+   * two failures in a very narrow cell (a lot at one shop in one temperature and hour band) can pass the
+   * false-discovery control on an expectation of 0.01 yet are no place to look (common practice, no source).
+   */
+  minObserved?: number;
   /** Level of the ratio intervals (and of the remainder test in the merge rule); default 0.95. */
   level?: number;
   labels?: DimensionLabels;
@@ -181,7 +187,7 @@ function remainderHasExcess(
 /**
  * The cluster finder's pure core. For each cell with E > 0: ratio O/E with exact Garwood limits, one-sided
  * exact Poisson p = P(X ≥ O | E) (excess only) and Benjamini–Hochberg q over all tested cells. Cells with
- * q < `qThreshold` (default 0.05) are significant; then, for every pair of significant cells A ⊋ B
+ * q < `qThreshold` (default 0.05) and at least `minObserved` failures (default 3) are significant; then, for every pair of significant cells A ⊋ B
  * ({@link containsCell}):
  *
  * 1. "no-extra-signal": the more specific B is dropped when its ratio's lower limit is not above A's ratio
@@ -216,7 +222,8 @@ export function scanClusters(cells: readonly ScanCell[], options: ClusterScanOpt
   }));
   const byRank = (a: ScannedCell, b: ScannedCell): number =>
     a.pValue - b.pValue || b.observed - b.expected - (a.observed - a.expected);
-  const significant = tested.filter((c) => c.qValue < qThreshold).sort(byRank);
+  const minObserved = options.minObserved ?? 3;
+  const significant = tested.filter((c) => c.qValue < qThreshold && c.observed >= minObserved).sort(byRank);
 
   const dropped = new Map<ScannedCell, DroppedCell>();
   const within = containedIn(significant);

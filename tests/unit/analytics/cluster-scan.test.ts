@@ -156,3 +156,19 @@ describe("collapseBuildWindows(cells)", () => {
     expect(collapseBuildWindows([family])).toEqual([family]);
   });
 });
+
+describe("scanClusters: a floor of failures per reported cell", () => {
+  // Two failures where 0.01 were expected: P(X ≥ 2 | 0.01) = 1 − e^−0.01 (1 + 0.01) ≈ 4.97e-5, so q passes 0.05
+  // on its own; three failures where 0.5 were expected pass too. The floor (3, common practice, no source) keeps
+  // the two-failure cell out of the signals but not out of the tested cells.
+  const tiny = cell({ supplierLot: "OC-0000", shop: "S8" }, 2, 0.01);
+  const three = cell({ supplierLot: "OC-0001" }, 3, 0.05);
+  it("does not report a cell of fewer than three failures, however small its expectation", () => {
+    expect(1 - Math.exp(-0.01) * 1.01).toBeCloseTo(poissonExcessPValue(2, 0.01), 12);
+    const r = scanClusters([tiny, three], { subject: "Heater-plug set" });
+    expect(r.tested.every((c) => c.qValue < 0.05)).toBe(true);
+    expect(r.signals.map((s) => s.dimensions.supplierLot)).toEqual(["OC-0001"]);
+    const all = scanClusters([tiny, three], { subject: "Heater-plug set", minObserved: 1 });
+    expect(all.signals.map((s) => s.dimensions.supplierLot).sort()).toEqual(["OC-0000", "OC-0001"]);
+  });
+});
