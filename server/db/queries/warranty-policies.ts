@@ -1,4 +1,5 @@
-import { sql } from "kysely";
+import { sql, type Selectable } from "kysely";
+import type { WarrantyPolicyVersionTable } from "../warehouse-schema.js";
 import type { Db } from "../database.js";
 import type { PolicyTerms } from "../../../shared/schemas/warranty-policies.js";
 
@@ -8,23 +9,8 @@ import type { PolicyTerms } from "../../../shared/schemas/warranty-policies.js";
  * admins editing at once cannot overwrite each other: the second is told to reopen the policy.
  */
 
-export interface PolicyVersionRow {
-  policy_version_id: string;
-  engine_family: string;
-  version: number;
-  base_months: number;
-  base_hours: number;
-  engine_months: number;
-  engine_hours: number;
-  claim_days: number;
-  part_retention_days: number;
-  warranty_email: string;
-  saved_by: string;
-  saved_at: Date;
-  note: string | null;
-  /** claims judged under this version */
-  claims: number;
-}
+/** A stored version as read back, with the number of claims judged under it. */
+export type PolicyVersionRow = Selectable<WarrantyPolicyVersionTable> & { claims: number };
 
 export const termsOfRow = (r: Pick<PolicyVersionRow, "base_months" | "base_hours" | "engine_months" | "engine_hours" | "claim_days" | "part_retention_days" | "warranty_email">): PolicyTerms => ({
   coverage: { base: { months: r.base_months, hours: r.base_hours }, engine: { months: r.engine_months, hours: r.engine_hours } },
