@@ -51,6 +51,8 @@ const QUANTITY: Record<QuantityKind, Intl.NumberFormatOptions> = {
 /** Decimals per unit shown: Ω to 0.1, kΩ to 0.01, V to 0.01, psi whole, kPa whole, bar to 0.01. */
 const UNIT_DECIMALS = { "Ω": 1, "kΩ": 2, V: 2, psi: 0, kPa: 0, bar: 2 } as const;
 type UnitSymbol = keyof typeof UNIT_DECIMALS;
+/** Binary multiples under their everyday names, as file managers show them (common practice, no source). */
+const FILE_UNITS = ["KB", "MB", "GB", "TB"] as const;
 
 export interface Format {
   readonly locale: string;
@@ -73,6 +75,14 @@ export interface Format {
   reading(kind: ReadingKind, value: number | null | undefined): string;
   /** a number with its unit symbol and the unit's decimals */
   withUnit(value: number | null | undefined, unit: UnitSymbol): string;
+  /** a pressure held in `storedIn`, shown in `shownIn` (the preferred unit when not given) with its symbol */
+  pressure(value: number | null | undefined, storedIn: PressureUnit, shownIn?: PressureUnit): string;
+  /** a pressure held in `storedIn` as a bare number in `shownIn`, with that unit's decimals (for table cells under a unit header) */
+  pressureNumber(value: number | null | undefined, storedIn: PressureUnit, shownIn?: PressureUnit): string;
+  /** a p-value to 3 decimals, "< 0.001" below that (in the locale's decimal mark) */
+  pValue(p: number | null | undefined): string;
+  /** a file size, 1,024-based as file managers show it: "512 bytes", "1.5 KB", "200 MB" (1 decimal below 10) */
+  fileSize(bytes: number | null | undefined): string;
 }
 
 const isNum = (n: number | null | undefined): n is number => typeof n === "number" && Number.isFinite(n);
@@ -127,6 +137,29 @@ export function createFormat(settings: FormatSettings): Format {
       return withUnit(kpaTo(value, pressureUnit), pressureUnit);
     },
     withUnit,
+    pressure: (value, storedIn, shownIn = pressureUnit) => (isNum(value) ? withUnit(kpaTo(toKpa(value, storedIn), shownIn), shownIn) : MISSING),
+    pressureNumber: (value, storedIn, shownIn = pressureUnit) => {
+      if (!isNum(value)) return MISSING;
+      const d = UNIT_DECIMALS[shownIn];
+      return nf(`u${d}`, { minimumFractionDigits: d, maximumFractionDigits: d }).format(kpaTo(toKpa(value, storedIn), shownIn));
+    },
+    pValue: (p) => {
+      if (!isNum(p)) return MISSING;
+      const three = nf("p", { minimumFractionDigits: 3, maximumFractionDigits: 3 });
+      return p < 0.001 ? `<${NBSP}${three.format(0.001)}` : three.format(p);
+    },
+    fileSize: (bytes) => {
+      if (!isNum(bytes)) return MISSING;
+      if (Math.abs(bytes) < 1024) return `${countFormat.format(Math.round(bytes))}${NBSP}${Math.round(bytes) === 1 ? "byte" : "bytes"}`;
+      let v = bytes / 1024;
+      let u = 0;
+      while (Math.abs(v) >= 1024 && u < FILE_UNITS.length - 1) {
+        v /= 1024;
+        u++;
+      }
+      const d = Math.abs(v) < 10 ? 1 : 0;
+      return `${nf(`f${d}`, { maximumFractionDigits: d }).format(v)}${NBSP}${FILE_UNITS[u]}`;
+    },
   };
 }
 

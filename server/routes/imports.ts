@@ -43,13 +43,13 @@ export function importRoutes(deps: ImportRouteDeps): Router {
       if (code === "LIMIT_FILE_SIZE") {
         return next(new HttpError(413, "too_large", `A file is larger than ${Math.round(deps.maxUploadBytes / 1048576)} MB, the most one upload may be. Nothing was saved; split the export by month.`));
       }
-      if (code?.startsWith("LIMIT_")) return next(new HttpError(400, "bad_upload", 'Send up to 20 files in the form field "files", and nothing else.'));
+      if (code?.startsWith("LIMIT_")) return next(new HttpError(400, "bad_upload", "Send at most 20 export files at a time, and nothing else with them."));
       next(err);
     });
 
   router.post("/", receive, async (req, res) => {
     const files = (req.files as Express.Multer.File[] | undefined) ?? [];
-    if (files.length === 0) throw new HttpError(400, "no_file", 'Choose at least one export file (form field "files").');
+    if (files.length === 0) throw new HttpError(400, "no_file", "Choose at least one export file to upload.");
     const imports = await receiveUploads(deps, files, actorName(req), requireScope(req));
     res.status(201).json({ imports });
   });

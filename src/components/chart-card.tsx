@@ -2,6 +2,7 @@ import { useState, type ReactNode } from "react";
 import type * as Plot from "@observablehq/plot";
 import { PlotFigure } from "./plot-figure";
 import { downloadText, tableCsv, type CsvColumn } from "@/lib/csv";
+import { useFormat } from "@/lib/use-format";
 
 export interface ChartColumn extends CsvColumn {
   format?: (v: unknown) => string;
@@ -21,6 +22,9 @@ export function ChartCard(props: {
   footer?: ReactNode;
 }) {
   const [table, setTable] = useState(false);
+  const fmt = useFormat();
+  // a column without its own rule still groups thousands in the reader's locale
+  const cell = (c: ChartColumn, v: unknown) => (c.format ? c.format(v) : typeof v === "number" ? fmt.quantity("plain", v) : String(v ?? ""));
   return (
     <section className="rounded-lg border border-line bg-card p-4 shadow-sm" aria-label={props.title}>
       <div className="mb-2 flex flex-wrap items-start justify-between gap-2">
@@ -50,7 +54,7 @@ export function ChartCard(props: {
             <tbody>
               {props.rows.map((r, i) => (
                 <tr key={i} className="border-b border-line/50">
-                  {props.columns.map((c) => <td key={c.key} className="py-1 pr-3 tabular-nums">{c.format ? c.format(r[c.key]) : String(r[c.key] ?? "")}</td>)}
+                  {props.columns.map((c) => <td key={c.key} className="py-1 pr-3 tabular-nums">{cell(c, r[c.key])}</td>)}
                 </tr>
               ))}
             </tbody>

@@ -7,16 +7,18 @@ import { BatchSummary } from "@/features/imports/components/batch-summary";
 import { RejectTable } from "@/features/imports/components/reject-table";
 import { RejectPager } from "@/features/imports/components/reject-pager";
 import { readRejectParams } from "@/features/imports/reject-params";
-import { count, reasonLabel } from "@/features/imports/import-words";
+import { reasonLabel } from "@/features/imports/import-words";
 import { pagePaths } from "@/app/page-paths";
 import type { PrimeCache } from "@/app/page-loader";
 import { apiPaths } from "@shared/api-paths";
+import { useFormat } from "@/lib/use-format";
 
 // awaited: one page of one batch is a quick look-up, and a batch that is missing or outside the caller's
 // shops reaches the area's error boundary before the page draws
 export const primeCache: PrimeCache = (qc, { params, url }) => qc.ensureQueryData(batchQueries.rejects(params.id ?? "", readRejectParams(url.searchParams).pageSearch));
 
 export function Component() {
+  const fmt = useFormat();
   const id = useParams().id!;
   const [params, setParams] = useSearchParams();
   const { reason, offset, limit, pageSearch, csvSearch } = readRejectParams(params);
@@ -45,9 +47,9 @@ export function Component() {
                 <label className="text-sm">
                   <span className="block font-semibold">Reason</span>
                   <select value={reason} onChange={(e) => set({ reason: e.target.value, offset: undefined })} className="mt-1 max-w-full rounded border border-line bg-white px-2 py-1">
-                    <option value="">Every reason ({count(page.reasons.reduce((n, r) => n + r.count, 0))})</option>
+                    <option value="">Every reason ({fmt.count(page.reasons.reduce((n, r) => n + r.count, 0))})</option>
                     {reason && !page.reasons.some((r) => r.code === reason) && <option value={reason}>{reasonLabel(reason)} (0)</option>}
-                    {page.reasons.map((r) => <option key={r.code} value={r.code}>{reasonLabel(r.code)} ({count(r.count)})</option>)}
+                    {page.reasons.map((r) => <option key={r.code} value={r.code}>{reasonLabel(r.code)} ({fmt.count(r.count)})</option>)}
                   </select>
                 </label>
                 <a href={apiPaths.batchRejectsCsv(id, csvSearch)} download={`batch-${id}-rejects.csv`} className="ml-auto rounded border border-line bg-white px-3 py-1.5 text-sm hover:border-accent">

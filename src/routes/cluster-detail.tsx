@@ -19,13 +19,14 @@ import { meQueries } from "@/features/session/api/me-queries";
 import { useFormat } from "@/lib/use-format";
 
 function Summary({ d }: { d: ClusterDetail }) {
+  const fmt = useFormat();
   const c = d.cluster;
   const dims = c.dimensions;
   const items: [string, string][] = [
-    ["Observed", String(c.observed)],
-    ["Expected", c.expected.toFixed(1)],
-    ["Ratio (95 %)", `${c.ratio.toFixed(1)} (${c.lower.toFixed(1)}–${c.upper.toFixed(1)})`],
-    ["q value", c.qValue < 0.001 ? "< 0.001" : c.qValue.toFixed(3)],
+    ["Observed", fmt.count(c.observed)],
+    ["Expected", fmt.quantity("plain", c.expected)],
+    ["Ratio (95 %)", `${fmt.quantity("ratio", c.ratio)} (${fmt.quantity("ratio", c.lower)}–${fmt.quantity("ratio", c.upper)})`],
+    ["q value", fmt.pValue(c.qValue)],
     ["Engine family", dims.engineFamily === "all" ? "any" : dims.engineFamily],
     ["Built", dims.build === "all" ? "any time" : `${dims.build.from} to ${dims.build.to}`],
     ["Lot", dims.supplierLot === "all" ? "any" : dims.supplierLot],
@@ -76,12 +77,12 @@ export function Component() {
             {readsFindings && <FindingWorkPanel findingKey={findingKey(d.cluster.dimensions)} />}
             <div className="grid grid-cols-[minmax(0,1fr)] gap-4 lg:grid-cols-2">
               <div className="lg:col-span-2">
-                <ChartCard title="Failures by month" subtitle="When the cluster's repair orders opened" options={clusterTimelineChart(d, palette)} rows={d.timeline} columns={[{ key: "month", label: "Month" }, { key: "failures", label: "Failures" }]} filename={`cluster-${d.cluster.id}-months.csv`} />
+                <ChartCard title="Failures by month" subtitle="When the cluster's repair orders opened" options={clusterTimelineChart(d, palette, fmt)} rows={d.timeline} columns={[{ key: "month", label: "Month" }, { key: "failures", label: "Failures" }]} filename={`cluster-${d.cluster.id}-months.csv`} />
               </div>
               <ChartCard
                 title="Temperature profile"
                 subtitle="Share of the cluster's failures in each daily-minimum band, beside all other failures of the same components"
-                options={clusterProfileChart(d.temperatureProfile, (b) => (b === "unknown" ? "no weather" : temperatureBandLabel(b, unit)), `Daily minimum at the home shop (°${unit})`, palette)}
+                options={clusterProfileChart(d.temperatureProfile, (b) => (b === "unknown" ? "no weather" : temperatureBandLabel(b, unit)), `Daily minimum at the home shop (°${unit})`, palette, fmt)}
                 rows={d.temperatureProfile.map((b) => ({ ...b, label: temperatureBandLabel(b.band, unit) }))}
                 columns={[{ key: "label", label: "Band" }, { key: "inCluster", label: "In cluster" }, { key: "elsewhere", label: "Other failures" }]}
                 filename={`cluster-${d.cluster.id}-temperature.csv`}
@@ -89,13 +90,13 @@ export function Component() {
               <ChartCard
                 title="Hour-meter profile"
                 subtitle="Share of failures in each engine-hour band"
-                options={clusterProfileChart(d.hourProfile, (b) => (b === "unknown" ? "no reading" : hourBandLabel(b)), "Engine hours at the repair", palette)}
+                options={clusterProfileChart(d.hourProfile, (b) => (b === "unknown" ? "no reading" : hourBandLabel(b)), "Engine hours at the repair", palette, fmt)}
                 rows={d.hourProfile.map((b) => ({ ...b, label: hourBandLabel(b.band) }))}
                 columns={[{ key: "label", label: "Band" }, { key: "inCluster", label: "In cluster" }, { key: "elsewhere", label: "Other failures" }]}
                 filename={`cluster-${d.cluster.id}-hours.csv`}
               />
             </div>
-            <Card title={`Repair lines (${d.lines.length})`}>
+            <Card title={`Repair lines (${fmt.count(d.lines.length)})`}>
               <div className="max-h-[28rem] overflow-auto">
                 <table className="w-full text-left text-sm">
                   <thead className="sticky top-0 bg-card text-muted">
@@ -104,7 +105,7 @@ export function Component() {
                   <tbody>
                     {d.lines.map((l) => (
                       <tr key={l.id} className="border-b border-line/60">
-                        <td className="py-1.5 pr-3 tabular-nums">{l.openedDate}</td>
+                        <td className="py-1.5 pr-3 tabular-nums">{fmt.date(l.openedDate)}</td>
                         <td className="pr-3">{l.shopCode}</td>
                         <td className="pr-3"><Link to={`/repairs/${l.id}`} className="text-accent hover:underline">{l.roNumber}/{l.lineNo}</Link></td>
                         <td className="pr-3">{l.serial}</td>
@@ -116,7 +117,7 @@ export function Component() {
                 </table>
               </div>
             </Card>
-            <Card title={`Machines (${d.machines.length})`}>
+            <Card title={`Machines (${fmt.count(d.machines.length)})`}>
               <div className="max-h-80 overflow-auto">
                 <table className="w-full text-left text-sm">
                   <thead className="sticky top-0 bg-card text-muted">
@@ -128,10 +129,10 @@ export function Component() {
                         <td className="py-1.5 pr-3 font-semibold">{m.serial}</td>
                         <td className="pr-3">{m.modelLine} · {m.engineFamily}</td>
                         <td className="pr-3">{m.homeShop}</td>
-                        <td className="pr-3 tabular-nums">{m.buildDate ?? "—"}</td>
+                        <td className="pr-3 tabular-nums">{m.buildDate ? fmt.date(m.buildDate) : "—"}</td>
                         <td className="pr-3">{m.lot}</td>
-                        <td className="pr-3 text-right tabular-nums">{m.failures}</td>
-                        <td className="tabular-nums">{m.firstFailure}{m.lastFailure !== m.firstFailure ? ` – ${m.lastFailure}` : ""}</td>
+                        <td className="pr-3 text-right tabular-nums">{fmt.count(m.failures)}</td>
+                        <td className="tabular-nums">{fmt.date(m.firstFailure)}{m.lastFailure !== m.firstFailure ? ` – ${fmt.date(m.lastFailure)}` : ""}</td>
                       </tr>
                     ))}
                   </tbody>

@@ -26,13 +26,15 @@ const COMPARISONS = [
   { id: "shop", label: "One shop against another" },
 ] as const;
 
-const h = (v: number | null | undefined) => (v === null || v === undefined ? "—" : Math.round(v).toLocaleString("en-US"));
-const interval = (i: { lower: number | null; upper: number | null } | null, f = h) => (i ? `${f(i.lower)} – ${f(i.upper)}` : "—");
-const p = (v: number) => (v < 0.001 ? "< 0.001" : v.toFixed(3));
+type Shown = (v: number | null | undefined) => string;
+const interval = (i: { lower: number | null; upper: number | null } | null, f: Shown) => (i ? `${f(i.lower)} – ${f(i.upper)}` : "—");
 const field = "mt-1 block rounded border border-line bg-white px-2 py-1 text-sm";
-const bLifeText = (b: BLife) => `${h(b.estimate)} (${h(b.lower)} – ${b.upper === null ? "not reached" : h(b.upper)})`;
+const bLifeText = (b: BLife, h: Shown) => `${h(b.estimate)} (${h(b.lower)} – ${b.upper === null ? "not reached" : h(b.upper)})`;
 
 function FitTable({ d }: { d: WeibullResponse }) {
+  const fmt = useFormat();
+  const h: Shown = (v) => fmt.quantity("hours", v);
+  const r2: Shown = (v) => fmt.quantity("ratio", v);
   const extra = d.groups.map((g) => (g.fit.status === "fitted" ? g.fit.bLife : null)).find((b) => b !== null && b.percent !== 10) ?? null;
   return (
     <div className="overflow-x-auto">
@@ -44,14 +46,14 @@ function FitTable({ d }: { d: WeibullResponse }) {
           {d.groups.map((g) => (
             <tr key={g.label} className="border-b border-line/60">
               <td className="py-1.5 pr-3 font-semibold">{g.label}</td>
-              <td className="pr-3 text-right tabular-nums">{g.fit.units.toLocaleString("en-US")}</td>
-              <td className="pr-3 text-right tabular-nums">{g.fit.failures}</td>
+              <td className="pr-3 text-right tabular-nums">{fmt.count(g.fit.units)}</td>
+              <td className="pr-3 text-right tabular-nums">{fmt.count(g.fit.failures)}</td>
               {g.fit.status === "fitted" ? (
                 <>
-                  <td className="pr-3 tabular-nums">{g.fit.shape.toFixed(2)} ({interval(g.fit.shapeInterval, (v) => (v === null || v === undefined ? "—" : v.toFixed(2)))})</td>
-                  <td className="pr-3 tabular-nums">{h(g.fit.scale)} ({interval(g.fit.scaleInterval)})</td>
-                  <td className="pr-3 tabular-nums">{h(g.fit.b10)} ({interval(g.fit.b10Interval)})</td>
-                  {extra && <td className="tabular-nums" data-testid="weibull-b-life">{bLifeText(g.fit.bLife)}</td>}
+                  <td className="pr-3 tabular-nums">{r2(g.fit.shape)} ({interval(g.fit.shapeInterval, r2)})</td>
+                  <td className="pr-3 tabular-nums">{h(g.fit.scale)} ({interval(g.fit.scaleInterval, h)})</td>
+                  <td className="pr-3 tabular-nums">{h(g.fit.b10)} ({interval(g.fit.b10Interval, h)})</td>
+                  {extra && <td className="tabular-nums" data-testid="weibull-b-life">{bLifeText(g.fit.bLife, h)}</td>}
                 </>
               ) : (
                 <td colSpan={extra ? 4 : 3} className="text-muted">Not fitted: {g.fit.reason}. See the Kaplan–Meier curve below.</td>
@@ -62,7 +64,7 @@ function FitTable({ d }: { d: WeibullResponse }) {
       </table>
       {d.comparison && (
         <p className="mt-2 text-sm">
-          Scale ratio {d.comparison.scaleRatio.estimate.toFixed(2)} ({interval(d.comparison.scaleRatio, (v) => (v === null || v === undefined ? "—" : v.toFixed(2)))}), hazard ratio {d.comparison.hazardRatio.estimate.toFixed(2)} under a common β of {d.comparison.commonShape.toFixed(2)}; same distribution: likelihood-ratio p {p(d.comparison.sameDistribution.pValue)}; same shape: p {p(d.comparison.sameShape.pValue)}.
+          Scale ratio {r2(d.comparison.scaleRatio.estimate)} ({interval(d.comparison.scaleRatio, r2)}), hazard ratio {r2(d.comparison.hazardRatio.estimate)} under a common β of {r2(d.comparison.commonShape)}; same distribution: likelihood-ratio p {fmt.pValue(d.comparison.sameDistribution.pValue)}; same shape: p {fmt.pValue(d.comparison.sameShape.pValue)}.
         </p>
       )}
     </div>
@@ -180,7 +182,7 @@ export function Component() {
           <ChartCard
             title={`Weibull probability plot: ${compName}`}
             subtitle="Points: each failure at its estimated share failed; line: maximum-likelihood fit; band: 90 % confidence band of the fit"
-            options={weibullChart(d, palette)}
+            options={weibullChart(d, palette, fmt)}
             rows={d.groups.flatMap((g) => g.points.map((pt) => ({ group: g.label, time: pt.time, medianRank: pt.medianRank })))}
             columns={[{ key: "group", label: "Group" }, { key: "time", label: "Engine hours", csvLabel: "Engine hours (h)" }, { key: "medianRank", label: "Estimated share failed", csvLabel: "Estimated share failed (fraction)" }]}
             filename="life-weibull-points.csv"
@@ -193,8 +195,8 @@ export function Component() {
           {(d) => (
             <ChartCard
               title={`Kaplan–Meier: ${compName} still working`}
-              subtitle={d.logRank ? `Log-rank test between the groups: p ${p(d.logRank.pValue)}` : `${d.groups[0]?.units.toLocaleString("en-US")} units, ${d.groups[0]?.failures} failures`}
-              options={kaplanMeierChart(d, palette)}
+              subtitle={d.logRank ? `Log-rank test between the groups: p ${fmt.pValue(d.logRank.pValue)}` : `${fmt.count(d.groups[0]?.units)} units, ${fmt.count(d.groups[0]?.failures)} failures`}
+              options={kaplanMeierChart(d, palette, fmt)}
               rows={d.groups.flatMap((g) => g.steps.map((s) => ({ group: g.label, ...s })))}
               columns={[{ key: "group", label: "Group" }, { key: "time", label: "Engine hours", csvLabel: "Engine hours (h)" }, { key: "atRisk", label: "At risk" }, { key: "survival", label: "Survival", csvLabel: "Survival (fraction)" }, { key: "lower", label: "95 % lower", csvLabel: "95 % lower (fraction)" }, { key: "upper", label: "95 % upper", csvLabel: "95 % upper (fraction)" }]}
               filename="life-kaplan-meier.csv"
@@ -202,7 +204,7 @@ export function Component() {
                 <>
                   <p className="mb-1 text-sm text-ink" data-testid="km-b-life">
                     B{bLife} life read off the curve:{" "}
-                    {d.groups.map((g, i) => <span key={g.label}>{i > 0 && "; "}{g.label} {g.bLife.estimate === null ? "not reached" : bLifeText(g.bLife)} h</span>)} (95 %)
+                    {d.groups.map((g, i) => <span key={g.label}>{i > 0 && "; "}{g.label} {g.bLife.estimate === null ? "not reached" : bLifeText(g.bLife, (v) => fmt.quantity("hours", v))} h</span>)} (95 %)
                   </p>
                   {d.method}
                 </>
@@ -219,10 +221,10 @@ export function Component() {
                   <select aria-label="Component for repeat repairs" className="rounded border border-line bg-white px-1 text-sm" value={mcfComponent} onChange={(e) => set({ mcfComponent: e.target.value })}>
                     {components.filter((c) => c.code !== "SVC-PM").map((c) => <option key={c.code} value={c.code}>{c.name}</option>)}
                   </select>
-                  {d.groups[0]?.slopePerThousandHours != null && <> · {d.groups[0].slopePerThousandHours.toFixed(3)} repairs per machine per 1,000 h</>}
+                  {d.groups[0]?.slopePerThousandHours != null && <> · {fmt.quantity("rate", d.groups[0].slopePerThousandHours)} repairs per machine per {fmt.count(1000)} h</>}
                 </label>
               }
-              options={mcfChart(d, palette)}
+              options={mcfChart(d, palette, fmt)}
               rows={d.groups.flatMap((g) => g.steps.map((s) => ({ group: g.label, ...s })))}
               columns={[{ key: "group", label: "Group" }, { key: "age", label: "Engine hours", csvLabel: "Engine hours (h)" }, { key: "mcf", label: "Mean repairs", csvLabel: "Mean repairs (per machine)" }, { key: "lower", label: "95 % lower", csvLabel: "95 % lower (per machine)" }, { key: "upper", label: "95 % upper", csvLabel: "95 % upper (per machine)" }, { key: "atRisk", label: "Machines" }]}
               filename="life-mcf.csv"
@@ -235,7 +237,7 @@ export function Component() {
             <ChartCard
               title="Repair cost per machine (Nelson cost MCF)"
               subtitle={`Parts + labour of ${components.find((c) => c.code === mcfComponent)?.name.toLowerCase() ?? mcfComponent} repairs${d.groups[0]?.slopePerThousandHours != null ? ` · ${fmt.moneyWhole(d.groups[0].slopePerThousandHours)} per machine per 1,000 h` : ""}`}
-              options={costMcfChart(d, palette)}
+              options={costMcfChart(d, palette, fmt)}
               rows={d.groups.flatMap((g) => g.steps.map((s) => ({ group: g.label, ...s })))}
               columns={[{ key: "group", label: "Group" }, { key: "age", label: "Engine hours", csvLabel: "Engine hours (h)" }, { key: "mcf", label: "Mean cost", csvLabel: `Mean cost (${fmt.currency} per machine)` }, { key: "lower", label: "95 % lower", csvLabel: `95 % lower (${fmt.currency} per machine)` }, { key: "upper", label: "95 % upper", csvLabel: `95 % upper (${fmt.currency} per machine)` }, { key: "atRisk", label: "Machines" }]}
               filename="life-cost-mcf.csv"

@@ -54,7 +54,7 @@ function Loads({ loads }: { loads: Overview["loads"] }) {
               <td className="pr-3 text-right tabular-nums">{n(l.rowsRead)}</td>
               <td className={`text-right tabular-nums ${l.rowsRejected ? "font-semibold text-alert" : ""}`} title={l.files.map((f) => `${f.fileName}: ${f.rowsRejected} rejected`).join("\n")}>
                 {n(l.rowsRejected)}
-                {l.rowsRead > 0 && <span className="ml-1 text-xs font-normal text-muted">({fmt.quantity("percent", (100 * l.rowsRejected) / l.rowsRead)} %)</span>}
+                {l.rowsRead > 0 && <span className="ml-1 text-xs font-normal text-muted">({fmt.percent(l.rowsRejected / l.rowsRead)})</span>}
                 <RejectLinks files={l.files} />
               </td>
             </tr>
@@ -80,10 +80,10 @@ function Headlines({ h }: { h: Overview["headlines"] }) {
             <div key={r.label} className="rounded border border-line p-3">
               <p className="text-sm font-semibold">{r.label}</p>
               <p className="mt-1 text-2xl font-bold tabular-nums">{r.thisYear.rate ? fmt.quantity("rate", r.thisYear.rate.rate) : "—"}</p>
-              <p className="text-xs text-muted">per 1,000 engine hours, {h.thisYear!.from} to {h.thisYear!.to}; 95 % {rate(r.thisYear.rate)}</p>
+              <p className="text-xs text-muted">per {fmt.count(1000)} engine hours, {fmt.date(h.thisYear!.from)} to {fmt.date(h.thisYear!.to)}; 95 % {rate(r.thisYear.rate)}</p>
               <p className="mt-2 text-sm">
                 Last year {r.lastYear.rate ? fmt.quantity("rate", r.lastYear.rate.rate) : "—"}
-                {r.change !== null && <span className={`ml-2 font-semibold ${up ? "text-alert" : "text-ok"}`}>{up ? "▲" : "▼"} {Math.abs((r.change - 1) * 100).toFixed(0)} %</span>}
+                {r.change !== null && <span className={`ml-2 font-semibold ${up ? "text-alert" : "text-ok"}`}>{up ? "▲" : "▼"} {fmt.percent(Math.abs(r.change - 1))}</span>}
               </p>
               <p className="text-xs text-muted">{n(r.thisYear.failures)} failures this year, {n(r.lastYear.failures)} the year before</p>
             </div>
@@ -99,10 +99,10 @@ function NewClusters({ c }: { c: Overview["clusters"] }) {
   const fmt = useFormat();
   const when = (iso: string | null) => (iso ? fmt.dateTime(iso) : "never");
   const intro = c.firstVisit
-    ? `Your first visit: all ${c.total} clusters the finder reports are new to you.`
+    ? `Your first visit: all ${fmt.count(c.total)} clusters the finder reports are new to you.`
     : c.newCount
-      ? `${c.newCount} of ${c.total} clusters were not there at your last visit (${when(c.previousVisitAt)}).`
-      : `Nothing new since your last visit (${when(c.previousVisitAt)}); ${c.total} clusters in all.`;
+      ? `${fmt.count(c.newCount)} of ${fmt.count(c.total)} clusters were not there at your last visit (${when(c.previousVisitAt)}).`
+      : `Nothing new since your last visit (${when(c.previousVisitAt)}); ${fmt.count(c.total)} clusters in all.`;
   return (
     <>
       <p className="text-sm text-muted">{intro}</p>
@@ -157,6 +157,7 @@ function FindingChanges({ f }: { f: NonNullable<Overview["findings"]> }) {
 }
 
 function Attention({ a }: { a: Overview["attention"] }) {
+  const fmt = useFormat();
   if (!a.machines.length) return <EmptyState title="No machine stands out">No failure visits in the last 365 days of data for your shops.</EmptyState>;
   return (
     <>
@@ -170,11 +171,11 @@ function Attention({ a }: { a: Overview["attention"] }) {
               <tr key={m.serial} className="border-b border-line/60">
                 <td className="py-1.5 pr-3"><span className="font-semibold">{m.serial}</span> <span className="text-muted">{m.modelLine} · {m.engineFamily}</span></td>
                 <td className="pr-3">{m.homeShop ?? "—"}</td>
-                <td className="pr-3 text-right tabular-nums">{m.failures}</td>
-                <td className="pr-3 text-right tabular-nums">{m.comebacks}</td>
+                <td className="pr-3 text-right tabular-nums">{fmt.count(m.failures)}</td>
+                <td className="pr-3 text-right tabular-nums">{fmt.count(m.comebacks)}</td>
                 <td className="pr-3">{m.repeatComponents.join(", ") || "—"}</td>
-                <td className="pr-3 text-right font-semibold tabular-nums">{m.score}</td>
-                <td><Link to={`/repairs/${m.lastRepairId}`} className="text-accent hover:underline">{m.lastOpened}</Link></td>
+                <td className="pr-3 text-right font-semibold tabular-nums">{fmt.quantity("plain", m.score)}</td>
+                <td><Link to={`/repairs/${m.lastRepairId}`} className="text-accent hover:underline">{fmt.date(m.lastOpened)}</Link></td>
               </tr>
             ))}
           </tbody>

@@ -134,7 +134,7 @@ export function Component() {
           {(d) => (
             <ChartCard
               title="Failure rate by engine-hour band"
-              options={hourBandChart(d, palette)}
+              options={hourBandChart(d, palette, fmt)}
               rows={d.rows.map((r) => ({ band: hourBandLabel(r.band), failures: r.failures, engineHours: r.engineHours, rate: r.perThousandHours?.rate, lower: r.perThousandHours?.lower, upper: r.perThousandHours?.upper }))}
               columns={[{ key: "band", label: "Hour band" }, { key: "failures", label: "Failures" }, { key: "engineHours", label: "Engine hours", csvLabel: "Engine hours (h)", format: wholeHours }, { key: "rate", label: "Per 1,000 h", format: rate }, { key: "lower", label: "95 % lower", csvLabel: "95 % lower (per 1,000 h)", format: rate }, { key: "upper", label: "95 % upper", csvLabel: "95 % upper (per 1,000 h)", format: rate }]}
               filename="rates-hour-bands.csv"
@@ -147,7 +147,7 @@ export function Component() {
             <ChartCard
               title="Failure rate by daily minimum temperature"
               subtitle={`Shown in °${d.unit}; switch the unit in the filter bar`}
-              options={temperatureBandChart(d, palette)}
+              options={temperatureBandChart(d, palette, fmt)}
               rows={d.rows.map((r) => ({ band: r.label, failures: r.failures, machineDays: r.machineDays, rate: r.perThousandMachineDays?.rate, perHours: r.perThousandHours?.rate }))}
               columns={[{ key: "band", label: "Daily minimum" }, { key: "failures", label: "Failures" }, { key: "machineDays", label: "Machine-days", format: wholeHours }, { key: "rate", label: "Per 1,000 machine-days", format: rate }, { key: "perHours", label: "Per 1,000 h", format: rate }]}
               filename="rates-temperature-bands.csv"
@@ -160,7 +160,7 @@ export function Component() {
             <ChartCard
               title="Failures by component (Pareto)"
               subtitle="Bars: each component's share; line: cumulative share; dashed: 80 %"
-              options={paretoChart(d, palette)}
+              options={paretoChart(d, palette, fmt)}
               rows={d.rows.map((r) => ({ name: r.name, failures: r.failures, share: r.share * 100, cumulative: r.cumulativeShare * 100, rate: r.perThousandHours?.rate }))}
               columns={[{ key: "name", label: "Component" }, { key: "failures", label: "Failures" }, { key: "share", label: "Share %", percent: true, format: share }, { key: "cumulative", label: "Cumulative %", percent: true, format: share }, { key: "rate", label: "Per 1,000 h", format: rate }]}
               filename="rates-components.csv"

@@ -52,7 +52,7 @@ describe("the analyst's week in Chromium", () => {
   let lineIds: string[] = [];
   it("opens the cluster and sees its repair lines, machines and charts", async () => {
     await page().getByRole("list", { name: "Findings" }).getByRole("listitem").first().getByRole("link").first().click();
-    await page().getByRole("heading", { name: /^Repair lines \(\d+\)$/ }).waitFor(SLOW);
+    await page().getByRole("heading", { name: /^Repair lines \([\d,]+\)$/ }).waitFor(SLOW);
     const hrefs = await page().locator('a[href^="/repairs/"]').evaluateAll((as) => as.map((a) => a.getAttribute("href")!));
     lineIds = [...new Set(hrefs.map((h) => h.slice("/repairs/".length)))];
     expect(lineIds.length).toBeGreaterThan(10);
@@ -83,7 +83,7 @@ describe("the analyst's week in Chromium", () => {
     await env.browser.screenshot("analyst-03c-overview-finding-changed");
     // back to the finding's evidence, where the next step starts
     await page().getByRole("link", { name: /Heater-plug set failures with lot BT-2109/ }).first().click();
-    await page().getByRole("heading", { name: /^Repair lines \(\d+\)$/ }).waitFor(SLOW);
+    await page().getByRole("heading", { name: /^Repair lines \([\d,]+\)$/ }).waitFor(SLOW);
   }, 180_000);
 
   it("opens a repair with compression readings and sees the table with average and spread", async () => {

@@ -44,8 +44,11 @@ async function dispatch(deps: ImportDeps, job: "check" | "load", uploadId: strin
   try {
     await localCopy(deps, u);
   } catch (err) {
-    if (job === "check") await updateUpload(deps.db, uploadId, { status: "failed", message: (err as Error).message }, ["checking"]);
-    else await updateUpload(deps.db, uploadId, { status: "failed", message: (err as Error).message }, ["queued", "loading"]);
+    // the cause goes to the log; the page says what happened and what to do
+    logger.error({ err, uploadId }, "import file could not be read from storage");
+    const words = "The uploaded file could not be read back from storage. Nothing was loaded; upload it again, and if it fails again tell your administrator.";
+    if (job === "check") await updateUpload(deps.db, uploadId, { status: "failed", message: words }, ["checking"]);
+    else await updateUpload(deps.db, uploadId, { status: "failed", message: words }, ["queued", "loading"]);
     return;
   }
   if (deps.databaseUrl) {
@@ -94,12 +97,15 @@ const choices = (u: UploadRow) => ({
   shop: u.shop_code ?? undefined,
 });
 
+// the words are stored once, before anyone reads them, so no reader's locale is known: commas, like the rest of the server's words
+const COUNT = new Intl.NumberFormat("en-US");
+
 /** Shops the file names that lie outside the uploader's shops, in words; null when there are none. */
 function outsideScope(u: UploadRow, shops: { code: string; rows: number }[]): string | null {
   if (!u.scope_shops) return null;
   const others = shops.filter((s) => !u.scope_shops!.includes(s.code));
   if (others.length === 0) return null;
-  const list = others.map((s) => `${s.code} (${s.rows.toLocaleString("en-US")} ${s.rows === 1 ? "row" : "rows"})`).join(", ");
+  const list = others.map((s) => `${s.code} (${COUNT.format(s.rows)} ${s.rows === 1 ? "row" : "rows"})`).join(", ");
   return `This file has rows of shop ${list}; you can load files of your own shops only (${u.scope_shops.join(", ") || "none"}). Nothing was loaded.`;
 }
 
@@ -121,7 +127,7 @@ export async function runCheck(deps: ImportDeps, uploadId: string): Promise<void
       ["checking"],
     );
   } catch (err) {
-    const words = err instanceof EtlFatalError ? err.message : `the file could not be checked: ${(err as Error).message}`;
+    const words = err instanceof EtlFatalError ? err.message : "The file could not be checked because of a problem on the server, not in the file. Nothing was loaded; try again in a few minutes, and if it fails again tell your administrator.";
     if (!(err instanceof EtlFatalError)) logger.error({ err, uploadId }, "import check failed");
     await updateUpload(deps.db, uploadId, { status: err instanceof EtlFatalError ? "refused" : "failed", message: words }, ["checking"]);
   }
@@ -193,7 +199,7 @@ export async function runLoad(deps: ImportDeps, uploadId: string): Promise<void>
       await updateUpload(deps.db, uploadId, { status: "cancelled", message: "The load was cancelled; nothing of the file was kept." });
       return;
     }
-    const words = err instanceof EtlFatalError ? err.message : `the load failed and nothing of the file was kept: ${(err as Error).message}`;
+    const words = err instanceof EtlFatalError ? err.message : "The load stopped because of a problem on the server, not in the file, and nothing of the file was kept. Try again in a few minutes; if it fails again tell your administrator.";
     logger.error({ err, uploadId }, "import load failed");
     await updateUpload(deps.db, uploadId, { status: "failed", message: words });
   }

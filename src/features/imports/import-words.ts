@@ -1,4 +1,5 @@
 import type { ExportKindName, ImportPreview, ImportProgress, ImportStatus } from "@shared/schemas/imports";
+import { createFormat, type Format } from "@shared/format";
 
 /** The largest export the page sends; a bigger file is turned away before it is uploaded. */
 export const MAX_IMPORT_BYTES = 200 * 1024 * 1024;
@@ -23,20 +24,6 @@ export const phaseLabels: Record<ImportProgress["phase"], string> = {
 const ACTIVE: ReadonlySet<ImportStatus> = new Set(["checking", "queued", "loading"]);
 export const isActive = (status: ImportStatus | undefined) => status !== undefined && ACTIVE.has(status);
 
-export const count = (n: number) => n.toLocaleString("en-US");
-
-/** 1,024-based, as file managers show sizes: 200 MB is the limit above. */
-export function bytesInWords(n: number): string {
-  if (n < 1024) return `${n.toLocaleString("en-US")} bytes`;
-  const units = ["KB", "MB", "GB"];
-  let v = n / 1024;
-  let u = 0;
-  while (v >= 1024 && u < units.length - 1) {
-    v /= 1024;
-    u++;
-  }
-  return `${v.toLocaleString("en-US", { maximumFractionDigits: v < 10 ? 1 : 0 })} ${units[u]}`;
-}
 
 /** A duration as people say it: "45 s", "3 min 20 s", "1 h 05 min". */
 export function secondsInWords(seconds: number): string {
@@ -58,8 +45,34 @@ export function percentOf(p: ImportProgress): number {
   return pct === 100 && p.phase !== "done" ? 99 : pct;
 }
 
-/** A reason code as a label: `hour_meter_backwards` → "hour meter backwards". */
-export const reasonLabel = (code: string) => code.replaceAll("_", " ");
+/** A reason as a shop manager reads it: a known code in words, any other code with its underscores as spaces. */
+export const reasonLabel = (code: string) => reasonWords[code] ?? code.replaceAll("_", " ");
+
+const reasonWords: Record<string, string> = {
+  wrong_column_count: "wrong number of columns",
+  unreadable_row: "row could not be read",
+  missing_field: "a required value is missing",
+  bad_date: "date not readable",
+  bad_number: "number not readable",
+  future_date: "date in the future",
+  closed_before_opened: "closed before it was opened",
+  received_before_ordered: "part received before it was ordered",
+  delivered_before_built: "delivered before it was built",
+  negative_value: "negative value",
+  absurd_value: "value outside any sensible range",
+  unknown_code: "code not in the catalogue",
+  unknown_machine: "machine not known",
+  unknown_repair_line: "repair line not known",
+  hour_meter_backwards: "hour meter went backwards",
+  duplicate_in_file: "row repeated in the file",
+  conflicting_duplicate: "row repeated with different values",
+  tmin_above_tmax: "daily minimum above the daily maximum",
+  unknown_shop: "shop not known",
+  bad_characters: "characters that cannot be stored",
+  bad_encoding: "text encoding not readable",
+  too_long: "value too long",
+  unbalanced_quote: "quote mark not closed",
+};
 
 /** The preview table's columns: every key the rows carry, in the order they first appear. */
 export function previewColumns(rows: ImportPreview["rows"]): string[] {
@@ -68,28 +81,30 @@ export function previewColumns(rows: ImportPreview["rows"]): string[] {
   return [...seen];
 }
 
-export function cellText(v: string | number | boolean | null): string {
+/** A previewed cell as read: numbers in the reader's locale (up to 2 decimals), booleans as yes/no. */
+export function cellText(v: string | number | boolean | null, fmt: Format): string {
   if (v === null) return "—";
   if (typeof v === "boolean") return v ? "yes" : "no";
-  if (typeof v === "number") return v.toLocaleString("en-US", { maximumFractionDigits: 6 });
+  if (typeof v === "number") return fmt.quantity("plain", v);
   return v;
 }
 
 /** Files the page will send, and the others with why, before anything is uploaded. */
-export function screenFiles(files: readonly File[]): { accepted: File[]; turnedAway: { name: string; why: string }[] } {
+export function screenFiles(files: readonly File[], fmt: Format): { accepted: File[]; turnedAway: { name: string; why: string }[] } {
   const accepted: File[] = [];
   const turnedAway: { name: string; why: string }[] = [];
   for (const f of files) {
     const lower = f.name.toLowerCase();
     if (!IMPORT_EXTENSIONS.some((e) => lower.endsWith(e))) turnedAway.push({ name: f.name, why: "only .csv and .txt exports can be loaded" });
-    else if (f.size > MAX_IMPORT_BYTES) turnedAway.push({ name: f.name, why: `it is larger than ${bytesInWords(MAX_IMPORT_BYTES)}, the limit for one file` });
+    else if (f.size > MAX_IMPORT_BYTES) turnedAway.push({ name: f.name, why: `it is larger than ${fmt.fileSize(MAX_IMPORT_BYTES)}, the limit for one file` });
     else if (f.size === 0) turnedAway.push({ name: f.name, why: "the file is empty" });
     else accepted.push(f);
   }
   return { accepted, turnedAway };
 }
 
+/** An instant in the browser's locale (medium date, short time), for lists outside React's format hook. */
 export function dateTimeInWords(iso: string): string {
-  const d = new Date(iso);
-  return Number.isNaN(d.getTime()) ? iso : d.toLocaleString("en-GB", { dateStyle: "medium", timeStyle: "short" });
+  const locale = (typeof navigator !== "undefined" && navigator.language) || "en-US";
+  return createFormat({ locale, currency: "USD" }).dateTime(iso);
 }

@@ -19,13 +19,17 @@ describe("dashboardsInWords(d)", () => {
   const now = new Date(2026, 11, 2, 15, 0);
   it("says current with the time of day, or updating, or nothing when the server cannot say", () => {
     const at = new Date(2026, 11, 2, 14, 5).toISOString();
-    expect(dashboardsInWords({ state: "current", asOf: at }, now)).toBe("Dashboards current as of 14:05");
+    // CLDR short times: en-GB "HH:mm", de-DE "HH:mm", en-US "h:mm a" (U+202F or a space before PM, by CLDR version)
+    expect(dashboardsInWords({ state: "current", asOf: at }, now, "en-GB")).toBe("Dashboards current as of 14:05");
+    expect(dashboardsInWords({ state: "current", asOf: at }, now, "en-US")).toMatch(/^Dashboards current as of 2:05[ \u202f]PM$/);
     expect(dashboardsInWords({ state: "updating", asOf: null }, now)).toBe("Dashboards updating…");
     expect(dashboardsInWords(null, now)).toBeNull();
     expect(dashboardsInWords(undefined, now)).toBeNull();
   });
   it("gives the date too when the time is not today's", () => {
-    expect(clockTime(new Date(2026, 10, 30, 9, 7).toISOString(), now)).toMatch(/30 Nov 2026.*09:07/);
+    // CLDR medium dates: en-GB "d MMM y", de-DE "dd.MM.y"
+    expect(clockTime(new Date(2026, 10, 30, 9, 7).toISOString(), now, "en-GB")).toMatch(/30 Nov 2026.*09:07/);
+    expect(clockTime(new Date(2026, 10, 30, 9, 7).toISOString(), now, "de-DE")).toBe("30.11.2026, 09:07");
   });
 });
 

@@ -5,7 +5,8 @@ import { QueryClientProvider } from "@tanstack/react-query";
 import { createMemoryRouter, RouterProvider } from "react-router-dom";
 import { routes } from "@/app/router";
 import { createQueryClient } from "@/app/query-client";
-import { bytesInWords, MAX_IMPORT_BYTES, screenFiles, secondsInWords, timeLeftInWords } from "@/features/imports/import-words";
+import { MAX_IMPORT_BYTES, reasonLabel, screenFiles, secondsInWords, timeLeftInWords } from "@/features/imports/import-words";
+import { createFormat } from "@shared/format";
 import { readRejectParams } from "@/features/imports/reject-params";
 import { apiPaths } from "@shared/api-paths";
 import type { Batch, Import, ImportPreview, RejectPage } from "@shared/schemas/imports";
@@ -155,8 +156,10 @@ describe("Imports page: the preview of a checked file", { timeout: 20_000 }, () 
 
     const rejects = screen.getByRole("table", { name: "First rejected rows of north-jobs.csv" });
     const [, first, second] = within(rejects).getAllByRole("row");
-    expect(within(first).getAllByRole("cell").map((c) => c.textContent)).toEqual(["7", 'opened date "2024-13-45" is not a date in this export\'s format (YYYY-MM-DD) (bad_date)', "R-105", "2024-13-45", "S1"]);
-    expect(second.textContent).toContain("(unbalanced_quote)");
+    expect(within(first).getAllByRole("cell").map((c) => c.textContent)).toEqual(["7", 'opened date "2024-13-45" is not a date in this export\'s format (YYYY-MM-DD)', "R-105", "2024-13-45", "S1"]);
+    // the reason in words, never the internal code
+    expect(second.textContent).toContain("a quote on this line is never closed");
+    expect(second.textContent).not.toContain("unbalanced_quote");
     expect(screen.getByText("First rejected rows (2 of 20)")).toBeTruthy();
   });
 
@@ -265,7 +268,6 @@ describe("Imports page: uploading", { timeout: 20_000 }, () => {
     expect(screen.getByText(/up to 200 MB each/)).toBeTruthy();
     const huge = new File(["x"], "everything.csv");
     Object.defineProperty(huge, "size", { value: MAX_IMPORT_BYTES + 1 });
-    expect(bytesInWords(MAX_IMPORT_BYTES)).toBe("200 MB");
     const files = [new File(["serial,model_code\nKWRN1,WRN\n"], "south-machines.csv"), new File(["%PDF"], "manual.pdf"), huge];
     const input = screen.getByLabelText("Choose files");
     Object.defineProperty(input, "files", { value: files });
@@ -276,7 +278,8 @@ describe("Imports page: uploading", { timeout: 20_000 }, () => {
     expect((post.body as FormData).getAll("files").map((f) => (f as File).name)).toEqual(["south-machines.csv"]);
     expect(post.credentials).toBe("same-origin");
     const kept = within(screen.getByText("These files were not sent:").parentElement!).getAllByRole("listitem").map((li) => li.textContent);
-    expect(kept).toEqual(["manual.pdf: only .csv and .txt exports can be loaded", "everything.csv: it is larger than 200 MB, the limit for one file"]);
+    // a no-break space between number and unit (NIST SP 811 §7.2)
+    expect(kept).toEqual(["manual.pdf: only .csv and .txt exports can be loaded", "everything.csv: it is larger than 200\u00a0MB, the limit for one file"]);
   });
 });
 
@@ -323,7 +326,7 @@ describe("Batch rejects page", { timeout: 20_000 }, () => {
     const table = await screen.findByRole("table", { name: "Rejects of batch 17" }, { timeout: 10_000 });
     expect(within(table).getAllByRole("columnheader").map((h) => h.textContent)).toEqual(["Line", "Reason", "Since", "ro_number", "opened_date", "shop_code"]);
     const [, first, second] = within(table).getAllByRole("row");
-    expect(within(first).getAllByRole("cell").map((c) => c.textContent)).toEqual(["7", 'opened date "2024-13-45" is not a date in this export\'s format (YYYY-MM-DD) (bad_date)', "fixed by batch 21", "R-105", "2024-13-45", "S1"]);
+    expect(within(first).getAllByRole("cell").map((c) => c.textContent)).toEqual(["7", 'opened date "2024-13-45" is not a date in this export\'s format (YYYY-MM-DD)', "fixed by batch 21", "R-105", "2024-13-45", "S1"]);
     expect(within(first).getByRole("link", { name: "fixed by batch 21" }).getAttribute("href")).toBe("/imports/batches/21");
     expect(within(second).getAllByRole("cell")[2].textContent).toBe("");
     expect(figure(screen.getByLabelText("What batch 17 did"), "Rejected")).toBe("20");
@@ -334,7 +337,7 @@ describe("Batch rejects page", { timeout: 20_000 }, () => {
     handlers.push(rejectsHandler);
     visit("/imports/batches/17");
     const select = await screen.findByLabelText("Reason", {}, { timeout: 10_000 });
-    expect(within(select).getAllByRole("option").map((o) => o.textContent)).toEqual(["Every reason (20)", "bad date (1)", "unknown machine (19)"]);
+    expect(within(select).getAllByRole("option").map((o) => o.textContent)).toEqual(["Every reason (20)", "date not readable (1)", "machine not known (19)"]);
     expect(screen.getByRole("link", { name: "Download CSV" }).getAttribute("href")).toBe(apiPaths.batchRejectsCsv("17"));
 
     fireEvent.change(select, { target: { value: "unknown_machine" } });
@@ -343,7 +346,7 @@ describe("Batch rejects page", { timeout: 20_000 }, () => {
     expect(asked).toEqual([null, "unknown_machine"]);
     expect(screen.getByText(/machine serial KZ0099999/)).toBeTruthy();
     expect(screen.queryByText(/2024-13-45/)).toBeNull();
-    expect(screen.getByRole("link", { name: "Download CSV (unknown machine)" }).getAttribute("href")).toBe(apiPaths.batchRejectsCsv("17", "reason=unknown_machine"));
+    expect(screen.getByRole("link", { name: "Download CSV (machine not known)" }).getAttribute("href")).toBe(apiPaths.batchRejectsCsv("17", "reason=unknown_machine"));
   });
 
   it("pages by offset and limit", async () => {
@@ -368,9 +371,15 @@ describe("Batch rejects page", { timeout: 20_000 }, () => {
 describe("import words", () => {
   it("screenFiles keeps .csv and .txt files up to the limit and says why it keeps the others back", () => {
     const empty = new File([], "blank.txt");
-    const { accepted, turnedAway } = screenFiles([new File(["a"], "A.CSV"), new File(["b"], "b.txt"), new File(["c"], "c.xlsx"), empty]);
+    const { accepted, turnedAway } = screenFiles([new File(["a"], "A.CSV"), new File(["b"], "b.txt"), new File(["c"], "c.xlsx"), empty], createFormat({ locale: "en-US", currency: "USD" }));
     expect(accepted.map((f) => f.name)).toEqual(["A.CSV", "b.txt"]);
     expect(turnedAway).toEqual([{ name: "c.xlsx", why: "only .csv and .txt exports can be loaded" }, { name: "blank.txt", why: "the file is empty" }]);
+  });
+
+  it("reasonLabel says a known reject reason in words and any other code with spaces", () => {
+    expect(reasonLabel("hour_meter_backwards")).toBe("hour meter went backwards");
+    expect(reasonLabel("tmin_above_tmax")).toBe("daily minimum above the daily maximum");
+    expect(reasonLabel("some_new_reason")).toBe("some new reason");
   });
 
   it("secondsInWords and timeLeftInWords say durations the way people do", () => {

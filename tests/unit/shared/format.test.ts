@@ -108,6 +108,61 @@ describe("createFormat({ locale, currency })", () => {
   });
 });
 
+describe("createFormat({ pressureUnit }).pressure(value, storedIn, shownIn?)", () => {
+  // NIST SP 811 (2008) Appendix B.8: 1 psi = 6.894 757 kPa, 1 bar = 100 kPa; separators per CLDR (see the top)
+  const psiReader = createFormat({ locale: "en-US", currency: "USD", pressureUnit: "psi" });
+  const barReader = createFormat({ locale: "de-DE", currency: "EUR", pressureUnit: "bar" });
+
+  it("converts a reading held in psi into the reader's unit and writes the unit", () => {
+    // 400 psi × 6.894 757 = 2 757.902 8 kPa = 27.579 bar
+    expect(psiReader.pressure(400, "psi")).toBe(`400${NBSP}psi`);
+    expect(barReader.pressure(400, "psi")).toBe(`27,58${NBSP}bar`);
+    expect(psiReader.pressure(400, "psi", "kPa")).toBe(`2,758${NBSP}kPa`);
+    expect(fr.pressure(400, "psi")).toBe(`2${NNBSP}758${NBSP}kPa`);
+  });
+
+  it("converts bar and kPa into psi", () => {
+    // 1 bar = 100 / 6.894 757 psi = 14.503 77 psi
+    expect(psiReader.pressure(30, "bar")).toBe(`435${NBSP}psi`);
+    expect(psiReader.pressure(2000, "kPa")).toBe(`290${NBSP}psi`);
+  });
+
+  it("pressureNumber gives the bare figure with the shown unit's decimals", () => {
+    expect(barReader.pressureNumber(350, "psi")).toBe("24,13");
+    expect(psiReader.pressureNumber(2413.16, "kPa")).toBe("350");
+    expect(psiReader.pressureNumber(null, "psi")).toBe("–");
+  });
+});
+
+describe("createFormat({ locale }).pValue(p)", () => {
+  // decimal marks per CLDR (see the top); 3 decimals with "< 0.001" below is the reporting style of the
+  // APA Publication Manual (7th ed.), §6.36
+  it("shows 3 decimals and a floor of < 0.001 in the locale's decimal mark", () => {
+    expect(en.pValue(0.0432)).toBe("0.043");
+    expect(de.pValue(0.0432)).toBe("0,043");
+    expect(en.pValue(0.00002)).toBe(`<${NBSP}0.001`);
+    expect(de.pValue(0.0004)).toBe(`<${NBSP}0,001`);
+    expect(en.pValue(null)).toBe("–");
+  });
+});
+
+describe("createFormat({ locale }).fileSize(bytes)", () => {
+  // 1,024-based multiples as file managers show them (common practice, no source); separators per CLDR
+  it("keeps bytes below 1,024 and groups them", () => {
+    expect(en.fileSize(512)).toBe(`512${NBSP}bytes`);
+    expect(en.fileSize(1)).toBe(`1${NBSP}byte`);
+  });
+
+  it("shows 1 decimal below 10 and none from 10, in the locale's marks", () => {
+    expect(en.fileSize(1536)).toBe(`1.5${NBSP}KB`);
+    expect(de.fileSize(1536)).toBe(`1,5${NBSP}KB`);
+    expect(en.fileSize(200 * 1024 * 1024)).toBe(`200${NBSP}MB`);
+    expect(de.fileSize(1000 * 1024 * 1024 * 1024)).toBe(`1.000${NBSP}GB`);
+    expect(en.fileSize(1536 * 1024 * 1024 * 1024)).toBe(`1.5${NBSP}TB`);
+    expect(en.fileSize(undefined)).toBe("–");
+  });
+});
+
 describe("pressure conversion", () => {
   // NIST SP 811 (2008) Appendix B.8: psi → Pa 6.894 757 E+03; bar → Pa 1.0 E+05 (exact)
   it("uses the NIST SP 811 factors", () => {

@@ -5,17 +5,16 @@ import { FindingStatusPill } from "./finding-work";
 import type { FindingState } from "@shared/schemas/findings";
 import { useFormat } from "@/lib/use-format";
 
-const fmt = (v: number) => (v >= 10 ? v.toFixed(0) : v >= 1 ? v.toFixed(1) : v.toFixed(2));
-const q = (v: number) => (v < 0.001 ? "< 0.001" : v.toFixed(3));
-
 /** Observed, expected, the ratio on its strip with the interval, and q: the figures of one cluster on one line. */
 export function ClusterFigures({ c }: { c: Cluster }) {
+  const fmt = useFormat();
+  const ratio = (v: number) => fmt.quantity("ratio", v);
   return (
     <div className="grid items-center gap-x-4 gap-y-1 text-sm sm:grid-cols-[auto_auto_1fr_auto]">
-      <span><span className="text-muted">Observed</span> <b className="tabular-nums">{c.observed}</b></span>
-      <span><span className="text-muted">Expected</span> <b className="tabular-nums">{fmt(c.expected)}</b></span>
+      <span><span className="text-muted">Observed</span> <b className="tabular-nums">{fmt.count(c.observed)}</b></span>
+      <span><span className="text-muted">Expected</span> <b className="tabular-nums">{fmt.quantity("plain", c.expected)}</b></span>
       <RatioStrip ratio={c.ratio} lower={c.lower} upper={c.upper} />
-      <span className="tabular-nums">×{c.ratio.toFixed(1)} <span className="text-muted">({c.lower.toFixed(1)}–{c.upper.toFixed(1)}), q {q(c.qValue)}</span></span>
+      <span className="tabular-nums">×{ratio(c.ratio)} <span className="text-muted">({ratio(c.lower)}–{ratio(c.upper)}), q {fmt.pValue(c.qValue)}</span></span>
     </div>
   );
 }

@@ -3,6 +3,7 @@ import { useState, type ReactNode } from "react";
 import { useFilters } from "../use-filters";
 import { shopQueries } from "../api/shop-queries";
 import { useTemperatureUnit } from "../hooks/use-temperature-unit";
+import { PressureUnitSelect } from "./pressure-unit-select";
 import { components, engineFamilies, modelLines } from "@shared/catalog";
 import { hourBandLabel, hourBands, temperatureBandLabel, temperatureBandsIn, translateTemperatureBands, type TemperatureUnit } from "@shared/bands";
 import type { UrlFilters } from "../use-filters";
@@ -108,6 +109,7 @@ export function FilterBar({ hide = [] }: { hide?: (keyof UrlFilters)[] }) {
               </button>
             ))}
           </div>
+          <PressureUnitSelect />
           <button type="button" aria-expanded={open} onClick={() => setOpen((o) => !o)} className="rounded border border-line bg-white px-3 py-1 text-sm hover:border-accent">
             {open ? "Fewer filters" : "More filters"}
           </button>

@@ -2,12 +2,14 @@ import type { ReactNode } from "react";
 import { apiPaths } from "@shared/api-paths";
 import type { Batch } from "@shared/schemas/imports";
 import { Counts } from "./counts";
-import { dateTimeInWords, kindLabels, secondsInWords } from "../import-words";
+import { kindLabels, secondsInWords } from "../import-words";
 import { BatchStatus } from "./status-pill";
 import { DashboardsState } from "./dashboards-state";
+import { useFormat } from "@/lib/use-format";
 
 /** One batch in a few lines: the file, how it was read, who loaded it and when, and what it did. */
 export function BatchSummary({ batch: b }: { batch: Batch }) {
+  const fmt = useFormat();
   const fact = (label: string, value: ReactNode) => (
     <div className="min-w-0">
       <dt className="text-xs text-muted">{label}</dt>
@@ -22,7 +24,7 @@ export function BatchSummary({ batch: b }: { batch: Batch }) {
         {fact("Shop", <span className="font-mono">{b.shop ?? "several"}</span>)}
         {fact("Status", <BatchStatus status={b.status} />)}
         {fact("Loaded by", b.loadedBy)}
-        {fact("Started", <time dateTime={b.startedAt}>{dateTimeInWords(b.startedAt)}</time>)}
+        {fact("Started", <time dateTime={b.startedAt}>{fmt.dateTime(b.startedAt)}</time>)}
         {fact("Took", b.durationMs === null ? "—" : secondsInWords(b.durationMs / 1000))}
       </dl>
       <DashboardsState batch={b} />

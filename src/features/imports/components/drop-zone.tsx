@@ -1,19 +1,21 @@
 import { useState, type DragEvent } from "react";
 import { ErrorNotice } from "@/components/ui/states";
 import { useUploadImports } from "../api/import-queries";
-import { bytesInWords, IMPORT_EXTENSIONS, MAX_IMPORT_BYTES, screenFiles } from "../import-words";
+import { IMPORT_EXTENSIONS, MAX_IMPORT_BYTES, screenFiles } from "../import-words";
+import { useFormat } from "@/lib/use-format";
 
 /**
  * Where exports come in: dropped on the zone or picked with the button (several at once). Files the server
  * would turn away for their name or size are named here, with why, and the rest go up in one request.
  */
 export function ImportDropZone() {
+  const fmt = useFormat();
   const upload = useUploadImports();
   const [over, setOver] = useState(false);
   const [turnedAway, setTurnedAway] = useState<{ name: string; why: string }[]>([]);
 
   const take = (files: readonly File[]) => {
-    const screened = screenFiles(files);
+    const screened = screenFiles(files, fmt);
     setTurnedAway(screened.turnedAway);
     if (screened.accepted.length > 0) upload.mutate(screened.accepted);
   };
@@ -50,7 +52,7 @@ export function ImportDropZone() {
         />
       </label>
       <p className="mt-3 text-xs text-muted">
-        CSV or text exports ({IMPORT_EXTENSIONS.join(", ")}), up to {bytesInWords(MAX_IMPORT_BYTES)} each. Every row is checked before anything is
+        CSV or text exports ({IMPORT_EXTENSIONS.join(", ")}), up to {fmt.fileSize(MAX_IMPORT_BYTES)} each. Every row is checked before anything is
         stored; nothing changes in the warehouse until you press Load.
       </p>
       {upload.isPending && <p role="status" className="mt-2 text-sm">Sending {upload.variables.length === 1 ? upload.variables[0].name : `${upload.variables.length} files`}…</p>}

@@ -3,12 +3,13 @@ import { ErrorNotice } from "@/components/ui/states";
 import { apiPaths } from "@shared/api-paths";
 import type { Import } from "@shared/schemas/imports";
 import { importQueries, useImportActions } from "../api/import-queries";
-import { bytesInWords, dateTimeInWords, isActive, kindLabels } from "../import-words";
+import { isActive, kindLabels } from "../import-words";
 import { ImportChoicesForm } from "./import-choices";
 import { ImportPreview } from "./import-preview";
 import { LoadProgress } from "./load-progress";
 import { LoadedSummary } from "./loaded-summary";
 import { ImportStatusPill } from "./status-pill";
+import { useFormat } from "@/lib/use-format";
 
 const fallbackMessages: Partial<Record<Import["status"], string>> = {
   refused: "This file cannot be loaded as it is.",
@@ -21,6 +22,7 @@ const fallbackMessages: Partial<Record<Import["status"], string>> = {
  * second while the server is checking, queueing or loading, so a reload picks up where the page left off.
  */
 export function ImportCard({ initial }: { initial: Import }) {
+  const fmt = useFormat();
   const q = useQuery(importQueries.detail(initial.id));
   const imp = q.data ?? initial;
   const { check, load, cancel } = useImportActions(imp.id);
@@ -36,7 +38,7 @@ export function ImportCard({ initial }: { initial: Import }) {
         <div className="min-w-0">
           <h3 id={headingId} className="break-all font-semibold">{imp.fileName}</h3>
           <p className="text-xs text-muted">
-            {bytesInWords(imp.sizeBytes)} · sent by {imp.uploadedBy}, {dateTimeInWords(imp.uploadedAt)}
+            {fmt.fileSize(imp.sizeBytes)} · sent by {imp.uploadedBy}, {fmt.dateTime(imp.uploadedAt)}
             {imp.kind && ` · ${kindLabels[imp.kind]}`}
             {imp.profile && <> · profile <span className="font-mono">{imp.profile}</span></>}
             {imp.shop && <> · shop <span className="font-mono">{imp.shop}</span></>}

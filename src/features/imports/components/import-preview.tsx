@@ -1,12 +1,14 @@
 import type { ImportPreview as Preview } from "@shared/schemas/imports";
 import { Counts } from "./counts";
-import { cellText, count, previewColumns } from "../import-words";
+import { cellText, previewColumns } from "../import-words";
+import { useFormat } from "@/lib/use-format";
 
 const th = "whitespace-nowrap border-b border-line px-2 py-1.5 font-semibold";
 const td = "whitespace-nowrap border-b border-line/60 px-2 py-1 align-top";
 
 /** What a check found over the whole file, nothing stored: counts, header notes, shops, first rows and first rejects. */
 export function ImportPreview({ preview, fileLabel }: { preview: Preview; fileLabel: string }) {
+  const fmt = useFormat();
   const { header } = preview;
   const columns = preview.columns?.length ? preview.columns : previewColumns(preview.rows);
   const rawWidth = Math.max(1, ...preview.rejects.map((r) => r.raw.length));
@@ -49,7 +51,7 @@ export function ImportPreview({ preview, fileLabel }: { preview: Preview; fileLa
               <p>Lines a quote left open ran together (each line was read on its own):</p>
               <ul className="ml-5 list-disc">
                 {preview.mergedLines.map((m) => (
-                  <li key={m.first}>{m.first === m.last ? `line ${count(m.first)}` : `lines ${count(m.first)}–${count(m.last)}`}</li>
+                  <li key={m.first}>{m.first === m.last ? `line ${fmt.count(m.first)}` : `lines ${fmt.count(m.first)}–${fmt.count(m.last)}`}</li>
                 ))}
               </ul>
             </div>
@@ -61,7 +63,7 @@ export function ImportPreview({ preview, fileLabel }: { preview: Preview; fileLa
         <p className="text-sm">
           <span className="font-semibold">Shops named in the rows: </span>
           {preview.shops.map((s, i) => (
-            <span key={s.code}>{i > 0 && ", "}<span className="font-mono">{s.code}</span> ({count(s.rows)} {s.rows === 1 ? "row" : "rows"})</span>
+            <span key={s.code}>{i > 0 && ", "}<span className="font-mono">{s.code}</span> ({fmt.count(s.rows)} {s.rows === 1 ? "row" : "rows"})</span>
           ))}
         </p>
       )}
@@ -80,8 +82,8 @@ export function ImportPreview({ preview, fileLabel }: { preview: Preview; fileLa
               <tbody>
                 {preview.rows.map((r) => (
                   <tr key={r.line}>
-                    <td className={`${td} tabular-nums`}>{count(r.line)}</td>
-                    {columns.map((c) => <td key={c} className={`${td} tabular-nums`}>{c in r.values ? cellText(r.values[c]) : ""}</td>)}
+                    <td className={`${td} tabular-nums`}>{fmt.count(r.line)}</td>
+                    {columns.map((c) => <td key={c} className={`${td} tabular-nums`}>{c in r.values ? cellText(r.values[c], fmt) : ""}</td>)}
                   </tr>
                 ))}
               </tbody>
@@ -92,7 +94,7 @@ export function ImportPreview({ preview, fileLabel }: { preview: Preview; fileLa
 
       {preview.rejects.length > 0 && (
         <div>
-          <h4 className="mb-1 text-sm font-semibold">First rejected rows{preview.rejected > preview.rejects.length && ` (${count(preview.rejects.length)} of ${count(preview.rejected)})`}</h4>
+          <h4 className="mb-1 text-sm font-semibold">First rejected rows{preview.rejected > preview.rejects.length && ` (${fmt.count(preview.rejects.length)} of ${fmt.count(preview.rejected)})`}</h4>
           <div className="overflow-x-auto rounded border border-line">
             <table className="w-full text-left text-xs" aria-label={`First rejected rows of ${fileLabel}`}>
               <thead className="bg-paper text-muted">
@@ -105,9 +107,9 @@ export function ImportPreview({ preview, fileLabel }: { preview: Preview; fileLa
               <tbody>
                 {preview.rejects.map((r) => (
                   <tr key={r.line}>
-                    <td className={`${td} tabular-nums`}>{count(r.line)}</td>
+                    <td className={`${td} tabular-nums`}>{fmt.count(r.line)}</td>
                     <td className="min-w-64 border-b border-line/60 px-2 py-1 align-top">
-                      {r.reason} <span className="text-muted">({r.code})</span>
+                      {r.reason}
                     </td>
                     {Array.from({ length: rawWidth }, (_, i) => <td key={i} className={`${td} font-mono`}>{r.raw[i] ?? ""}</td>)}
                   </tr>

@@ -1,8 +1,10 @@
 import type { ImportProgress } from "@shared/schemas/imports";
-import { count, percentOf, phaseLabels, timeLeftInWords } from "../import-words";
+import { percentOf, phaseLabels, timeLeftInWords } from "../import-words";
+import { useFormat } from "@/lib/use-format";
 
 /** A load under way (or waiting for its turn): the bar, the figures beside it, and the way to stop it. */
 export function LoadProgress(props: { fileName: string; queued: boolean; progress: ImportProgress | null; cancelling: boolean; onCancel: () => void }) {
+  const fmt = useFormat();
   const p = props.progress;
   const pct = p ? percentOf(p) : 0;
   return (
@@ -27,8 +29,8 @@ export function LoadProgress(props: { fileName: string; queued: boolean; progres
             <div className="h-full bg-accent transition-[width] duration-700" style={{ width: `${pct}%` }} />
           </div>
           <p className="flex flex-wrap gap-x-4 text-sm text-muted tabular-nums">
-            <span>{count(p.rowsRead)} rows read</span>
-            <span>{count(Math.round(p.rowsPerSecond))} rows/s</span>
+            <span>{fmt.count(p.rowsRead)} rows read</span>
+            <span>{fmt.count(Math.round(p.rowsPerSecond))} rows/s</span>
             <span>{timeLeftInWords(p.secondsLeft)}</span>
           </p>
         </>

@@ -4,10 +4,12 @@ import { batchQueries } from "../api/batch-queries";
 import { batchPath } from "../batch-path";
 import { Counts } from "./counts";
 import { DashboardsState } from "./dashboards-state";
-import { count, secondsInWords } from "../import-words";
+import { secondsInWords } from "../import-words";
+import { useFormat } from "@/lib/use-format";
 
 /** A finished load: what the batch did, and the way to its rejects. */
 export function LoadedSummary({ batchId, fileName }: { batchId: string; fileName: string }) {
+  const fmt = useFormat();
   const q = useQuery(batchQueries.summary(batchId));
   const b = q.data?.batch;
   return (
@@ -28,7 +30,7 @@ export function LoadedSummary({ batchId, fileName }: { batchId: string; fileName
         <p className="text-sm text-muted">Reading the batch's counts…</p>
       )}
       <Link to={batchPath(batchId)} className="inline-block rounded border border-line bg-white px-3 py-1.5 text-sm font-semibold text-accent hover:border-accent">
-        {b ? `Rejects of batch ${b.id} (${count(b.rejected)})` : `Rejects of batch ${batchId}`}
+        {b ? `Rejects of batch ${b.id} (${fmt.count(b.rejected)})` : `Rejects of batch ${batchId}`}
       </Link>
     </div>
   );

@@ -1,13 +1,15 @@
 import { Link } from "react-router-dom";
 import type { RejectPage } from "@shared/schemas/imports";
 import { batchPath } from "../batch-path";
-import { count } from "../import-words";
+import { useFormat } from "@/lib/use-format";
+
 
 const th = "whitespace-nowrap border-b border-line px-2 py-1.5 font-semibold";
 const td = "whitespace-nowrap border-b border-line/60 px-2 py-1 align-top";
 
 /** A page of rejects: line and reason, then the row's raw fields under the file's own column names. */
 export function RejectTable({ page, loading }: { page: RejectPage; loading: boolean }) {
+  const fmt = useFormat();
   const fixed = page.rows.some((r) => r.fixedBy !== null);
   return (
     <div aria-busy={loading} className={`overflow-x-auto rounded border border-line transition-opacity ${loading ? "opacity-60" : ""}`}>
@@ -23,10 +25,10 @@ export function RejectTable({ page, loading }: { page: RejectPage; loading: bool
         <tbody>
           {page.rows.map((r) => (
             <tr key={r.line}>
-              <td className={`${td} tabular-nums`}>{count(r.line)}</td>
+              <td className={`${td} tabular-nums`}>{fmt.count(r.line)}</td>
               {/* narrower on a phone, so the "fixed by batch" beside it stays in sight */}
               <td className="min-w-40 border-b border-line/60 px-2 py-1 align-top sm:min-w-72">
-                {r.reason} <span className="text-muted">({r.code})</span>
+                {r.reason}
               </td>
               {fixed && (
                 <td className={td}>

@@ -1,15 +1,15 @@
 import * as Plot from "@observablehq/plot";
 import type { Palette } from "@/lib/palette";
 import type { CostMcfResponse, KaplanMeierResponse, McfResponse, WeibullResponse } from "@shared/schemas/analytics-life";
+import type { Format } from "@shared/format";
 
 /** Weibull plot scale: y = ln(−ln(1 − F)), so a Weibull distribution is a straight line against log time. */
 export const weibullY = (F: number) => Math.log(-Math.log(1 - F));
 const fromWeibullY = (y: number) => 1 - Math.exp(-Math.exp(y));
 const PROBABILITY_TICKS = [0.001, 0.005, 0.01, 0.02, 0.05, 0.1, 0.2, 0.3, 0.5, 0.632, 0.8, 0.9, 0.99];
-const pct = (F: number) => `${+(F * 100).toPrecision(2)} %`;
 
 /** Probability plot: each failure at its estimated share failed, the fitted line and its 90 % confidence band, one colour per group. */
-export function weibullChart(d: WeibullResponse, c: Palette): Plot.PlotOptions {
+export function weibullChart(d: WeibullResponse, c: Palette, f: Format): Plot.PlotOptions {
   const points = d.groups.flatMap((g) => g.points.filter((p) => p.medianRank > 0 && p.medianRank < 1 && p.time > 0).map((p) => ({ ...p, group: g.label, y: weibullY(p.medianRank) })));
   const line = d.groups.flatMap((g) =>
     g.line.filter((p) => p.F > 0 && p.F < 1 && p.time > 0).map((p) => ({ group: g.label, time: p.time, y: weibullY(p.F), lo: weibullY(Math.min(Math.max(p.lower, 1e-6), 1 - 1e-9)), hi: weibullY(Math.min(Math.max(p.upper, 1e-6), 1 - 1e-9)) })),
@@ -24,36 +24,36 @@ export function weibullChart(d: WeibullResponse, c: Palette): Plot.PlotOptions {
     height: 360,
     marginLeft: 56,
     x: { type: "log", label: "Engine hours from fitting to failure (log scale)", grid: true, domain: xDomain },
-    y: { label: "Share failed (Weibull scale)", domain: [lo, hi], ticks: PROBABILITY_TICKS.map(weibullY).filter((t) => t >= lo && t <= hi), tickFormat: (t: number) => pct(fromWeibullY(t)), grid: true },
+    y: { label: "Share failed (Weibull scale)", domain: [lo, hi], ticks: PROBABILITY_TICKS.map(weibullY).filter((t) => t >= lo && t <= hi), tickFormat: (t: number) => f.percent(fromWeibullY(t)), grid: true },
     color: { domain: d.groups.map((g) => g.label), range: c.series.slice(0, d.groups.length), legend: true },
     marks: [
       Plot.areaY(line, { x: "time", y1: "lo", y2: "hi", fill: "group", fillOpacity: 0.15, clip: true }),
       Plot.lineY(line, { x: "time", y: "y", stroke: "group", strokeWidth: 2, clip: true }),
       Plot.dot(points, { x: "time", y: "y", stroke: "group", r: 2.5 }),
-      Plot.tip(points, Plot.pointer({ x: "time", y: "y", title: (p: (typeof points)[number]) => `${p.group}\nfailure at ${Math.round(p.time).toLocaleString("en-US")} h\nestimated share failed ${pct(p.medianRank)}` })),
+      Plot.tip(points, Plot.pointer({ x: "time", y: "y", title: (p: (typeof points)[number]) => `${p.group}\nfailure at ${f.quantity("hours", p.time)} h\nestimated share failed ${f.percent(p.medianRank)}` })),
     ],
   };
 }
 
 /** Kaplan–Meier survival steps with their 95 % limits as a band. */
-export function kaplanMeierChart(d: KaplanMeierResponse, c: Palette): Plot.PlotOptions {
+export function kaplanMeierChart(d: KaplanMeierResponse, c: Palette, f: Format): Plot.PlotOptions {
   const steps = d.groups.flatMap((g) => [{ group: g.label, time: 0, survival: 1, lower: 1, upper: 1, atRisk: g.units }, ...g.steps.map((s) => ({ group: g.label, ...s, lower: s.lower ?? s.survival, upper: s.upper ?? s.survival }))]);
   return {
     height: 320,
     marginLeft: 56,
     x: { label: "Engine hours since fitting", grid: true },
-    y: { label: "Share still working (%)", domain: [0, 1], tickFormat: (v: number) => `${Math.round(v * 100)}`, grid: true },
+    y: { label: "Share still working (%)", domain: [0, 1], tickFormat: (v: number) => f.count(v * 100), grid: true },
     color: { domain: d.groups.map((g) => g.label), range: c.series.slice(0, d.groups.length), legend: true },
     marks: [
       Plot.areaY(steps, { x: "time", y1: "lower", y2: "upper", fill: "group", fillOpacity: 0.15, curve: "step-after" }),
       Plot.lineY(steps, { x: "time", y: "survival", stroke: "group", strokeWidth: 2, curve: "step-after" }),
-      Plot.tip(steps, Plot.pointerX({ x: "time", y: "survival", title: (s: (typeof steps)[number]) => `${s.group}\n${Math.round(s.time).toLocaleString("en-US")} h: ${(s.survival * 100).toFixed(1)} % working (95 % ${(s.lower * 100).toFixed(1)}–${(s.upper * 100).toFixed(1)})\n${s.atRisk} at risk` })),
+      Plot.tip(steps, Plot.pointerX({ x: "time", y: "survival", title: (s: (typeof steps)[number]) => `${s.group}\n${f.quantity("hours", s.time)} h: ${f.percent(s.survival)} working (95 % ${f.percent(s.lower)}–${f.percent(s.upper)})\n${f.count(s.atRisk)} at risk` })),
     ],
   };
 }
 
 /** Mean cumulative function of repeat repairs with its 95 % limits. */
-export function mcfChart(d: McfResponse, c: Palette): Plot.PlotOptions {
+export function mcfChart(d: McfResponse, c: Palette, f: Format): Plot.PlotOptions {
   const steps = d.groups.flatMap((g) => [{ group: g.label, age: 0, mcf: 0, lower: 0, upper: 0, atRisk: g.machines }, ...g.steps.map((s) => ({ group: g.label, ...s }))]);
   return {
     height: 320,
@@ -64,15 +64,14 @@ export function mcfChart(d: McfResponse, c: Palette): Plot.PlotOptions {
     marks: [
       Plot.areaY(steps, { x: "age", y1: "lower", y2: "upper", fill: "group", fillOpacity: 0.15, curve: "step-after" }),
       Plot.lineY(steps, { x: "age", y: "mcf", stroke: "group", strokeWidth: 2, curve: "step-after" }),
-      Plot.tip(steps, Plot.pointerX({ x: "age", y: "mcf", title: (s: (typeof steps)[number]) => `${s.group}\n${Math.round(s.age).toLocaleString("en-US")} h: ${s.mcf.toFixed(2)} repairs per machine (95 % ${s.lower.toFixed(2)}–${s.upper.toFixed(2)})\n${s.atRisk} machines observed` })),
+      Plot.tip(steps, Plot.pointerX({ x: "age", y: "mcf", title: (s: (typeof steps)[number]) => `${s.group}\n${f.quantity("hours", s.age)} h: ${f.quantity("ratio", s.mcf)} repairs per machine (95 % ${f.quantity("ratio", s.lower)}–${f.quantity("ratio", s.upper)})\n${f.count(s.atRisk)} machines observed` })),
     ],
   };
 }
 
 /** Mean cumulative repair cost per machine (Nelson's cost MCF) with its 95 % limits. */
-export function costMcfChart(d: CostMcfResponse, c: Palette): Plot.PlotOptions {
+export function costMcfChart(d: CostMcfResponse, c: Palette, f: Format): Plot.PlotOptions {
   const steps = d.groups.flatMap((g) => [{ group: g.label, age: 0, mcf: 0, lower: 0, upper: 0, atRisk: g.machines }, ...g.steps.map((s) => ({ group: g.label, ...s }))]);
-  const money = (v: number) => Math.round(v).toLocaleString("en-US");
   return {
     height: 320,
     marginLeft: 64,
@@ -82,7 +81,7 @@ export function costMcfChart(d: CostMcfResponse, c: Palette): Plot.PlotOptions {
     marks: [
       Plot.areaY(steps, { x: "age", y1: "lower", y2: "upper", fill: "group", fillOpacity: 0.15, curve: "step-after" }),
       Plot.lineY(steps, { x: "age", y: "mcf", stroke: "group", strokeWidth: 2, curve: "step-after" }),
-      Plot.tip(steps, Plot.pointerX({ x: "age", y: "mcf", title: (s: (typeof steps)[number]) => `${s.group}\n${Math.round(s.age).toLocaleString("en-US")} h: ${money(s.mcf)} per machine (95 % ${money(s.lower)}–${money(s.upper)})\n${s.atRisk} machines observed` })),
+      Plot.tip(steps, Plot.pointerX({ x: "age", y: "mcf", title: (s: (typeof steps)[number]) => `${s.group}\n${f.quantity("hours", s.age)} h: ${f.moneyWhole(s.mcf)} per machine (95 % ${f.moneyWhole(s.lower)}–${f.moneyWhole(s.upper)})\n${f.count(s.atRisk)} machines observed` })),
     ],
   };
 }

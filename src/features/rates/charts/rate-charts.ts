@@ -2,8 +2,7 @@ import * as Plot from "@observablehq/plot";
 import type { Palette } from "@/lib/palette";
 import type { ComponentRates, HourBandRates, MonthlyRates, TemperatureBandRates } from "@shared/schemas/analytics-rates";
 import { hourBandLabel } from "@shared/bands";
-
-const per = (v: number) => (v >= 1 ? v.toFixed(2) : v.toPrecision(2));
+import type { Format } from "@shared/format";
 
 interface BandPoint {
   label: string;
@@ -15,7 +14,7 @@ interface BandPoint {
 }
 
 /** Bars of a rate per band with its 95 % interval as a whisker, bands in their own order. */
-function bandRateChart(points: BandPoint[], c: Palette, o: { x: string; y: string; exposure: string; fill: string }): Plot.PlotOptions {
+function bandRateChart(points: BandPoint[], c: Palette, f: Format, o: { x: string; y: string; exposure: string; fill: string }): Plot.PlotOptions {
   const shown = points.filter((p) => p.rate !== null);
   return {
     height: 300,
@@ -33,7 +32,7 @@ function bandRateChart(points: BandPoint[], c: Palette, o: { x: string; y: strin
         Plot.pointerX({
           x: "label",
           y: "rate",
-          title: (p: BandPoint) => `${p.label}\n${per(p.rate!)} (95 % ${per(p.lower!)}–${per(p.upper!)})\n${p.failures} failures over ${Math.round(p.exposure).toLocaleString("en-US")} ${o.exposure}`,
+          title: (p: BandPoint) => `${p.label}\n${f.quantity("rate", p.rate)} (95 % ${f.quantity("rate", p.lower)}–${f.quantity("rate", p.upper)})\n${f.count(p.failures)} ${p.failures === 1 ? "failure" : "failures"} over ${f.count(p.exposure)} ${o.exposure}`,
         }),
       ),
       Plot.ruleY([0]),
@@ -41,27 +40,29 @@ function bandRateChart(points: BandPoint[], c: Palette, o: { x: string; y: strin
   };
 }
 
-export function hourBandChart(d: HourBandRates, c: Palette): Plot.PlotOptions {
+export function hourBandChart(d: HourBandRates, c: Palette, f: Format): Plot.PlotOptions {
   return bandRateChart(
     d.rows.map((r) => ({ label: hourBandLabel(r.band), failures: r.failures, exposure: r.engineHours, rate: r.perThousandHours?.rate ?? null, lower: r.perThousandHours?.lower ?? null, upper: r.perThousandHours?.upper ?? null })),
     c,
+    f,
     { x: "Engine hours on the meter at the repair", y: "Failures per 1,000 engine hours", exposure: "engine hours", fill: c.series[0] },
   );
 }
 
 /** The answer's bands in its unit, coldest first, as the server labelled them. */
-export function temperatureBandChart(d: TemperatureBandRates, c: Palette): Plot.PlotOptions {
+export function temperatureBandChart(d: TemperatureBandRates, c: Palette, f: Format): Plot.PlotOptions {
   return bandRateChart(
     d.rows
       .filter((r) => r.band !== "unknown" || r.failures > 0)
       .map((r) => ({ label: r.label, failures: r.failures, exposure: r.machineDays, rate: r.perThousandMachineDays?.rate ?? null, lower: r.perThousandMachineDays?.lower ?? null, upper: r.perThousandMachineDays?.upper ?? null })),
     c,
+    f,
     { x: `Daily minimum temperature at the home shop (°${d.unit})`, y: "Failures per 1,000 machine-days", exposure: "machine-days", fill: c.series[2] },
   );
 }
 
 /** Pareto: each component's share of failures as bars, the cumulative share as a line, both in %. */
-export function paretoChart(d: ComponentRates, c: Palette): Plot.PlotOptions {
+export function paretoChart(d: ComponentRates, c: Palette, f: Format): Plot.PlotOptions {
   const rows = d.rows.map((r) => ({ ...r, sharePct: r.share * 100, cumulativePct: r.cumulativeShare * 100 }));
   return {
     height: 340,
@@ -73,7 +74,7 @@ export function paretoChart(d: ComponentRates, c: Palette): Plot.PlotOptions {
       Plot.barY(rows, { x: "name", y: "sharePct", fill: c.series[1], fillOpacity: 0.9 }),
       Plot.lineY(rows, { x: "name", y: "cumulativePct", stroke: c.ink, strokeWidth: 1.5, marker: "circle" }),
       Plot.ruleY([80], { stroke: c.muted, strokeDasharray: "4,3" }),
-      Plot.tip(rows, Plot.pointerX({ x: "name", y: "sharePct", title: (r: (typeof rows)[number]) => `${r.name} (${r.system})\n${r.failures} failures, ${r.sharePct.toFixed(1)} % of all\ncumulative ${r.cumulativePct.toFixed(1)} %` })),
+      Plot.tip(rows, Plot.pointerX({ x: "name", y: "sharePct", title: (r: (typeof rows)[number]) => `${r.name} (${r.system})\n${f.count(r.failures)} ${r.failures === 1 ? "failure" : "failures"}, ${f.percent(r.share)} of all\ncumulative ${f.percent(r.cumulativeShare)}` })),
       Plot.ruleY([0]),
     ],
   };
@@ -81,13 +82,16 @@ export function paretoChart(d: ComponentRates, c: Palette): Plot.PlotOptions {
 
 type MonthRow = MonthlyRates["rows"][number];
 const monthDate = (m: string) => new Date(`${m}-01T00:00:00Z`);
-const coverageWords = (r: MonthRow) => (r.complete ? "" : `\nincomplete: hour readings cover ${Math.floor((r.coverage ?? 0) * 100)} % of its machine-days (no alarm)`);
+// floored, so a month just short of full coverage never reads as 100 %
+const coverageWords = (r: { complete: boolean; coverage: number | null }, f: Format) =>
+  r.complete ? "" : `\nincomplete: hour readings cover ${f.percent(Math.floor((r.coverage ?? 0) * 1000) / 1000)} of its machine-days (no alarm)`;
+const monthWords = (m: string, f: Format) => new Intl.DateTimeFormat(f.locale, { month: "short", year: "numeric", timeZone: "UTC" }).format(monthDate(m));
 
 /**
  * Observed ÷ expected by month: 1 is what the month's own fleet (hours by age band, weather) predicts; the band is
  * the exact probability limits of complete months; incomplete months are hollow and carry no limits.
  */
-export function standardisedMonthlyChart(d: MonthlyRates, c: Palette): Plot.PlotOptions {
+export function standardisedMonthlyChart(d: MonthlyRates, c: Palette, f: Format): Plot.PlotOptions {
   const rows = d.rows.filter((r) => r.ratio !== null).map((r) => ({ ...r, date: monthDate(r.month), ratio: r.ratio! }));
   const complete = rows.filter((r) => r.complete);
   const top = Math.max(2, ...rows.map((r) => r.ratio)) * 1.1;
@@ -108,7 +112,7 @@ export function standardisedMonthlyChart(d: MonthlyRates, c: Palette): Plot.Plot
           x: "date",
           y: "ratio",
           title: (r: MonthRow & { ratio: number }) =>
-            `${r.month}: ${r.failures} failures, ${r.expected.toFixed(1)} expected (${r.ratio.toFixed(2)} ×)${r.ratioUpper !== null ? `\nlimits ${r.ratioLower!.toFixed(2)}–${r.ratioUpper.toFixed(2)}` : ""}${r.outOfControl ? "\noutside the limits" : ""}${coverageWords(r)}`,
+            `${monthWords(r.month, f)}: ${f.count(r.failures)} ${r.failures === 1 ? "failure" : "failures"}, ${f.quantity("plain", r.expected)} expected (${f.quantity("ratio", r.ratio)} ×)${r.ratioUpper !== null ? `\nlimits ${f.quantity("ratio", r.ratioLower)}–${f.quantity("ratio", r.ratioUpper)}` : ""}${r.outOfControl ? "\noutside the limits" : ""}${coverageWords(r, f)}`,
         }),
       ),
     ],
@@ -116,7 +120,7 @@ export function standardisedMonthlyChart(d: MonthlyRates, c: Palette): Plot.Plot
 }
 
 /** u-chart: the plain monthly rate with its centre line and 3-sigma limits (complete months); incomplete months hollow. */
-export function monthlyChart(d: MonthlyRates, c: Palette): Plot.PlotOptions {
+export function monthlyChart(d: MonthlyRates, c: Palette, f: Format): Plot.PlotOptions {
   const rows = d.rows
     .filter((r) => r.perThousandHours)
     .map((r) => ({ date: monthDate(r.month), month: r.month, rate: r.perThousandHours!.rate, lower: r.controlLower, upper: r.controlUpper, failures: r.failures, hours: r.engineHours, out: r.outOfControlPlain, complete: r.complete, coverage: r.coverage }));
@@ -142,7 +146,7 @@ export function monthlyChart(d: MonthlyRates, c: Palette): Plot.PlotOptions {
           x: "date",
           y: "rate",
           title: (r: Row) =>
-            `${r.month}: ${per(r.rate)} per 1,000 h\n${r.failures} failures, ${Math.round(r.hours).toLocaleString("en-US")} h${r.lower !== null && r.upper !== null ? `\nlimits ${per(r.lower)}–${per(r.upper)}` : ""}${r.out ? "\noutside the control limits" : ""}${r.complete ? "" : `\nincomplete: hour readings cover ${Math.floor((r.coverage ?? 0) * 100)} % of its machine-days (no alarm)`}`,
+            `${monthWords(r.month, f)}: ${f.quantity("rate", r.rate)} per ${f.count(1000)} h\n${f.count(r.failures)} ${r.failures === 1 ? "failure" : "failures"}, ${f.count(r.hours)} h${r.lower !== null && r.upper !== null ? `\nlimits ${f.quantity("rate", r.lower)}–${f.quantity("rate", r.upper)}` : ""}${r.out ? "\noutside the control limits" : ""}${coverageWords(r, f)}`,
         }),
       ),
     ],

@@ -3,9 +3,7 @@ import type { MonthlyRates } from "@shared/schemas/analytics-rates";
 import { ChartCard } from "@/components/chart-card";
 import { monthlyChart, standardisedMonthlyChart } from "@/features/rates/charts/rate-charts";
 import { palette } from "@/lib/palette";
-
-const num = (v: unknown) => (typeof v === "number" ? (Math.abs(v) >= 100 ? Math.round(v).toLocaleString("en-US") : v.toPrecision(3)) : String(v ?? ""));
-const pct = (v: unknown) => (typeof v === "number" ? `${Math.floor(v * 100)} %` : "");
+import { useFormat } from "@/lib/use-format";
 
 /**
  * The monthly chart in two views: failures against what each month's own fleet predicts (observed ÷ expected,
@@ -13,6 +11,13 @@ const pct = (v: unknown) => (typeof v === "number" ? `${Math.floor(v * 100)} %` 
  */
 export function MonthlyCard({ d }: { d: MonthlyRates }) {
   const [view, setView] = useState<"expected" | "plain">("expected");
+  const fmt = useFormat();
+  const as = (show: (n: number) => string) => (v: unknown) => (typeof v === "number" ? show(v) : String(v ?? ""));
+  const expected = as((n) => fmt.quantity("plain", n));
+  const ratio = as((n) => fmt.quantity("ratio", n));
+  const hours = as((n) => fmt.quantity("hours", n));
+  const rate = as((n) => fmt.quantity("rate", n));
+  const coverage = as((n) => fmt.percent(n));
   const button = (id: "expected" | "plain", label: string) => (
     <button type="button" aria-pressed={view === id} onClick={() => setView(id)} className={`rounded border px-2 py-0.5 text-xs text-ink ${view === id ? "border-accent bg-accent-soft font-semibold" : "border-line bg-white hover:bg-paper"}`}>
       {label}
@@ -31,7 +36,7 @@ export function MonthlyCard({ d }: { d: MonthlyRates }) {
           <span>{view === "expected" ? "1 = what the month's hours, the fleet's ages and the weather predict; red: outside the limits; hollow: incomplete month" : "Red: outside the limits; hollow: incomplete month"}</span>
         </span>
       }
-      options={view === "expected" ? standardisedMonthlyChart(d, palette) : monthlyChart(d, palette)}
+      options={view === "expected" ? standardisedMonthlyChart(d, palette, fmt) : monthlyChart(d, palette, fmt)}
       rows={d.rows.map((r) => ({
         month: r.month,
         failures: r.failures,
@@ -50,15 +55,15 @@ export function MonthlyCard({ d }: { d: MonthlyRates }) {
       columns={[
         { key: "month", label: "Month" },
         { key: "failures", label: "Failures" },
-        { key: "expected", label: "Expected failures", format: num },
-        { key: "ratio", label: "Observed ÷ expected", format: num },
-        { key: "ratioLower", label: "Lower limit (ratio)", format: num },
-        { key: "ratioUpper", label: "Upper limit (ratio)", format: num },
-        { key: "engineHours", label: "Engine hours (h)", format: num },
-        { key: "rate", label: "Failures per 1,000 h", format: num },
-        { key: "lower", label: "Plain lower limit (per 1,000 h)", format: num },
-        { key: "upper", label: "Plain upper limit (per 1,000 h)", format: num },
-        { key: "coverage", label: "Readings coverage (fraction)", format: pct },
+        { key: "expected", label: "Expected failures", format: expected },
+        { key: "ratio", label: "Observed ÷ expected", format: ratio },
+        { key: "ratioLower", label: "Lower limit (ratio)", format: ratio },
+        { key: "ratioUpper", label: "Upper limit (ratio)", format: ratio },
+        { key: "engineHours", label: "Engine hours (h)", format: hours },
+        { key: "rate", label: "Failures per 1,000 h", format: rate },
+        { key: "lower", label: "Plain lower limit (per 1,000 h)", format: rate },
+        { key: "upper", label: "Plain upper limit (per 1,000 h)", format: rate },
+        { key: "coverage", label: "Readings coverage", csvLabel: "Readings coverage (fraction)", format: coverage },
         { key: "complete", label: "Complete" },
         { key: "out", label: "Outside the limits" },
       ]}

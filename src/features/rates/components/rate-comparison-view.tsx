@@ -32,7 +32,7 @@ export function RateComparisonView({ d }: { d: RateComparisonAnswer }) {
       </table>
       {d.comparison && (
         <p className="text-sm tabular-nums">
-          Rate ratio {d.comparison.ratio === null ? "unbounded" : fmt.quantity("ratio", d.comparison.ratio)}, 95 % interval {fmt.quantity("ratio", d.comparison.lower)}–{d.comparison.upper === null ? "unbounded" : fmt.quantity("ratio", d.comparison.upper)}, two-sided p {d.comparison.pValue < 0.0001 ? d.comparison.pValue.toExponential(1) : d.comparison.pValue.toFixed(4)}; {d.comparison.expectedA.toFixed(1)} failures expected in {d.a.label} if the rates were equal.
+          Rate ratio {d.comparison.ratio === null ? "unbounded" : fmt.quantity("ratio", d.comparison.ratio)}, 95 % interval {fmt.quantity("ratio", d.comparison.lower)}–{d.comparison.upper === null ? "unbounded" : fmt.quantity("ratio", d.comparison.upper)}, two-sided p {fmt.pValue(d.comparison.pValue)}; {fmt.quantity("plain", d.comparison.expectedA)} failures expected in {d.a.label} if the rates were equal.
         </p>
       )}
       <p className="text-xs text-muted">{d.method}</p>

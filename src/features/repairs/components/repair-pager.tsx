@@ -29,11 +29,11 @@ export function RepairPager(props: {
     <nav aria-label="Pages" className="mt-2 flex flex-wrap items-center gap-2 text-sm">
       {step("First", props.onFirst)}
       {step("Previous", props.onPrevious)}
-      <span aria-live="polite">Page {fmt.count(props.page)} of {countInWords(pages, props.totalIsEstimate)}</span>
+      <span aria-live="polite">Page {fmt.count(props.page)} of {countInWords(pages, props.totalIsEstimate, fmt)}</span>
       {step("Next", props.onNext)}
       <label className="ml-auto">Rows per page{" "}
         <select value={props.pageSize} onChange={(e) => props.onPageSize(Number(e.target.value))} className="rounded border border-line bg-white px-1 py-0.5">
-          {PAGE_SIZES.map((n) => <option key={n} value={n}>{n}</option>)}
+          {PAGE_SIZES.map((n) => <option key={n} value={n}>{fmt.count(n)}</option>)}
         </select>
       </label>
     </nav>

@@ -1,4 +1,4 @@
-import { useState, type ReactNode } from "react";
+import { useMemo, useState, type ReactNode } from "react";
 import { Link } from "react-router-dom";
 import {
   columnVisibilityFeature,
@@ -12,14 +12,14 @@ import {
 import type { RepairRow, RepairSortKey } from "@shared/schemas/repairs";
 import { linesInWords } from "../total-in-words";
 import { SortedTable } from "@/components/sorted-table";
+import { useFormat } from "@/lib/use-format";
+import type { Format } from "@shared/format";
 
 const features = tableFeatures({ rowSortingFeature, columnVisibilityFeature });
 const col = createColumnHelper<typeof features, RepairRow>();
-const hours = (v: number | null) => (v === null ? "—" : v.toLocaleString("en-US"));
-
-/** Column id = server sort key where the server can sort by it. */
-const columns = col.columns([
-  col.accessor("openedDate", { id: "opened", header: "Opened" }),
+/** Column id = server sort key where the server can sort by it; figures and dates in the reader's locale. */
+const columnsFor = (fmt: Format) => col.columns([
+  col.accessor("openedDate", { id: "opened", header: "Opened", cell: (i) => fmt.date(i.getValue()) }),
   col.accessor("shopCode", { id: "shop", header: "Shop" }),
   col.accessor("roNumber", { id: "ro", header: "Repair order", cell: (i) => <Link className="text-accent hover:underline" to={`/repairs/${i.row.original.id}`}>{i.getValue()}/{i.row.original.lineNo}</Link> }),
   col.accessor("serial", { id: "serial", header: "Serial" }),
@@ -28,12 +28,12 @@ const columns = col.columns([
   col.accessor("componentName", { id: "component", header: "Component" }),
   col.accessor("lineType", { id: "lineType", header: "Line type" }),
   col.accessor("payType", { id: "payType", header: "Pay type" }),
-  col.accessor("hourMeter", { id: "hours", header: "Hour meter (h)", cell: (i) => hours(i.getValue()) }),
-  col.accessor("laborHours", { id: "laborHours", header: "Labour (h)", cell: (i) => hours(i.getValue()) }),
+  col.accessor("hourMeter", { id: "hours", header: "Hour meter (h)", cell: (i) => fmt.quantity("hours", i.getValue()) }),
+  col.accessor("laborHours", { id: "laborHours", header: "Labour (h)", cell: (i) => fmt.quantity("plain", i.getValue()) }),
   col.accessor("complaint", { id: "complaint", header: "Complaint", enableSorting: false, cell: (i) => i.getValue() ?? "—" }),
   col.accessor("cause", { id: "cause", header: "Cause", enableSorting: false, cell: (i) => i.getValue() ?? "—" }),
   col.accessor("supplierLot", { id: "lot", header: "Supplier lot", enableSorting: false, cell: (i) => i.getValue() ?? "—" }),
-  col.accessor("closedDate", { id: "closed", header: "Closed", cell: (i) => i.getValue() ?? "open" }),
+  col.accessor("closedDate", { id: "closed", header: "Closed", cell: (i) => (i.getValue() === null ? "open" : fmt.date(i.getValue())) }),
 ]);
 
 const HIDDEN_BY_DEFAULT: ColumnVisibilityState = { engineFamily: false, laborHours: false, cause: false, lot: false, closed: false };
@@ -52,6 +52,8 @@ export function RepairTable(props: {
   onSort: (s: { id: RepairSortKey; desc: boolean }) => void;
   pager: ReactNode;
 }) {
+  const fmt = useFormat();
+  const columns = useMemo(() => columnsFor(fmt), [fmt]);
   const [visibility, setVisibility] = useState<ColumnVisibilityState>(HIDDEN_BY_DEFAULT);
   const [chooser, setChooser] = useState(false);
   const sorting: SortingState = [{ id: props.sort.id, desc: props.sort.desc }];
@@ -72,7 +74,7 @@ export function RepairTable(props: {
   return (
     <div>
       <div className="mb-2 flex flex-wrap items-center justify-between gap-2 text-sm">
-        <p className="text-muted">{linesInWords(props.total, props.totalIsEstimate)}</p>
+        <p className="text-muted">{linesInWords(props.total, props.totalIsEstimate, fmt)}</p>
         <div className="relative">
           <button type="button" aria-expanded={chooser} onClick={() => setChooser((c) => !c)} className="rounded border border-line bg-white px-3 py-1">Columns</button>
           {chooser && (
