@@ -1,6 +1,5 @@
 import express from "express";
 import { compressResponses } from "./http/compression.js";
-import { createHmac } from "node:crypto";
 import helmet from "helmet";
 import { pinoHttp } from "pino-http";
 import { sameOriginOnly } from "./http/same-origin.js";
@@ -56,8 +55,6 @@ export interface AppDeps {
   mailArchive?: MailArchive | null;
   /** the job queue that retries failed packet sends */
   boss?: PgBoss | null;
-  /** keys the benchmarks' peer letters (BENCHMARK_PEER_SECRET); null or omitted → derived from the session secret */
-  benchmarkPeerSecret?: string | null;
   /** where uploaded exports are spooled, and the largest accepted (defaults: the system's temp folder, 200 MB) */
   imports?: { spoolDir: string; maxUploadBytes: number; databaseUrl?: string };
   /** sign-in and upload limits (server/http/rate-limits.ts); omitted → the defaults in config.ts */
@@ -133,14 +130,12 @@ export function createApp(d: AppDeps): express.Express {
   app.use("/api/admin/profiles", adminProfileRoutes(d.db, d.pool, d.imports?.spoolDir ?? path.join(os.tmpdir(), "ironledger-uploads")));
   app.use("/api/admin/mail", adminMailRoutes(d.mailArchive ?? null));
   app.use("/api/admin/warranty-policies", adminWarrantyPolicyRoutes(d.db));
-  // peer letters for managers are keyed by the configured secret, else one derived from the session secret (stable across restarts)
-  const peerSecret = d.benchmarkPeerSecret ?? createHmac("sha256", d.sessionSecret).update("benchmark-peers").digest("hex");
   // answers computed from the warehouse alone: 304 while the data has not changed since the client's copy
   app.use(["/api/analytics", "/api/repairs"], dataEtag(d.db));
   // uploads per signed-in user, counted before the claim router reads the file
   app.post("/api/claims/:id/attachments", uploadLimit(d.rateLimits ?? defaultRateLimits));
   app.post("/api/imports", uploadLimit(d.rateLimits ?? defaultRateLimits));
-  app.use("/api", apiRoutes(d.db, d.pool, { storage: d.storage, mailer: d.mailer, boss: d.boss }, peerSecret, {
+  app.use("/api", apiRoutes(d.db, d.pool, { storage: d.storage, mailer: d.mailer, boss: d.boss }, {
     spoolDir: d.imports?.spoolDir ?? path.join(os.tmpdir(), "ironledger-uploads"),
     maxUploadBytes: d.imports?.maxUploadBytes ?? DEFAULT_MAX_UPLOAD_BYTES,
     databaseUrl: d.imports?.databaseUrl,

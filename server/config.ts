@@ -63,7 +63,6 @@ const envSchema = z.object({
   LOAD_DEMO: bool.default(true),
   WARM_ANSWERS: bool.default(true),
   MAX_UPLOAD_MB: z.coerce.number().int().min(1).max(10_000).default(200),
-  BENCHMARK_PEER_SECRET: z.string().optional(),
   SIGN_IN_LIMIT_WINDOW_MINUTES: limit.default(defaultRateLimits.signInWindowMinutes),
   SIGN_IN_FAILURES_PER_ACCOUNT_AND_ADDRESS: limit.default(defaultRateLimits.signInFailuresPerAccountAndAddress),
   SIGN_IN_FAILURES_PER_ACCOUNT: limit.default(defaultRateLimits.signInFailuresPerAccount),
@@ -103,8 +102,6 @@ export interface Config {
   warmAnswers: boolean;
   /** the largest export file an upload accepts, in bytes */
   maxUploadBytes: number;
-  /** keys the benchmarks' peer letters; null (unset or empty) → derived from the session secret */
-  benchmarkPeerSecret: string | null;
   rateLimits: RateLimits;
 }
 
@@ -143,7 +140,6 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     loadDemo: e.LOAD_DEMO,
     warmAnswers: e.WARM_ANSWERS,
     maxUploadBytes: e.MAX_UPLOAD_MB * 1024 * 1024,
-    benchmarkPeerSecret: e.BENCHMARK_PEER_SECRET || null,
     rateLimits: {
       signInWindowMinutes: e.SIGN_IN_LIMIT_WINDOW_MINUTES,
       signInFailuresPerAccountAndAddress: e.SIGN_IN_FAILURES_PER_ACCOUNT_AND_ADDRESS,

@@ -12,10 +12,11 @@
 import { quantile } from "d3-array";
 import { share } from "./kpis.js";
 import { pct, shareFigure } from "./benchmark-figures.js";
-import { funnelStatus } from "./benchmark-funnel.js";
+import { funnelStatus, NO_GROUP_RATE } from "./benchmark-funnel.js";
 import { daysBetween } from "../../shared/dates.js";
 import { MINIMUM_LINES, type FunnelStatus } from "../../shared/schemas/benchmarks.js";
-import type { CycleFigure, FixRow } from "../../shared/schemas/benchmark-details.js";
+import { medianInterval } from "./benchmark-median-interval.js";
+import type { CycleFigure, FixRow, MedianLimits } from "../../shared/schemas/benchmark-details.js";
 
 /** One complaint: whether its part came on a second visit, and whether it came back. */
 export interface Complaint {
@@ -88,9 +89,15 @@ export function roCycles(lines: readonly CycleLine[]): RoCycle[] {
 
 const tenth = (x: number | undefined | null) => (x === null || x === undefined ? null : Math.round(x * 10) / 10);
 
+const limits = (values: readonly number[]): MedianLimits => {
+  const i = medianInterval(values)?.interval;
+  return i ? { from: i.from, to: i.to, coverage: i.coverage } : null;
+};
+
 /**
- * Cycle-time figure: median and p90 of open → close days (R type 7 quantiles, d3-array); the share of all cycle
- * days spent waiting for parts (Σ waiting ÷ Σ cycle days); the orders that waited and their median cycle.
+ * Cycle-time figure: median and p90 of open → close days (R type 7 quantiles, d3-array), the median with its
+ * distribution-free 95 % interval (Conover §3.2); the share of all cycle days spent waiting for parts (Σ waiting
+ * ÷ Σ cycle days); the orders that waited, their median cycle, and the median of their days waiting with its interval.
  */
 export function cycleFigure(cs: readonly RoCycle[]): CycleFigure {
   const days = cs.map((c) => c.days).sort((a, b) => a - b);
@@ -100,10 +107,13 @@ export function cycleFigure(cs: readonly RoCycle[]): CycleFigure {
   return {
     orders: cs.length,
     median: tenth(quantile(days, 0.5)),
+    medianLimits: limits(days),
     p90: tenth(quantile(days, 0.9)),
     waitingShare: total > 0 ? waitingTotal / total : null,
     ordersWaiting: waiting.length,
     medianWaiting: tenth(quantile(waiting.map((c) => c.days), 0.5)),
+    waitingDaysMedian: tenth(quantile(waiting.map((c) => c.waitingDays).sort((a, b) => a - b), 0.5)),
+    waitingDaysLimits: limits(waiting.map((c) => c.waitingDays)),
   };
 }
 
@@ -121,6 +131,6 @@ const FIX_WORDS: Record<FunnelStatus, string> = {
 export function fixRow(key: string, label: string, f: FixFunnel, p0: number | null, cycle: CycleFigure): FixRow {
   const s = share(f.fixed, f.complaints);
   const status = funnelStatus(f.fixed, f.complaints, p0);
-  const words = status === "not_rated" ? FIX_WORDS[status] : `${pct(f.fixed / f.complaints)} of ${f.complaints} complaints is ${FIX_WORDS[status]}`;
+  const words = status === "not_rated" ? (f.complaints >= MINIMUM_LINES ? NO_GROUP_RATE : FIX_WORDS[status]) : `${pct(f.fixed / f.complaints)} of ${f.complaints} complaints is ${FIX_WORDS[status]}`;
   return { key, label, funnel: f, firstTimeFix: shareFigure(s, false, "no qualifying complaints", MINIMUM_LINES), status, words, cycle };
 }

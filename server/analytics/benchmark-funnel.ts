@@ -6,7 +6,7 @@ import { funnelLimits } from "./proportion.js";
 import { share } from "./kpis.js";
 import { pct, round3, shareFigure } from "./benchmark-figures.js";
 import type { Band } from "./benchmark-bands.js";
-import type { ShownShop } from "./benchmark-letters.js";
+import type { ShownShop } from "./peer-groups.js";
 import type { ComebackCount } from "./comebacks.js";
 import { MINIMUM_LINES, type ComebackFigure, type Funnel, type FunnelPoint, type FunnelStatus } from "../../shared/schemas/benchmarks.js";
 
@@ -31,6 +31,9 @@ const STATUS_WORDS: Record<FunnelStatus, string> = {
   not_rated: `fewer than ${MINIMUM_LINES} lines: not rated`,
 };
 
+/** Why a shop with enough lines is not rated: there is no group rate to compare with (none given, or 0 or 1). */
+export const NO_GROUP_RATE = "not rated: no group rate to compare with";
+
 /**
  * A comeback rate with its funnel status in words and the Wilson flag (lower limit above the group rate). A peer
  * (given with its volume band) gets its rate and band only; a named shop its count and the limit it crossed.
@@ -40,7 +43,7 @@ export function comebackFigure(c: ComebackCount, p0: number | null, peerBand: Ba
   const s = share(c.withComeback, c.lines);
   const base = shareFigure(s, peer, "no qualifying repair lines", MINIMUM_LINES);
   const status = funnelStatus(c.withComeback, c.lines, p0);
-  let words = STATUS_WORDS[status];
+  let words = status === "not_rated" && c.lines >= MINIMUM_LINES ? NO_GROUP_RATE : STATUS_WORDS[status];
   if (status !== "not_rated" && p0 !== null) {
     const l = funnelLimits(p0, c.lines);
     const limit = status === "above_998" || status === "below_998" ? l.exact998 : l.exact95;
@@ -77,7 +80,7 @@ export function funnelPoint(shop: ShownShop, c: ComebackCount, band: Band, p0: n
 }
 
 /** The funnel's limits around p0 at 61 volumes from MINIMUM_LINES to a tenth past the widest point (none without a p0 in (0, 1)). */
-export function funnelCurve(p0: number | null, points: readonly FunnelPoint[]): Funnel["limits"] {
+export function funnelCurve(p0: number | null, points: readonly Pick<FunnelPoint, "x" | "band">[]): Funnel["limits"] {
   const maxX = Math.max(MINIMUM_LINES * 2, ...points.map((p) => p.band?.to ?? p.x)) * 1.1;
   const limits: Funnel["limits"] = [];
   if (p0 === null || !(p0 > 0 && p0 < 1)) return limits;

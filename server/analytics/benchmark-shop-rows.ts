@@ -4,7 +4,7 @@ import { kpiFigures, shareFigure } from "./benchmark-figures.js";
 import { comebackFigure } from "./benchmark-funnel.js";
 import type { Band } from "./benchmark-bands.js";
 import type { LedgerCell } from "./benchmark-ledger.js";
-import type { ShownShop } from "./benchmark-letters.js";
+import type { ShownShop } from "./peer-groups.js";
 import { MINIMUM_LINES, type ShopBenchmark, type ShopBenchmarks, type TechnicianRow } from "../../shared/schemas/benchmarks.js";
 
 /** Technicians by id with their comeback rate, flagged when its Wilson lower limit is above the group rate p0. */
@@ -40,7 +40,7 @@ export function shopRow(shop: ShownShop, c: LedgerCell, band: Band, p0: number |
 }
 
 /** The whole group's figures. */
-export function groupRow(g: LedgerCell, anyClaims: boolean): ShopBenchmarks["group"] {
+export function groupRow(g: LedgerCell, anyClaims: boolean): NonNullable<ShopBenchmarks["group"]> {
   return {
     lines: g.lines,
     comeback: shareFigure(share(g.withComeback, g.lines), false, "no qualifying repair lines"),

@@ -19,8 +19,8 @@
  * shops either side of it, each with at least two more shops beyond it, so an outlier never moves it. Differencing
  * does not help either: the spreads are not sums, so subtracting two periods, two comeback windows or two period
  * kinds gives a difference of unlabelled middles, not one shop's figure. The group totals stay exact: they sum
- * every shop, so with seven other shops their difference from the caller's own is a sum of seven (with only one
- * or two other shops that difference would be theirs: such a scope is not protected by this module).
+ * every shop, so with seven other shops their difference from the caller's own is a sum of seven; with only one
+ * or two other shops that difference would be theirs, so then no group figure is given (groupFigureShown below).
  */
 
 import type { PeerGroup, PeerSpread, PeerSummary, ShopBenchmark } from "../../shared/schemas/benchmarks.js";
@@ -98,7 +98,7 @@ export const PEER_RULE =
   `Other shops are never shown one by one. For each figure they are rounded (comeback and back-order rates to half a percent, other shares to whole percent, waits to whole days, volumes to ten lines), sorted and split into at most three groups of at least ${MIN_PEERS} shops; ` +
   `a group is given only by how many shops it holds and where it starts and ends ("3 below 4 %", "4 at 4 % or more"). The lowest and highest figures are never given: ` +
   `an unusual shop only shows as being in the top or bottom group. With fewer than ${2 * MIN_PEERS} other shops there is one group and no figure; with fewer than ${MIN_PEERS}, nothing. ` +
-  `No letter, row or point stands for one shop, so nothing can be followed from one period or filter to the next. The group figures are exact sums over every shop.`;
+  `No letter, row or point stands for one shop, so nothing can be followed from one period or filter to the next. The group figures are exact sums over every shop, given only while at least ${MIN_PEERS} other shops hold data in the period (with fewer, your own shops would be most of the total and the rest could be read off it).`;
 
 /** The figures of the other shops' rows (exact, as a group-wide caller gets them) as spreads. */
 export function peerSummary(rows: readonly ShopBenchmark[]): PeerSummary {
@@ -114,4 +114,37 @@ export function peerSummary(rows: readonly ShopBenchmark[]): PeerSummary {
     coldStartMeasured: peerSpread(rows.map((r) => r.coldStartMeasured.value), 0.01, halfPct),
     warrantyOnTime: peerSpread(rows.map((r) => r.warrantyOnTime.value), 0.01, halfPct),
   };
+}
+
+/** A shop as one caller sees it: by code and name, or as one of the other shops (never sent out one by one). */
+export interface ShownShop {
+  code: string;
+  name: string;
+  /** the shop code; "other" for a shop the caller may not name */
+  key: string;
+  /** "S1 Name"; "Other shop" for a shop the caller may not name */
+  label: string;
+  peer: boolean;
+}
+
+/** Shops in the order a caller sees them: the shops in scope by code, then the others. */
+export function shownShops(shops: readonly { code: string; name: string; inScope: boolean }[]): ShownShop[] {
+  const shown = shops.map((s): ShownShop => (s.inScope ? { code: s.code, name: s.name, key: s.code, label: `${s.code} ${s.name}`, peer: false } : { code: s.code, name: s.name, key: "other", label: "Other shop", peer: true }));
+  return shown.sort((a, b) => (a.peer !== b.peer ? (a.peer ? 1 : -1) : a.code < b.code ? -1 : 1));
+}
+
+/** What a caller reads where a group figure is withheld. */
+export const GROUP_HIDDEN = "The group figure is hidden: fewer than three other shops to compare with.";
+
+/**
+ * Whether a caller may see the group's totals and rates (and what is drawn from them: the group rate, the funnel
+ * limits around it, the group's series). A group total sums the caller's own shops and the others, so a caller
+ * limited to some shops can subtract its own and read the rest: with one or two other shops holding data, the
+ * rest is one shop's figure, or two shops' of which the caller may know one. The group figure is therefore given
+ * to a group-wide caller always, and to a caller limited to some shops only when at least MIN_PEERS other shops
+ * hold data in the period (the threshold rule of statistical disclosure control; Hundepool et al., Statistical
+ * Disclosure Control, Wiley 2012; k = 3 from memory).
+ */
+export function groupFigureShown(groupWide: boolean, otherShopsWithData: number): boolean {
+  return groupWide || otherShopsWithData >= MIN_PEERS;
 }

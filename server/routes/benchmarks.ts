@@ -19,10 +19,9 @@ import { benchmarkLinesCsv } from "../services/benchmarks/details.js";
 
 const BENCHMARK_ROLES = ["director", "analyst", "manager", "admin"] as const;
 
-/** `peerSecret` keys the letters that stand for the shops a caller may not name. */
-export function benchmarkRoutes(db: Db, peerSecret: string): Router {
+export function benchmarkRoutes(db: Db): Router {
   const router = Router();
-  const benchmarks = benchmarkService(db, peerSecret);
+  const benchmarks = benchmarkService(db);
   router.use(allow(...BENCHMARK_ROLES));
 
   // answers change with the data, the day (claims fall due) and the claims filed: all three are in the key

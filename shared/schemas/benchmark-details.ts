@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { benchmarkQuerySchema, funnelStatusSchema, periodSchema, settingsSchema, shareFigureSchema } from "./benchmarks.js";
+import { benchmarkQuerySchema, funnelLimitsSchema, funnelStatusSchema, groupHiddenSchema, periodSchema, settingsSchema, shareFigureSchema } from "./benchmarks.js";
 
 /** The KPIs of the shop table whose lines can be opened (the comeback pairs have their own route). */
 export const lineKpiSchema = z.enum(["efficiency", "partsWait", "backOrder", "coldStart", "claims"], {
@@ -131,10 +131,11 @@ export type WaitStretch = z.infer<typeof waitStretchSchema>;
 /** GET /api/benchmarks/waits */
 export const waitsSchema = z.object({
   period: periodSchema,
-  /** the group and the shops the caller may name, over the period */
-  group: waitDistributionSchema,
+  /** the group (null when hidden from this caller) and the shops the caller may name, over the period */
+  group: waitDistributionSchema.nullable(),
+  groupHidden: groupHiddenSchema,
   shops: z.array(waitDistributionSchema),
-  /** the group by month of order over every month of data */
+  /** the group by month of order over every month of data (empty when the group is hidden) */
   months: z.array(waitMonthSchema),
   /** the group's share over 14 days across every month of data */
   baselineOver14: z.number().nullable(),
@@ -143,16 +144,28 @@ export const waitsSchema = z.object({
 });
 export type Waits = z.infer<typeof waitsSchema>;
 
+/**
+ * A distribution-free 95 % interval for a median: the order statistics at ranks k and n − k + 1 and their
+ * binomial coverage (server/analytics/benchmark-median-interval.ts); null below six values.
+ */
+export const medianLimitsSchema = z.object({ from: z.number(), to: z.number(), coverage: z.number() }).nullable();
+export type MedianLimits = z.infer<typeof medianLimitsSchema>;
+
 export const cycleFigureSchema = z.object({
   /** repair orders closed in the period */
   orders: z.number(),
   /** calendar days from open to close */
   median: z.number().nullable(),
+  medianLimits: medianLimitsSchema,
   p90: z.number().nullable(),
   /** Σ days waiting for parts ÷ Σ cycle days */
   waitingShare: z.number().nullable(),
   ordersWaiting: z.number(),
+  /** median cycle of the orders that waited for parts */
   medianWaiting: z.number().nullable(),
+  /** days waiting for parts of the orders that waited: median and its interval */
+  waitingDaysMedian: z.number().nullable(),
+  waitingDaysLimits: medianLimitsSchema,
 });
 export type CycleFigure = z.infer<typeof cycleFigureSchema>;
 
@@ -172,7 +185,12 @@ export type FixRow = z.infer<typeof fixRowSchema>;
 export const fixCycleSchema = z.object({
   period: periodSchema,
   settings: settingsSchema,
-  group: fixRowSchema,
+  /** null when hidden from this caller */
+  group: fixRowSchema.nullable(),
+  groupHidden: groupHiddenSchema,
+  /** the group's first-time-fix rate and the funnel limits around it (none when hidden) */
+  groupRate: z.number().nullable(),
+  limits: funnelLimitsSchema,
   shops: z.array(fixRowSchema.extend({ technicians: z.array(fixRowSchema) })),
   method: z.string(),
 });

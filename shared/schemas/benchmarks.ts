@@ -59,6 +59,12 @@ export type Period = z.infer<typeof periodSchema>;
 
 export const settingsSchema = z.object({ days: z.number(), hours: z.number() });
 
+/**
+ * Why the group's totals and rates are withheld from this caller, in words; null when they are shown. A caller
+ * limited to some shops gets no group figure while fewer than three other shops hold data (analytics/peer-groups.ts).
+ */
+export const groupHiddenSchema = z.string().nullable();
+
 /** A share with its 95 % Wilson interval. For an anonymised peer the counts and the interval are withheld. */
 export const shareFigureSchema = z.object({
   value: z.number().nullable(),
@@ -196,15 +202,19 @@ export const shopBenchmarksSchema = z.object({
   settings: settingsSchema,
   viewer: z.object({ groupWide: z.boolean(), ownShops: z.array(z.string()) }),
   formulas: formulasSchema,
-  group: z.object({
-    lines: z.number(),
-    comeback: shareFigureSchema,
-    efficiency: efficiencyFigureSchema,
-    partsWait: waitFigureSchema,
-    backOrder: shareFigureSchema,
-    coldStartMeasured: shareFigureSchema,
-    warrantyOnTime: shareFigureSchema,
-  }),
+  /** null when hidden from this caller (groupHidden says why) */
+  group: z
+    .object({
+      lines: z.number(),
+      comeback: shareFigureSchema,
+      efficiency: efficiencyFigureSchema,
+      partsWait: waitFigureSchema,
+      backOrder: shareFigureSchema,
+      coldStartMeasured: shareFigureSchema,
+      warrantyOnTime: shareFigureSchema,
+    })
+    .nullable(),
+  groupHidden: groupHiddenSchema,
   /** the shops the caller may name (every shop for a group-wide caller) */
   shops: z.array(shopBenchmarkSchema),
   /** the other shops as groups of at least three, figure by figure; null for a group-wide caller */
@@ -213,6 +223,10 @@ export const shopBenchmarksSchema = z.object({
   visits: z.array(visitSchema),
 });
 export type ShopBenchmarks = z.infer<typeof shopBenchmarksSchema>;
+
+/** Funnel limits around the group rate at a range of volumes (none without a group rate). */
+export const funnelLimitsSchema = z.array(z.object({ n: z.number(), lower95: z.number(), upper95: z.number(), lower998: z.number(), upper998: z.number() }));
+export type FunnelLimits = z.infer<typeof funnelLimitsSchema>;
 
 export const funnelPointSchema = z.object({
   key: z.string(),
@@ -236,8 +250,9 @@ export const funnelSchema = z.object({
   period: periodSchema,
   settings: settingsSchema,
   groupRate: z.number().nullable(),
-  groupLines: z.number(),
-  limits: z.array(z.object({ n: z.number(), lower95: z.number(), upper95: z.number(), lower998: z.number(), upper998: z.number() })),
+  groupLines: z.number().nullable(),
+  groupHidden: groupHiddenSchema,
+  limits: funnelLimitsSchema,
   points: z.array(funnelPointSchema),
   /** shops below 30 lines, not plotted */
   notRated: z.array(z.string()),
@@ -260,7 +275,9 @@ export const trendSchema = z.object({
   period: periodSchema,
   settings: settingsSchema,
   months: z.array(z.string()),
+  /** empty when hidden from this caller */
   group: z.array(trendPointSchema),
+  groupHidden: groupHiddenSchema,
   series: z.array(z.object({ key: z.string(), label: z.string(), peer: z.boolean(), points: z.array(trendPointSchema) })),
   method: z.string(),
 });

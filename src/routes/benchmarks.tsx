@@ -3,7 +3,9 @@ import { ChartCard } from "@/components/chart-card";
 import { QueryView } from "@/features/filters/components/query-view";
 import { palette } from "@/lib/palette";
 import { benchmarkQueries } from "@/features/benchmarks/api/benchmark-queries";
-import { funnelChart, trendChart } from "@/features/benchmarks/charts/benchmark-charts";
+import { comebackFunnel, trendChart } from "@/features/benchmarks/charts/benchmark-charts";
+import { FunnelCard } from "@/features/benchmarks/components/funnel-card";
+import { useBenchmarkFormat } from "@/features/benchmarks/hooks/use-benchmark-format";
 import { ComebackPairsPanel } from "@/features/benchmarks/components/comeback-pairs";
 import { KpiTable } from "@/features/benchmarks/components/kpi-table";
 import { PeriodControls } from "@/features/benchmarks/components/period-controls";
@@ -14,7 +16,6 @@ import type { LineKpi } from "@shared/schemas/benchmark-details";
 import { OwnShopSummary, VisitList } from "@/features/benchmarks/components/visit-list";
 import { readBenchmarkParams, useBenchmarkParams } from "@/features/benchmarks/hooks/use-benchmark-params";
 import type { PrimeCache } from "@/app/page-loader";
-import { pct } from "@/features/benchmarks/format";
 import type { Funnel } from "@shared/schemas/benchmarks";
 
 function FunnelWords({ d }: { d: Funnel }) {
@@ -59,6 +60,8 @@ export function Component() {
     requestAnimationFrame(() => document.getElementById("comeback-pairs")?.scrollIntoView({ behavior: "smooth", block: "start" }));
   };
   const drillShop = shops.data?.shops.find((s) => s.shopCode === drill && s.drillDown);
+  const fm = useBenchmarkFormat();
+  const rate1 = (v: unknown) => (typeof v === "number" ? fm.pct(v / 100) : "–");
 
   return (
     <div className="space-y-4">
@@ -100,19 +103,16 @@ export function Component() {
       <div className="grid gap-4 xl:grid-cols-2">
         <QueryView query={funnel} label="the funnel" lines={6}>
           {(f) => (
-            <ChartCard
+            <FunnelCard
+              chart={comebackFunnel(f, fm.count)}
               title="Funnel: comeback rate against volume"
-              subtitle={`${f.period.label} · group rate ${pct(f.groupRate)} · shaded: 95 % and 99.8 % limits`}
-              options={funnelChart(f, palette)}
-              rows={f.points.map((p) => ({ label: p.label, volume: p.lines ?? p.volumeBand, rate: p.rate * 100, status: p.words }))}
-              columns={[
-                { key: "label", label: "Shop" },
-                { key: "volume", label: "Lines" },
-                { key: "rate", label: "Comeback rate %", percent: true, format: (v) => (typeof v === "number" ? v.toFixed(1) : String(v)) },
-                { key: "status", label: "Against the funnel" },
-              ]}
+              subtitle={`${f.period.label} · group rate ${fm.pct(f.groupRate)} · shaded: 95 % and 99.8 % limits`}
+              pointLabel="Shop"
+              volumeLabel="Lines"
+              rateLabel="Comeback rate"
               filename={`funnel-${f.period.key}.csv`}
               footer={<FunnelWords d={f} />}
+              hidden={f.groupHidden}
             />
           )}
         </QueryView>
@@ -120,17 +120,17 @@ export function Component() {
           {(t) => (
             <ChartCard
               title="Trend by month"
-              subtitle="Comeback rate over the 12 months ending with each month; dashed: the group"
-              options={trendChart(t, palette)}
+              subtitle={t.groupHidden ? `Comeback rate over the 12 months ending with each month. ${t.groupHidden}` : "Comeback rate over the 12 months ending with each month; dashed: the group"}
+              options={trendChart(t, palette, fm.pct)}
               rows={t.series.flatMap((s) =>
                 s.points.map((p) => ({ label: s.label, month: p.month, rolling: p.rolling.value === null ? null : p.rolling.value * 100, monthLines: p.monthLines, monthRate: p.monthRate === null ? null : p.monthRate * 100 })),
               )}
               columns={[
                 { key: "label", label: "Shop" },
                 { key: "month", label: "Month" },
-                { key: "rolling", label: "12-month rate %", percent: true, format: (v) => (typeof v === "number" ? v.toFixed(1) : "–") },
-                { key: "monthLines", label: "Lines in the month", format: (v) => (v === null || v === undefined ? "–" : String(v)) },
-                { key: "monthRate", label: "Month's own rate % (30+ lines)", percent: true, csvLabel: "Month's own rate, 30+ lines (fraction)", format: (v) => (typeof v === "number" ? v.toFixed(1) : "–") },
+                { key: "rolling", label: "12-month rate %", percent: true, format: rate1 },
+                { key: "monthLines", label: "Lines in the month", csvLabel: "Lines in the month (count)", format: (v) => (typeof v === "number" ? fm.count(v) : "–") },
+                { key: "monthRate", label: "Month's own rate % (30+ lines)", percent: true, csvLabel: "Month's own rate, 30+ lines (fraction)", format: rate1 },
               ]}
               filename={`trend-${t.period.key}.csv`}
               footer={t.method}

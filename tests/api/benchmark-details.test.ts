@@ -121,7 +121,7 @@ describe("GET /api/benchmarks/waits", () => {
     const body = waitsSchema.parse(await get(apiPaths.benchmarks("waits"), director));
     const table = await shopsFor();
     expect(body.shops.map((s) => s.key)).toEqual(demoShops.map((s) => s.code).sort());
-    for (const d of [body.group, ...body.shops]) {
+    for (const d of [body.group!, ...body.shops]) {
       expect(d.bands.reduce((s, b) => s + b.share, 0)).toBeCloseTo(1, 12);
       expect(d.bands.reduce((s, b) => s + b.lines, 0)).toBe(d.n);
       const over7 = d.over.find((o) => o.days === 7)!.figure;
@@ -165,8 +165,8 @@ describe("GET /api/benchmarks/fix-cycle", () => {
   it("counts the comeback rate's qualifying lines as complaints, narrows them through the funnel and rates them with Wilson intervals", async () => {
     const body = fixCycleSchema.parse(await get(apiPaths.benchmarks("fix-cycle", { period: "all" }), director));
     const table = await shopsFor({ period: "all" });
-    expect(body.group.funnel.complaints).toBe(table.group.lines);
-    expect(body.shops.reduce((s, r) => s + r.funnel.complaints, 0)).toBe(body.group.funnel.complaints);
+    expect(body.group!.funnel.complaints).toBe(table.group!.lines);
+    expect(body.shops.reduce((s, r) => s + r.funnel.complaints, 0)).toBe(body.group!.funnel.complaints);
     for (const r of body.shops) {
       const row = table.shops.find((s) => s.shopCode === r.key)!;
       expect(r.funnel.complaints).toBe(row.comeback.n);
@@ -188,9 +188,9 @@ describe("GET /api/benchmarks/fix-cycle", () => {
   it("gives cycle times of which a larger share is spent waiting for parts in the back-order winter", async () => {
     const winter = fixCycleSchema.parse(await get(apiPaths.benchmarks("fix-cycle", { period: "quarter", at: "2023-01" }), director));
     const other = fixCycleSchema.parse(await get(apiPaths.benchmarks("fix-cycle", { period: "quarter", at: "2024-01" }), director));
-    expect(winter.group.cycle.orders).toBeGreaterThan(100);
-    expect(winter.group.cycle.orders).toBe(winter.shops.reduce((s, r) => s + r.cycle.orders, 0));
-    expect(winter.group.cycle.waitingShare!).toBeGreaterThan(other.group.cycle.waitingShare! + 0.1);
+    expect(winter.group!.cycle.orders).toBeGreaterThan(100);
+    expect(winter.group!.cycle.orders).toBe(winter.shops.reduce((s, r) => s + r.cycle.orders, 0));
+    expect(winter.group!.cycle.waitingShare!).toBeGreaterThan(other.group!.cycle.waitingShare! + 0.1);
   });
 
   it("shows a shop manager their own shop and technicians only", async () => {

@@ -70,24 +70,24 @@ describe("GET /api/benchmarks/shops on the demo world", () => {
     // data end 2025-06-30; lines closed in June 2025 have until July to come back
     const body = await shopsFor(director, { period: "month", at: "2025-06" });
     expect(body.period.complete).toBe(false);
-    expect(body.group.lines).toBe(0);
+    expect(body.group!.lines).toBe(0);
     expect(body.shops.every((s) => s.comeback.funnel === "not_rated")).toBe(true);
   });
 
   it("widens the window with the settings: a 60-day window finds at least as many comebacks", async () => {
     const d30 = await shopsFor(director, { period: "year", at: "2024-12" });
     const d60 = await shopsFor(director, { period: "year", at: "2024-12", days: 60, hours: 200 });
-    expect(d60.group.comeback.successes!).toBeGreaterThanOrEqual(d30.group.comeback.successes!);
+    expect(d60.group!.comeback.successes!).toBeGreaterThanOrEqual(d30.group!.comeback.successes!);
     expect(d60.formulas.comebackRate).toMatch(/within 60 days and 200 engine hours/);
   });
 
   it("shows the other KPIs with their formulas, and warranty as no data yet while no claim exists", async () => {
     const body = await shopsFor(director, { period: "all" });
     expect(body.formulas.labourEfficiency).toMatch(/Σ standard .* ÷ Σ actual/);
-    expect(body.group.efficiency.value!).toBeGreaterThan(0.5);
-    expect(body.group.partsWait.median).not.toBeNull();
-    expect(body.group.coldStartMeasured.n!).toBeGreaterThan(0);
-    expect(body.group.warrantyOnTime).toMatchObject({ value: null, note: expect.stringMatching(/^no data yet/) });
+    expect(body.group!.efficiency.value!).toBeGreaterThan(0.5);
+    expect(body.group!.partsWait.median).not.toBeNull();
+    expect(body.group!.coldStartMeasured.n!).toBeGreaterThan(0);
+    expect(body.group!.warrantyOnTime).toMatchObject({ value: null, note: expect.stringMatching(/^no data yet/) });
   });
 
   it("shows the back-order winter: K26 heater-plug parts waited weeks in winter 2022–23", async () => {
@@ -95,7 +95,7 @@ describe("GET /api/benchmarks/shops on the demo world", () => {
     // lines, so only the tail moves: the group's 90th percentile that winter is far above other winters'.
     const winter = await shopsFor(director, { period: "quarter", at: "2023-01" });
     const other = await shopsFor(director, { period: "quarter", at: "2024-01" });
-    expect(winter.group.partsWait.p90!).toBeGreaterThan(3 * other.group.partsWait.p90!);
+    expect(winter.group!.partsWait.p90!).toBeGreaterThan(3 * other.group!.partsWait.p90!);
   });
 
   it("answers 400 with the problem in words for a window outside 7–90 days", async () => {

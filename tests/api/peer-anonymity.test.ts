@@ -3,8 +3,10 @@ import request from "supertest";
 import { testApp, type TestApp } from "../helpers/test-app.js";
 import { apiPaths } from "../../shared/api-paths.js";
 import { addMonthsToMonth } from "../../shared/dates.js";
-import { roundTo } from "../../server/analytics/peer-groups.js";
-import { shopBenchmarksSchema, type PeerSpread, type PeerSummary, type ShopBenchmark, type ShopBenchmarks } from "../../shared/schemas/benchmarks.js";
+import { parse as parseCsv } from "csv-parse/sync";
+import { GROUP_HIDDEN, roundTo } from "../../server/analytics/peer-groups.js";
+import { funnelSchema, shopBenchmarksSchema, trendSchema, type PeerSpread, type PeerSummary, type ShopBenchmark, type ShopBenchmarks } from "../../shared/schemas/benchmarks.js";
+import { fixCycleSchema, waitsSchema } from "../../shared/schemas/benchmark-details.js";
 
 // A re-identification attempt on the demo world. A shop manager (S1) collects everything the benchmarks API
 // answers about other shops for twelve consecutive months, and tries to follow one shop through them: the
@@ -26,6 +28,9 @@ import { shopBenchmarksSchema, type PeerSpread, type PeerSummary, type ShopBench
 let t: TestApp;
 let director: string;
 let manager: string;
+/** a manager of six of the eight demo shops: the group total less their own is the sum of two shops */
+let managerOfSix: string;
+const SIX = ["S1", "S2", "S3", "S4", "S5", "S6"];
 
 const OWN = "S1";
 const FIRST = "2022-09";
@@ -35,6 +40,7 @@ beforeAll(async () => {
   t = await testApp({ demo: true });
   director = await t.signInAs({ roles: ["director"] });
   manager = await t.signInAs({ roles: ["manager"], shops: [OWN] });
+  managerOfSix = await t.signInAs({ roles: ["manager"], shops: SIX });
 }, 600_000);
 afterAll(async () => {
   await t?.drop();
@@ -178,5 +184,101 @@ describe("re-identifying another shop from a manager's benchmarks, over twelve m
       expect(shown, at).not.toContain(Math.round(top.partsWait.p90!));
       expect(shown.every((x) => x <= Math.round(top.partsWait.p90!)), at).toBe(true);
     }
+  });
+});
+
+// A total over every shop less the caller's own is the other shops' sum; with only two other shops that is
+// close to reading one of them. The threshold rule of statistical disclosure control (Hundepool et al.,
+// Statistical Disclosure Control, Wiley 2012; k = 3 from memory) withholds such a total: the manager of six of
+// the eight shops gets no group figure from any benchmarks answer, where the director (and a manager of one
+// shop, with seven others) gets it.
+describe("the group figure for a manager with fewer than three other shops", () => {
+  const q = { period: "rolling12" };
+  const answers = async (cookie: string) => ({
+    shops: shopBenchmarksSchema.parse(await get(apiPaths.benchmarks("shops", q), cookie)),
+    funnel: funnelSchema.parse(await get(apiPaths.benchmarks("funnel", q), cookie)),
+    trend: trendSchema.parse(await get(apiPaths.benchmarks("trend", q), cookie)),
+    waits: waitsSchema.parse(await get(apiPaths.benchmarks("waits", q), cookie)),
+    fixCycle: fixCycleSchema.parse(await get(apiPaths.benchmarks("fix-cycle", q), cookie)),
+  });
+  let dir: Awaited<ReturnType<typeof answers>>;
+  let six: Awaited<ReturnType<typeof answers>>;
+  let one: Awaited<ReturnType<typeof answers>>;
+  beforeAll(async () => {
+    dir = await answers(director);
+    six = await answers(managerOfSix);
+    one = await answers(manager);
+  }, 600_000);
+
+  it("gives the director every group figure (the control)", () => {
+    expect(dir.shops.group).not.toBeNull();
+    expect(dir.shops.groupHidden).toBeNull();
+    expect(dir.funnel.groupRate).not.toBeNull();
+    expect(dir.funnel.limits.length).toBeGreaterThan(0);
+    expect(dir.trend.group.length).toBeGreaterThan(0);
+    expect(dir.waits.group).not.toBeNull();
+    expect(dir.waits.months.length).toBeGreaterThan(0);
+    expect(dir.fixCycle.group).not.toBeNull();
+    expect(dir.fixCycle.groupRate).not.toBeNull();
+    expect(dir.fixCycle.limits.length).toBeGreaterThan(0);
+  });
+
+  it("still gives it to a manager of one shop, who has seven others", () => {
+    expect(one.shops.group).toEqual(dir.shops.group);
+    expect(one.funnel.groupRate).toBe(dir.funnel.groupRate);
+    expect(one.fixCycle.groupRate).toBe(dir.fixCycle.groupRate);
+  });
+
+  it("gives the manager of six shops no group total, rate, limit or series, and says why in words", () => {
+    expect(six.shops.shops.map((s) => s.shopCode)).toEqual(SIX);
+    expect(six.shops.group).toBeNull();
+    expect(six.funnel).toMatchObject({ groupRate: null, groupLines: null, limits: [], points: [] });
+    expect(six.trend.group).toEqual([]);
+    expect(six.trend.series.map((x) => x.key)).toEqual(SIX);
+    expect(six.waits).toMatchObject({ group: null, months: [], stretches: [], baselineOver14: null });
+    expect(six.fixCycle).toMatchObject({ group: null, groupRate: null, limits: [] });
+    for (const body of [six.shops, six.funnel, six.trend, six.waits, six.fixCycle]) expect(body.groupHidden).toBe(GROUP_HIDDEN);
+    expect(GROUP_HIDDEN).toBe("The group figure is hidden: fewer than three other shops to compare with.");
+    // nothing is placed against the group rate either: the limits around it would give it away
+    for (const s of six.shops.shops) {
+      expect(s.comeback.funnel).toBe("not_rated");
+      expect(s.comeback.aboveGroup).toBe(false);
+      expect(s.technicians!.every((x) => !x.aboveGroup)).toBe(true);
+    }
+    for (const s of six.fixCycle.shops) expect([s.status, ...s.technicians.map((x) => x.status)].every((x) => x === "not_rated")).toBe(true);
+    // the shop figures themselves are the director's
+    for (const s of six.shops.shops) expect(s.lines).toBe(dir.shops.shops.find((x) => x.shopCode === s.shopCode)!.lines);
+  });
+
+  it("holds no number from which the two other shops' sums can be read, in any answer or CSV", async () => {
+    const g = dir.shops.group!;
+    const others = dir.shops.shops.filter((s) => !SIX.includes(s.shopCode!));
+    expect(others).toHaveLength(2);
+    const sum = (f: (s: ShopBenchmark) => number | null) => others.reduce((a, s) => a + (f(s) ?? 0), 0);
+    const fixGroup = dir.fixCycle.group!;
+    const fixOthers = dir.fixCycle.shops.filter((s) => !SIX.includes(s.key));
+    const secret = [
+      g.lines, g.comeback.successes!, g.comeback.value!, sum((s) => s.lines), sum((s) => s.comeback.successes),
+      fixGroup.funnel.complaints, fixGroup.funnel.fixed, fixGroup.firstTimeFix.value!, dir.waits.group!.n,
+      fixOthers.reduce((a, s) => a + s.funnel.complaints, 0), fixOthers.reduce((a, s) => a + s.funnel.fixed, 0),
+    ];
+    const numbers = new Set<number>();
+    const walk = (x: unknown) => {
+      if (typeof x === "number") numbers.add(x);
+      else if (Array.isArray(x)) x.forEach(walk);
+      else if (x && typeof x === "object") Object.values(x).forEach(walk);
+    };
+    walk(six);
+    // the lines behind each KPI, as CSV, of a shop of the manager's: their own lines only
+    for (const kpi of ["efficiency", "partsWait", "backOrder", "coldStart", "claims"]) {
+      const res = await request(t.app).get(apiPaths.benchmarks("lines.csv", { ...q, kpi, shop: "S1" })).set("Cookie", managerOfSix).expect(200);
+      const rows = parseCsv(res.text, { columns: true }) as Record<string, string>[];
+      expect(new Set(rows.map((r) => r.shop)), kpi).toEqual(rows.length ? new Set(["S1"]) : new Set());
+      for (const r of rows) for (const v of Object.values(r)) if (v !== "" && Number.isFinite(Number(v))) numbers.add(Number(v));
+    }
+    // small counts meet by chance (a technician's 23 lines); the check is on the figures that identify a sum
+    const telling = secret.filter((x) => !Number.isInteger(x) || x >= 100);
+    expect(telling.length).toBeGreaterThanOrEqual(8);
+    expect(telling.filter((x) => numbers.has(x))).toEqual([]);
   });
 });

@@ -32,7 +32,7 @@ interface Layout {
 
 /** createApp over a database, as tests/helpers/test-app.ts makes it over a fresh one. */
 function layoutOver({ db, pool }: { db: Db; pool: pg.Pool }): Layout {
-  const app = appOver({ db, pool }, { benchmarkPeerSecret: "fdw-layout-peers" });
+  const app = appOver({ db, pool });
   return {
     db,
     pool,

@@ -54,7 +54,14 @@ describe("a shop manager and the other shops, in Chromium", () => {
     expect(kpis).toContain("Other shops (7)");
     const funnel = await csvOf(page.getByRole("region", { name: "Funnel: comeback rate against volume" }).getByRole("button", { name: "CSV" }));
     const trend = await csvOf(page.getByRole("region", { name: "Trend by month" }).getByRole("button", { name: "CSV" }));
-    for (const [name, csv] of [["kpis", kpis], ["funnel", funnel], ["trend", trend]] as const) {
+    const fixFunnelCsv = await csvOf(page.getByRole("region", { name: "Funnel: first-time fix against complaints" }).getByRole("button", { name: "CSV" }));
+    const fixTable = page.getByRole("region", { name: "First-time fix and cycle time" });
+    const fixCsv = await csvOf(fixTable.getByRole("button", { name: "CSV" }));
+    // seven other shops: the group figure is shown, and the CSV's rows are the group, S5 and S5's technicians
+    expect(fixCsv.split("\n")[1]).toMatch(/^Group,group,/);
+    expect(leaks(fixFunnelCsv)).toEqual([]);
+    expect(leaks(fixCsv)).toEqual([]);
+    for (const [name, csv] of [["kpis", kpis], ["funnel", funnel], ["trend", trend], ["fix funnel", fixFunnelCsv]] as const) {
       expect(leaks(csv), name).toEqual([]);
       // every shop row of the figures is S5's own or the other shops as a group
       const shopsNamed = csv.split("\n").slice(1).filter(Boolean).map((l) => l.split(",")[0]!.replace(/^"|"$/g, ""));
@@ -74,9 +81,14 @@ describe("a shop manager and the other shops, in Chromium", () => {
       await alert.getByRole("heading", { name: "Not one of your pages" }).waitFor();
       await alert.getByText(`You do not have access to ${subject}.`).waitFor();
       const yours = alert.getByRole("navigation", { name: "Your pages" });
-      expect(await yours.getByRole("link").allTextContents()).toEqual(["Overview", "Clusters", "Rates", "Repairs", "Benchmarks", "Claims", "Imports"]);
+      const offered = await yours.getByRole("link").allTextContents();
+      // the pages offered are the manager's own menu: the shop pages, never the analyst's or the admin's
+      expect(offered).toEqual(expect.arrayContaining(["Overview", "Clusters", "Rates", "Repairs", "Benchmarks", "Claims", "Imports"]));
+      expect(offered.filter((l) => /^(Life|Users|Shops|Settings|Admin)/.test(l))).toEqual([]);
       expect(await page.getByRole("button", { name: /retry|reload/i }).count()).toBe(0);
-      await page.getByRole("navigation", { name: "Main" }).waitFor();
+      const main = page.getByRole("navigation", { name: "Main" });
+      await main.waitFor();
+      for (const l of offered) expect(await main.getByRole("link", { name: l, exact: true }).count(), l).toBe(1);
       await photograph(env.browser, shot, yours);
       await yours.getByRole("link", { name: "Benchmarks" }).click();
       await page.getByRole("heading", { name: "Shop benchmarks", level: 1 }).waitFor();

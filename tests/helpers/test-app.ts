@@ -17,7 +17,7 @@ export interface TestApp extends TestDb {
 /** createApp over a database as the API tests make it: stored sessions, an OIDC issuer never contacted. */
 export function appOver(
   d: { db: Db; pool: TestDb["pool"] },
-  extra: Partial<Pick<Parameters<typeof createApp>[0], "benchmarkPeerSecret" | "imports" | "storage">> = {},
+  extra: Partial<Pick<Parameters<typeof createApp>[0], "imports" | "storage">> = {},
 ): ReturnType<typeof createApp> {
   const issuer = "http://127.0.0.1:9"; // never contacted by API tests
   return createApp({

@@ -11,6 +11,8 @@ import { partsWait } from "../../analytics/kpis.js";
 import { windowElapsed, type ComebackSettings } from "../../analytics/comebacks.js";
 import { histogram, waitDistribution, waitMonths, waitStretches } from "../../analytics/benchmark-waits.js";
 import { cycleFigure, fixFunnel, fixRow, roCycles, type CycleLine } from "../../analytics/benchmark-fix.js";
+import { funnelCurve } from "../../analytics/benchmark-funnel.js";
+import { GROUP_HIDDEN } from "../../analytics/peer-groups.js";
 import type { View } from "./view.js";
 import { csvCell } from "../../../shared/csv-cell.js";
 import { monthEnd, monthsBetween, addMonthsToMonth, todayIso } from "../../../shared/dates.js";
@@ -133,14 +135,15 @@ export async function waits(db: Db, v: View): Promise<Waits> {
   const first = orderMonths[0] ?? p.lastMonth;
   const months = Array.from({ length: Math.max(1, monthsBetween(first, p.lastMonth) + 1) }, (_, i) => addMonthsToMonth(first, i));
   const trendRows = rows.filter((r) => r.orderMonth <= p.lastMonth);
-  const m = waitMonths(trendRows, months);
+  const m = waitMonths(v.groupShown ? trendRows : [], v.groupShown ? months : []);
   return {
     period: p,
-    group: waitDistribution("group", "Group", histogram(periodRows)),
+    group: v.groupShown ? waitDistribution("group", "Group", histogram(periodRows)) : null,
+    groupHidden: v.groupShown ? null : GROUP_HIDDEN,
     shops: named.map((s) => waitDistribution(s.code, `${s.code} ${s.name}`, histogram(periodRows.filter((r) => r.shop === s.code)))),
     months: m.months,
     baselineOver14: m.baseline,
-    stretches: waitStretches(m.months, trendRows, m.baseline),
+    stretches: v.groupShown ? waitStretches(m.months, trendRows, m.baseline) : [],
     method: WAITS_METHOD,
   };
 }
@@ -149,7 +152,8 @@ export const FIX_METHOD =
   "First-time fix = complaints fixed in one visit, with no comeback and no return for parts ÷ complaints. A complaint is a qualifying repair line " +
   "(the comeback rate's: a failure line, not itself a comeback, whose comeback window has passed); it needed a return for parts when its part was " +
   "back-ordered or its RO holds a return-for-parts line. 95 % Wilson interval; funnel limits around the group rate (exact binomial, Spiegelhalter 2005); " +
-  "not rated below 30 complaints. Cycle time = calendar days from an RO's opening to its last line's close, median and 90th percentile; waiting for parts = " +
+  "not rated below 30 complaints. Cycle time = calendar days from an RO's opening to its last line's close, median and 90th percentile; each median carries a " +
+  "distribution-free 95 % interval from the order statistics (ranks k and n − k + 1, binomial coverage; Conover 1999, §3.2; none below 6 ROs). Waiting for parts = " +
   "the days between a part's order and receipt within the RO (overlaps counted once), as a share of all cycle days. ROs by the close of their last line in the period; " +
   "an RO counts for the technician of its first line.";
 
@@ -162,7 +166,7 @@ export async function fixCycle(db: Db, v: View, scopeArg: Parameters<typeof cycl
     .filter((o) => months.has(o.line.closed!.slice(0, 7)) && o.line.closed! <= p.countedThrough && windowElapsed(o.line, s.asOf, settings))
     .map((o) => ({ shop: o.line.shop, technician: o.line.technician, returnedForParts: returned.has(o.line.id), cameBack: o.comebacks.length > 0 }));
   const groupFunnel = fixFunnel(complaints);
-  const p0 = groupFunnel.complaints > 0 ? groupFunnel.fixed / groupFunnel.complaints : null;
+  const p0 = v.groupShown && groupFunnel.complaints > 0 ? groupFunnel.fixed / groupFunnel.complaints : null;
   const cyclesOf = (rows: readonly CycleLine[]) => cycleFigure(roCycles(rows));
   const shops = s.shops
     .filter((x) => x.inScope)
@@ -180,7 +184,10 @@ export async function fixCycle(db: Db, v: View, scopeArg: Parameters<typeof cycl
   return {
     period: p,
     settings,
-    group: fixRow("group", "Group", groupFunnel, null, cyclesOf(cycleRows)),
+    group: v.groupShown ? fixRow("group", "Group", groupFunnel, null, cyclesOf(cycleRows)) : null,
+    groupHidden: v.groupShown ? null : GROUP_HIDDEN,
+    groupRate: p0,
+    limits: funnelCurve(p0, shops.map((s) => ({ x: s.funnel.complaints, band: null }))),
     shops,
     method: FIX_METHOD,
   };

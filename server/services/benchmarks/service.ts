@@ -15,7 +15,7 @@ import { funnelCurve, funnelPoint } from "../../analytics/benchmark-funnel.js";
 import { groupRow, shopRow } from "../../analytics/benchmark-shop-rows.js";
 import { trendPoints } from "../../analytics/benchmark-trend.js";
 import { visits } from "../../analytics/benchmark-visits.js";
-import { peerSummary } from "../../analytics/peer-groups.js";
+import { GROUP_HIDDEN, peerSummary } from "../../analytics/peer-groups.js";
 import { loadWorld, type World } from "./world.js";
 import { loadView, scopeKey, type View } from "./view.js";
 import { comebackRule, FUNNEL_METHOD, formulas, TREND_METHOD } from "./texts.js";
@@ -46,14 +46,13 @@ export interface BenchmarkService {
   fixCycle(scope: ShopScope, q: BenchmarkQuery): Promise<FixCycle>;
 }
 
-/** `peerSecret` keys the peer letters. */
-export function benchmarkService(db: Db, peerSecret: string): BenchmarkService {
+export function benchmarkService(db: Db): BenchmarkService {
   const worlds = new ResultCache<World>(20);
 
   async function view(scope: ShopScope, q: BenchmarkQuery): Promise<View> {
     const settings = { days: q.days, hours: q.hours };
     const world = await worlds.get(`${scopeKey(scope)}|${q.days}|${q.hours}`, await dataVersion(db), () => loadWorld(db, scope, settings));
-    return loadView(db, world, scope, q, peerSecret);
+    return loadView(db, world, scope, q);
   }
   const cellOf = (v: View, code: string) => sumCells(v.world.ledger, [code], v.resolved.months, v.claims);
 
@@ -69,7 +68,8 @@ export function benchmarkService(db: Db, peerSecret: string): BenchmarkService {
         settings: { days: q.days, hours: q.hours },
         viewer: { groupWide: v.groupWide, ownShops: scope.kind === "all" ? [] : [...scope.shops] },
         formulas: formulas(q, period, !v.groupWide),
-        group: groupRow(v.groupCell, v.anyClaims),
+        group: v.groupShown ? groupRow(v.groupCell, v.anyClaims) : null,
+        groupHidden: v.groupShown ? null : GROUP_HIDDEN,
         shops: rows,
         peers: v.groupWide ? null : peerSummary(peerRows),
         visits: visits(rows, v.groupWide),
@@ -80,7 +80,8 @@ export function benchmarkService(db: Db, peerSecret: string): BenchmarkService {
       const v = await view(scope, q);
       const points: FunnelPoint[] = [];
       const notRated: string[] = [];
-      for (const s of v.shops.filter((x) => !x.peer)) {
+      // without a group figure there is no funnel to place a shop on
+      for (const s of v.shops.filter((x) => !x.peer && v.groupShown)) {
         const point = funnelPoint(s, cellOf(v, s.code), v.bands.get(s.code)!, v.p0);
         if (point) points.push(point);
         else notRated.push(s.label);
@@ -89,7 +90,8 @@ export function benchmarkService(db: Db, peerSecret: string): BenchmarkService {
         period: v.resolved.period,
         settings: { days: q.days, hours: q.hours },
         groupRate: v.p0,
-        groupLines: v.groupCell.lines,
+        groupLines: v.groupShown ? v.groupCell.lines : null,
+        groupHidden: v.groupShown ? null : GROUP_HIDDEN,
         limits: funnelCurve(v.p0, points),
         points,
         notRated,
@@ -105,7 +107,8 @@ export function benchmarkService(db: Db, peerSecret: string): BenchmarkService {
         period: v.resolved.period,
         settings: { days: q.days, hours: q.hours },
         months: monthsEnding(last, q.months),
-        group: points(v.world.shops.map((s) => s.code), false),
+        group: v.groupShown ? points(v.world.shops.map((s) => s.code), false) : [],
+        groupHidden: v.groupShown ? null : GROUP_HIDDEN,
         series: v.shops.filter((s) => !s.peer).map((s) => ({ key: s.key, label: s.label, peer: s.peer, points: points([s.code], s.peer) })),
         method: TREND_METHOD,
       };

@@ -57,4 +57,20 @@ describe("roCycles(lines) and cycleFigure(cycles)", () => {
     expect(f).toMatchObject({ orders: 5, median: 3, p90: 7.6, ordersWaiting: 1, medianWaiting: 10 });
     expect(f.waitingShare).toBeCloseTo(0.4, 12);
   });
+
+  it("gives the cycle median and the waiting days' median their distribution-free 95 % intervals", () => {
+    // ten ROs: the published table of median intervals (Conover §3.2; n = 10 → x(2), x(9), 97.9 %)
+    const days = [0, 1, 1, 2, 3, 4, 6, 9, 15, 40];
+    const waiting = [0, 0, 0, 0, 1, 2, 2, 5, 8, 20];
+    const f = cycleFigure(days.map((d, i) => ({ ro: String(i), days: d, waitingDays: waiting[i]! })));
+    expect(f.median).toBe(3.5);
+    expect(f.medianLimits).toMatchObject({ from: 1, to: 15 });
+    expect(f.medianLimits!.coverage).toBeCloseTo(0.979, 3);
+    // six ROs waited (1, 2, 2, 5, 8, 20 days): median 3.5, n = 6 → [x(1), x(6)] at 96.9 % (same table)
+    expect(f.waitingDaysMedian).toBe(3.5);
+    expect(f.waitingDaysLimits).toMatchObject({ from: 1, to: 20 });
+    expect(f.waitingDaysLimits!.coverage).toBeCloseTo(0.969, 3);
+    // five values are too few for a 95 % interval
+    expect(cycleFigure([1, 2, 3, 4, 10].map((d, i) => ({ ro: String(i), days: d, waitingDays: 0 }))).medianLimits).toBeNull();
+  });
 });

@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { comebackFigure, funnelCurve, funnelPoint, funnelStatus } from "../../../server/analytics/benchmark-funnel.js";
 import { volumeBand } from "../../../server/analytics/benchmark-bands.js";
-import type { ShownShop } from "../../../server/analytics/benchmark-letters.js";
+import type { ShownShop } from "../../../server/analytics/peer-groups.js";
 import { expectNear } from "./fixtures/tolerance.js";
 
 // Funnel limits: Spiegelhalter (2005), Statistics in Medicine 24:1185–1202, exact binomial with interpolation;

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { cutIndices, MIN_PEERS, peerSpread, peerSummary, roundTo } from "../../../server/analytics/peer-groups.js";
+import { cutIndices, GROUP_HIDDEN, groupFigureShown, MIN_PEERS, peerSpread, peerSummary, roundTo } from "../../../server/analytics/peer-groups.js";
 import type { ShopBenchmark } from "../../../shared/schemas/benchmarks.js";
 
 // The rule is the product's peer-anonymity design. Its threshold, no shown group of fewer than three
@@ -128,5 +128,24 @@ describe("peerSummary(rows)", () => {
     expect(s.partsWaitMedian.words).toBe("4 below 4 d · 3 at 4 d or more");
     expect(s.coldStartMeasured.words).toBe("fewer than 3 other shops have this figure: not shown");
     expect(s.rule).toMatch(/at least 3 shops/);
+  });
+});
+
+describe("groupFigureShown(groupWide, otherShopsWithData)", () => {
+  // the threshold rule (Hundepool et al. 2012, value 3 from memory): a total a caller can difference down to
+  // fewer than three other contributors is not released
+  it("always shows the group to a group-wide caller", () => {
+    expect(groupFigureShown(true, 0)).toBe(true);
+    expect(groupFigureShown(true, 1)).toBe(true);
+  });
+
+  it("hides the group from a caller limited to some shops when fewer than three other shops hold data", () => {
+    expect([0, 1, 2].map((n) => groupFigureShown(false, n))).toEqual([false, false, false]);
+    expect([3, 4, 7].map((n) => groupFigureShown(false, n))).toEqual([true, true, true]);
+    expect(MIN_PEERS).toBe(3);
+  });
+
+  it("says why in words", () => {
+    expect(GROUP_HIDDEN).toBe("The group figure is hidden: fewer than three other shops to compare with.");
   });
 });

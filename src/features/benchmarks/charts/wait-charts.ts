@@ -1,6 +1,6 @@
 import * as Plot from "@observablehq/plot";
 import type { Palette } from "@/lib/palette";
-import type { Waits } from "@shared/schemas/benchmark-details";
+import { WAIT_BANDS, type Waits } from "@shared/schemas/benchmark-details";
 
 interface BandRow {
   shop: string;
@@ -9,17 +9,18 @@ interface BandRow {
 }
 
 /** Part lines of each shop shared out across the wait bands: one stacked bar per shop (codes only, so labels never crowd). */
-export function waitBandsChart(d: Waits, c: Palette): Plot.PlotOptions {
-  const rows: BandRow[] = [d.group, ...d.shops].flatMap((s) => s.bands.map((b) => ({ shop: s.key === "group" ? "Group" : s.key, band: b.label, share: b.share * 100 })));
-  const bands = d.group.bands.map((b) => b.label);
+export function waitBandsChart(d: Waits, c: Palette, pct: (x: number) => string): Plot.PlotOptions {
+  const shown = [...(d.group ? [d.group] : []), ...d.shops];
+  const rows: BandRow[] = shown.flatMap((s) => s.bands.map((b) => ({ shop: s.key === "group" ? "Group" : s.key, band: b.label, share: b.share * 100 })));
+  const bands = WAIT_BANDS.map((b) => b.label);
   return {
-    height: 60 + 28 * (d.shops.length + 1),
+    height: 60 + 28 * shown.length,
     marginLeft: 56,
     x: { label: "Share of part lines (%) →", domain: [0, 100], grid: true },
-    y: { label: null, domain: ["Group", ...d.shops.map((s) => s.key)] },
+    y: { label: null, domain: shown.map((s) => (s.key === "group" ? "Group" : s.key)) },
     color: { domain: bands, range: [c.accentSoft, c.ochre, c.alert, c.ink], legend: true },
     marks: [
-      Plot.barX(rows, { x: "share", y: "shop", fill: "band", order: bands, title: (r: BandRow) => `${r.shop}: ${r.share.toFixed(1)} % waited ${r.band}` }),
+      Plot.barX(rows, { x: "share", y: "shop", fill: "band", order: bands, title: (r: BandRow) => `${r.shop}: ${pct(r.share / 100)} waited ${r.band}` }),
       Plot.ruleX([0]),
     ],
   };
@@ -35,7 +36,7 @@ interface MonthRow {
  * Share of the group's part lines waiting over 7 and over 14 days, by month of order, with the stretches that stand
  * out shaded and named above the plot; the time axis picks its own spaced ticks.
  */
-export function waitTrendChart(d: Waits, c: Palette): Plot.PlotOptions {
+export function waitTrendChart(d: Waits, c: Palette, pct: (x: number) => string): Plot.PlotOptions {
   const date = (m: string) => new Date(`${m}-01T00:00:00Z`);
   const end = (m: string) => {
     const x = date(m);
@@ -61,7 +62,7 @@ export function waitTrendChart(d: Waits, c: Palette): Plot.PlotOptions {
       }),
       Plot.lineY(rows, { x: "date", y: "value", stroke: "series", strokeWidth: 1.8 }),
       Plot.ruleY([0]),
-      Plot.tip(rows, Plot.pointer({ x: "date", y: "value", title: (r: MonthRow) => `${r.date.toISOString().slice(0, 7)}: ${r.value.toFixed(1)} % waited ${r.series}` })),
+      Plot.tip(rows, Plot.pointer({ x: "date", y: "value", title: (r: MonthRow) => `${r.date.toISOString().slice(0, 7)}: ${pct(r.value / 100)} waited ${r.series}` })),
     ],
   };
 }

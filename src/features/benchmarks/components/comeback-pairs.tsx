@@ -3,9 +3,10 @@ import type { PairLine, ShopBenchmark } from "@shared/schemas/benchmarks";
 import { EmptyState, ErrorNotice, Skeleton } from "@/components/ui/states";
 import { downloadText, toCsv } from "@/lib/csv";
 import { benchmarkQueries, type BenchmarkParams } from "../api/benchmark-queries";
-import { pct, shareText } from "../format";
+import { useBenchmarkFormat } from "../hooks/use-benchmark-format";
 
 function LineCell({ l }: { l: PairLine }) {
+  const fm = useBenchmarkFormat();
   if (l.roNumber === null) return <span className="text-muted">At another shop of the group, opened {l.opened}</span>;
   return (
     <>
@@ -13,7 +14,7 @@ function LineCell({ l }: { l: PairLine }) {
         RO {l.roNumber}/{l.lineNo} {l.shopCode && <span className="font-normal text-muted">{l.shopCode}</span>}
       </span>
       <span className="block text-xs text-muted">
-        {l.opened} → {l.closed ?? "open"} · {l.hourMeter === null ? "no meter" : `${l.hourMeter.toLocaleString("en-US")} h`} · {l.component}
+        {l.opened} → {l.closed ?? "open"} · {l.hourMeter === null ? "no meter" : fm.hours(l.hourMeter)} · {l.component}
       </span>
       <span className="block text-xs">{l.technician ?? "no technician"}</span>
       <span className="block text-xs text-muted">
@@ -32,6 +33,7 @@ export function ComebackPairsPanel(props: {
   onClose: () => void;
 }) {
   const { params, shop, technician } = props;
+  const fm = useBenchmarkFormat();
   const q = useQuery(benchmarkQueries.comebacks({ ...params, shop: shop.shopCode!, technician }));
   return (
     <section aria-label="Comeback pairs" className="rounded-lg border border-line bg-card p-4 shadow-sm">
@@ -42,7 +44,7 @@ export function ComebackPairsPanel(props: {
             {technician ? `, technician ${technician}` : ""}
           </h2>
           <p className="text-sm text-muted">
-            Comeback rate {shareText(shop.comeback)}. Each row is an original repair line and the later line that makes it a comeback.
+            Comeback rate {fm.share(shop.comeback)}. Each row is an original repair line and the later line that makes it a comeback.
           </p>
         </div>
         <div className="flex gap-2 text-sm">
@@ -87,9 +89,9 @@ export function ComebackPairsPanel(props: {
               aria-pressed={technician === t.techId}
               onClick={() => props.onTechnician(t.techId)}
               className={`rounded border px-2 py-0.5 ${technician === t.techId ? "border-slate bg-slate text-paper" : t.aboveGroup ? "border-alert text-alert" : "border-line"}`}
-              title={`${t.name}: ${shareText(t.comeback)}`}
+              title={`${t.name}: ${fm.share(t.comeback)}`}
             >
-              {t.techId} {t.comeback.value === null ? `(${t.comeback.n} lines)` : pct(t.comeback.value)}
+              {t.techId} {t.comeback.value === null ? `(${t.comeback.n} lines)` : fm.pct(t.comeback.value)}
             </button>
           ))}
         </div>
@@ -121,7 +123,7 @@ export function ComebackPairsPanel(props: {
                     <td className="py-1.5 pr-3"><LineCell l={p.followUp} /></td>
                     <td className="py-1.5 pr-3 tabular-nums">
                       {p.daysAfterClose} d
-                      <span className="block text-xs text-muted">{p.hoursAfterClose === null ? "hours unknown" : `${p.hoursAfterClose.toFixed(0)} h`}</span>
+                      <span className="block text-xs text-muted">{p.hoursAfterClose === null ? "hours unknown" : fm.hours(Math.round(p.hoursAfterClose))}</span>
                     </td>
                   </tr>
                 ))}

@@ -5,21 +5,21 @@ import { lineKpiLabels, type BenchmarkLines, type KpiLine, type LineKpi } from "
 import { apiPaths } from "@shared/api-paths";
 import { EmptyState, ErrorNotice, Skeleton } from "@/components/ui/states";
 import { benchmarkQueries, type BenchmarkParams } from "../api/benchmark-queries";
-import { days, pct } from "../format";
+import type { BenchmarkFormat } from "../format";
+import { useBenchmarkFormat } from "../hooks/use-benchmark-format";
 
 const PAGE = 50;
-const hours = (x: number | null) => (x === null ? "–" : `${x.toLocaleString("en-US", { maximumFractionDigits: 2 })} h`);
 
 /** The KPI as the lines give it, in words. */
-function totalsText(b: BenchmarkLines): string {
+function totalsText(b: BenchmarkLines, { pct, days, hours, count }: BenchmarkFormat): string {
   const t = b.totals;
-  if (b.kpi === "efficiency") return `${pct(t.value)} = ${hours(t.standardHours)} standard ÷ ${hours(t.actualHours)} actual over ${t.lines} lines`;
-  if (b.kpi === "partsWait") return `median ${days(t.median)}, 90th percentile ${days(t.p90)} over ${t.lines} part lines`;
+  if (b.kpi === "efficiency") return `${pct(t.value)} = ${hours(t.standardHours)} standard ÷ ${hours(t.actualHours)} actual over ${count(t.lines)} lines`;
+  if (b.kpi === "partsWait") return `median ${days(t.median)}, 90th percentile ${days(t.p90)} over ${count(t.lines)} part lines`;
   const what = { backOrder: "back-ordered", coldStart: "with a reading", claims: "on time" }[b.kpi];
-  return `${t.counted} of ${t.lines} ${what} (${pct(t.value)})`;
+  return `${count(t.counted)} of ${count(t.lines)} ${what} (${pct(t.value)})`;
 }
 
-const COLUMNS: Record<LineKpi, { head: string; cell: (l: KpiLine) => string }[]> = {
+const columns = ({ pct, days, hours, count }: BenchmarkFormat): Record<LineKpi, { head: string; cell: (l: KpiLine) => string }[]> => ({
   efficiency: [
     { head: "Labour op", cell: (l) => l.laborOp ?? "–" },
     { head: "Standard", cell: (l) => hours(l.standardHours) },
@@ -39,7 +39,7 @@ const COLUMNS: Record<LineKpi, { head: string; cell: (l: KpiLine) => string }[]>
     { head: "Back-ordered", cell: (l) => (l.backOrdered ? "yes" : "no") },
   ],
   coldStart: [
-    { head: "Readings", cell: (l) => String(l.readings ?? 0) },
+    { head: "Readings", cell: (l) => count(l.readings ?? 0) },
     { head: "Measured", cell: (l) => (l.counted ? "yes" : "no reading") },
   ],
   claims: [
@@ -48,7 +48,7 @@ const COLUMNS: Record<LineKpi, { head: string; cell: (l: KpiLine) => string }[]>
     { head: "Filed", cell: (l) => l.filed ?? "not filed" },
     { head: "On time", cell: (l) => (l.onTime ? "yes" : "late") },
   ],
-};
+});
 
 /** The lines behind one KPI of a shop, worst first, with the same filters as the table and a CSV of them all. */
 export function KpiLinesPanel(props: {
@@ -64,7 +64,8 @@ export function KpiLinesPanel(props: {
   const [shown, setShown] = useState(PAGE);
   const query = { ...params, kpi, shop: shop.shopCode!, technician };
   const q = useQuery(benchmarkQueries.lines(query));
-  const cols = COLUMNS[kpi];
+  const fm = useBenchmarkFormat();
+  const cols = columns(fm)[kpi];
   return (
     <section aria-label="Lines behind the figure" className="min-w-0 rounded-lg border border-line bg-card p-4 shadow-sm">
       <div className="mb-2 flex flex-wrap items-start justify-between gap-2">
@@ -73,7 +74,7 @@ export function KpiLinesPanel(props: {
             {lineKpiLabels[kpi]} — {shop.label}
             {technician && kpi !== "claims" ? `, technician ${technician}` : ""}
           </h2>
-          {q.data && <p className="text-sm">{totalsText(q.data)}</p>}
+          {q.data && <p className="text-sm">{totalsText(q.data, fm)}</p>}
         </div>
         <div className="flex gap-2 text-sm">
           <a className="rounded border border-line px-2 py-1 hover:bg-paper" href={apiPaths.benchmarks("lines.csv", { ...query })} download>

@@ -1,7 +1,7 @@
 import type { ReactNode } from "react";
 import type { FunnelStatus, PeerSpread, PeerSummary, ShareFigure, ShopBenchmark, ShopBenchmarks } from "@shared/schemas/benchmarks";
 import { downloadText, toCsv } from "@/lib/csv";
-import { days, intervalText, pct, valueText } from "../format";
+import { useBenchmarkFormat } from "../hooks/use-benchmark-format";
 import { lineKpiLabels, type LineKpi } from "@shared/schemas/benchmark-details";
 
 /** A figure that opens the lines behind it, for a shop whose lines the caller may see. */
@@ -53,7 +53,8 @@ function Cell({ main, sub }: { main: ReactNode; sub?: ReactNode }) {
 
 /** Claims on time; "no data yet" in short, the reason in the cell's second line. */
 function ClaimsCell({ f, open }: { f: ShareFigure; open?: (main: ReactNode) => ReactNode }) {
-  if (f.value !== null) return <Cell main={open ? open(valueText(f)) : valueText(f)} sub={intervalText(f)} />;
+  const fm = useBenchmarkFormat();
+  if (f.value !== null) return <Cell main={open ? open(fm.value(f)) : fm.value(f)} sub={fm.interval(f)} />;
   const [head, ...rest] = (f.note ?? "–").split(": ");
   return <Cell main={head} sub={rest.join(": ") || undefined} />;
 }
@@ -98,6 +99,7 @@ function PeerRow({ peers }: { peers: PeerSummary }) {
 /** One row per shop (the group first) with every KPI and its formula in the column header; the full formulas below. */
 export function KpiTable({ data, onOpen }: { data: ShopBenchmarks; onOpen: (shop: string, kpi?: LineKpi) => void }) {
   const { group, formulas } = data;
+  const fm = useBenchmarkFormat();
   const csvColumns = [
     { key: "label", label: "Shop" },
     { key: "lines", label: "Qualifying lines" },
@@ -154,39 +156,46 @@ export function KpiTable({ data, onOpen }: { data: ShopBenchmarks; onOpen: (shop
             </tr>
           </thead>
           <tbody>
-            <tr className="bg-paper/60 font-medium">
-              <Cell main="Group" sub={`${group.lines.toLocaleString("en-US")} lines`} />
-              <Cell main={valueText(group.comeback)} sub={intervalText(group.comeback)} />
-              <Cell main="—" />
-              <Cell main={pct(group.efficiency.value)} sub={group.efficiency.lines === null ? undefined : `${group.efficiency.lines.toLocaleString("en-US")} lines`} />
-              <Cell main={`${days(group.partsWait.median)} · ${days(group.partsWait.p90)}`} />
-              <Cell main={valueText(group.backOrder)} sub={intervalText(group.backOrder)} />
-              <Cell main={valueText(group.coldStartMeasured)} sub={intervalText(group.coldStartMeasured)} />
-              <ClaimsCell f={group.warrantyOnTime} />
-            </tr>
+            {group ? (
+              <tr className="bg-paper/60 font-medium">
+                <Cell main="Group" sub={`${fm.count(group.lines)} lines`} />
+                <Cell main={fm.value(group.comeback)} sub={fm.interval(group.comeback)} />
+                <Cell main="—" />
+                <Cell main={fm.pct(group.efficiency.value)} sub={group.efficiency.lines === null ? undefined : `${fm.count(group.efficiency.lines)} lines`} />
+                <Cell main={`${fm.days(group.partsWait.median)} · ${fm.days(group.partsWait.p90)}`} />
+                <Cell main={fm.value(group.backOrder)} sub={fm.interval(group.backOrder)} />
+                <Cell main={fm.value(group.coldStartMeasured)} sub={fm.interval(group.coldStartMeasured)} />
+                <ClaimsCell f={group.warrantyOnTime} />
+              </tr>
+            ) : (
+              <tr className="bg-paper/60">
+                <Cell main="Group" />
+                <td colSpan={7} className="border-b border-line/60 px-2 py-1.5 align-top text-sm">{data.groupHidden}</td>
+              </tr>
+            )}
             {data.shops.map((s) => (
               <tr key={s.key} className={s.peer ? "" : "bg-accent-soft/30"}>
-                <Cell main={<span className="font-semibold">{s.label}</span>} sub={s.lines === null ? s.volumeBand : `${s.lines.toLocaleString("en-US")} lines`} />
+                <Cell main={<span className="font-semibold">{s.label}</span>} sub={s.lines === null ? s.volumeBand : `${fm.count(s.lines)} lines`} />
                 <Cell
                   main={
                     s.drillDown && s.shopCode ? (
                       <button type="button" onClick={() => onOpen(s.shopCode!)} className="text-left underline decoration-dotted hover:text-accent" title="See the comeback pairs">
-                        {valueText(s.comeback)}
+                        {fm.value(s.comeback)}
                       </button>
                     ) : (
-                      valueText(s.comeback)
+                      fm.value(s.comeback)
                     )
                   }
-                  sub={intervalText(s.comeback)}
+                  sub={fm.interval(s.comeback)}
                 />
                 <Cell main={<span className={`rounded px-1.5 py-0.5 text-xs font-semibold ${statusClass[s.comeback.funnel]}`}>{statusText[s.comeback.funnel]}</span>} />
                 <Cell
-                  main={opener(s, "efficiency", onOpen)(s.efficiency.value === null ? s.efficiency.note : pct(s.efficiency.value))}
-                  sub={s.efficiency.standardHours === null ? undefined : `${Math.round(s.efficiency.standardHours).toLocaleString("en-US")} ÷ ${Math.round(s.efficiency.actualHours!).toLocaleString("en-US")} h`}
+                  main={opener(s, "efficiency", onOpen)(s.efficiency.value === null ? s.efficiency.note : fm.pct(s.efficiency.value))}
+                  sub={s.efficiency.standardHours === null ? undefined : `${fm.count(s.efficiency.standardHours)} ÷ ${fm.hours(Math.round(s.efficiency.actualHours!))}`}
                 />
-                <Cell main={opener(s, "partsWait", onOpen)(s.partsWait.n === 0 ? s.partsWait.note : `${days(s.partsWait.median)} · ${days(s.partsWait.p90)}`)} sub={s.partsWait.n ? `${s.partsWait.n} part lines` : undefined} />
-                <Cell main={opener(s, "backOrder", onOpen)(valueText(s.backOrder))} sub={intervalText(s.backOrder)} />
-                <Cell main={opener(s, "coldStart", onOpen)(valueText(s.coldStartMeasured))} sub={intervalText(s.coldStartMeasured)} />
+                <Cell main={opener(s, "partsWait", onOpen)(s.partsWait.n === 0 ? s.partsWait.note : `${fm.days(s.partsWait.median)} · ${fm.days(s.partsWait.p90)}`)} sub={s.partsWait.n ? `${fm.count(s.partsWait.n)} part lines` : undefined} />
+                <Cell main={opener(s, "backOrder", onOpen)(fm.value(s.backOrder))} sub={fm.interval(s.backOrder)} />
+                <Cell main={opener(s, "coldStart", onOpen)(fm.value(s.coldStartMeasured))} sub={fm.interval(s.coldStartMeasured)} />
                 <ClaimsCell f={s.warrantyOnTime} open={s.drillDown ? opener(s, "claims", onOpen) : undefined} />
               </tr>
             ))}

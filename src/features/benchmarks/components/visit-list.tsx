@@ -1,5 +1,5 @@
 import type { ShopBenchmarks } from "@shared/schemas/benchmarks";
-import { pct, shareText } from "../format";
+import { useBenchmarkFormat } from "../hooks/use-benchmark-format";
 
 const badge = { visit: "bg-alert text-white", watch: "bg-ochre text-ink" } as const;
 const badgeText = { visit: "Visit", watch: "Watch" } as const;
@@ -10,11 +10,12 @@ const badgeText = { visit: "Visit", watch: "Watch" } as const;
  */
 export function VisitList({ data, onOpen }: { data: ShopBenchmarks; onOpen: (shop: string, tech?: string) => void }) {
   const { visits, period, group } = data;
+  const fm = useBenchmarkFormat();
   return (
     <section aria-label="Which shop needs a visit" className="rounded-lg border border-line bg-card p-4 shadow-sm">
       <h2 className="text-lg font-semibold">Which shop needs a visit — {period.label}</h2>
       <p className="text-sm text-muted">
-        Group comeback rate {pct(group.comeback.value)} over {group.lines.toLocaleString("en-US")} lines. A shop is listed when its rate is outside the
+        {group ? `Group comeback rate ${fm.pct(group.comeback.value)} over ${fm.count(group.lines)} lines.` : data.groupHidden} A shop is listed when its rate is outside the
         funnel for its volume, or its 95 % interval lies wholly above the group rate; busy and quiet shops are judged fairly.
       </p>
       {visits.length === 0 ? (
@@ -29,7 +30,7 @@ export function VisitList({ data, onOpen }: { data: ShopBenchmarks; onOpen: (sho
                 <div className="min-w-0 flex-1">
                   <p className="font-semibold">
                     {v.label}
-                    {shop && <span className="ml-2 font-normal text-muted">comeback rate {shareText(shop.comeback)}</span>}
+                    {shop && <span className="ml-2 font-normal text-muted">comeback rate {fm.share(shop.comeback)}</span>}
                   </p>
                   <ul className="mt-1 list-disc space-y-0.5 pl-5 text-sm">
                     {v.reasons.map((r) => (
@@ -54,13 +55,15 @@ export function VisitList({ data, onOpen }: { data: ShopBenchmarks; onOpen: (sho
 /** What a shop manager sees first: their own shop against the group, in words. */
 export function OwnShopSummary({ data, onOpen }: { data: ShopBenchmarks; onOpen: (shop: string, tech?: string) => void }) {
   const own = data.shops.filter((s) => !s.peer);
+  const fm = useBenchmarkFormat();
   return (
     <section aria-label="Where your shop stands" className="rounded-lg border border-line bg-card p-4 shadow-sm">
       <h2 className="text-lg font-semibold">Where your shop stands — {data.period.label}</h2>
       {own.map((s) => (
         <div key={s.key} className="mt-2">
           <p>
-            <span className="font-semibold">{s.label}</span>: comeback rate {shareText(s.comeback)} against the group's {pct(data.group.comeback.value)}. {s.comeback.words}.
+            <span className="font-semibold">{s.label}</span>: comeback rate {fm.share(s.comeback)}
+            {data.group ? ` against the group's ${fm.pct(data.group.comeback.value)}. ${s.comeback.words}.` : "."}
           </p>
           {s.technicians && s.technicians.some((t) => t.aboveGroup) && (
             <p className="mt-1 text-sm">
@@ -69,7 +72,7 @@ export function OwnShopSummary({ data, onOpen }: { data: ShopBenchmarks; onOpen:
                 .filter((t) => t.aboveGroup)
                 .map((t) => (
                   <button key={t.techId} type="button" onClick={() => onOpen(s.shopCode!, t.techId)} className="mr-2 underline decoration-dotted hover:text-accent">
-                    {t.techId} {t.name} ({pct(t.comeback.value)} of {t.comeback.n})
+                    {t.techId} {t.name} ({fm.pct(t.comeback.value)} of {fm.count(t.comeback.n)})
                   </button>
                 ))}
             </p>
@@ -79,6 +82,7 @@ export function OwnShopSummary({ data, onOpen }: { data: ShopBenchmarks; onOpen:
           </button>
         </div>
       ))}
+      {data.groupHidden && <p className="mt-2 rounded border border-dashed border-line p-2 text-sm">{data.groupHidden}</p>}
       {data.peers && (
         <p className="mt-3">
           The other shops' comeback rates, in groups of 3 or more: {data.peers.comeback.words}.
