@@ -1,25 +1,11 @@
 /** The claim packet rendered as a PDF (pdfkit) from a snapshot gathered beforehand; no I/O here. */
 import { hourBandLabel, temperatureBandLabel } from "../../../shared/bands.js";
-import PDFDocument from "pdfkit";
-import { createRequire } from "node:module";
 import type { ClaimSnapshotForPacket, PacketAttachment } from "./packet-types.js";
 import type { RepairLineEvidence } from "../../../shared/schemas/claims.js";
 import { claimStatusLabels } from "../../../shared/schemas/claims.js";
+import { ACCENT, ALERT, INK, LINE, MUTED, finishPdf, openPdf, pdfText } from "../pdf-style.js";
 
-const require = createRequire(import.meta.url);
-const FONT_REGULAR = require.resolve("@fontsource/inter-tight/files/inter-tight-latin-400-normal.woff");
-const FONT_BOLD = require.resolve("@fontsource/inter-tight/files/inter-tight-latin-700-normal.woff");
-
-const INK = "#1d2430";
-const MUTED = "#5f6b7a";
-const ACCENT = "#1f6f78";
-const LINE = "#d6d2c6";
-const ALERT = "#a8322d";
 const MARGIN = 48;
-
-/** The bundled font covers Latin only: spell out the few symbols it lacks. */
-export const pdfText = (s: string) =>
-  s.replace(/kΩ/g, "kohm").replace(/Ω/g, "ohm").replace(/≤/g, "<=").replace(/≥/g, ">=").replace(/≈/g, "about ").replace(/→/g, "->");
 
 const fmt = (n: number | null | undefined, digits = 1) =>
   n === null || n === undefined ? "–" : n.toLocaleString("en-US", { maximumFractionDigits: digits, minimumFractionDigits: 0 });
@@ -440,15 +426,7 @@ function cautionSection(doc: Doc, cautions: readonly string[]) {
  * cautions, attachment images, and for a campaign case the cluster statistics and its repair lines.
  */
 export async function renderPacket(s: ClaimSnapshotForPacket): Promise<Buffer> {
-  const doc = new PDFDocument({ size: "A4", margin: MARGIN, bufferPages: true, info: { Title: `Warranty claim ${s.claimNumber}`, Author: "Ironledger", Subject: s.title } });
-  doc.registerFont("regular", FONT_REGULAR);
-  doc.registerFont("bold", FONT_BOLD);
-  const chunks: Buffer[] = [];
-  doc.on("data", (c: Buffer) => chunks.push(c));
-  const done = new Promise<Buffer>((resolve, reject) => {
-    doc.on("end", () => resolve(Buffer.concat(chunks)));
-    doc.on("error", reject);
-  });
+  const { doc, done } = openPdf({ size: "A4", margin: MARGIN, info: { Title: `Warranty claim ${s.claimNumber}`, Author: "Ironledger", Subject: s.title } });
 
   // header band
   doc.rect(0, 0, doc.page.width, 86).fill("#2f3b4c");
@@ -486,19 +464,8 @@ export async function renderPacket(s: ClaimSnapshotForPacket): Promise<Buffer> {
   attachmentSection(doc, s.attachments);
   cautionSection(doc, s.cautions);
 
-  const range = doc.bufferedPageRange();
-  for (let i = range.start; i < range.start + range.count; i++) {
-    doc.switchToPage(i);
-    const bottom = doc.page.margins.bottom;
-    doc.page.margins.bottom = 0;
-    doc.font("regular").fontSize(7.5).fillColor(MUTED).text(
-      `${s.claimNumber} · generated ${s.generatedAt.slice(0, 16).replace("T", " ")} UTC · page ${i + 1} of ${range.count}`,
-      MARGIN,
-      doc.page.height - 30,
-      { width: pageWidth(doc), align: "right", lineBreak: false },
-    );
-    doc.page.margins.bottom = bottom;
-  }
-  doc.end();
-  return await done;
+  return finishPdf(doc, done, (page, pages) => `${s.claimNumber} · generated ${s.generatedAt.slice(0, 16).replace("T", " ")} UTC · page ${page} of ${pages}`, {
+    margin: MARGIN,
+    fromBottom: 30,
+  });
 }
