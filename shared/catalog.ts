@@ -67,6 +67,15 @@ export const measurementKinds = [
   { code: "plug_resistance", name: "Heater-plug resistance", unit: "ohm" },
   { code: "rail_voltage", name: "Preheat rail voltage", unit: "V" },
   { code: "battery_voltage", name: "Battery voltage", unit: "V" },
+  // the conditions and checks of a bench sheet: not gauge readings, but they travel with them (same line, same
+  // provenance) and must stay attached when the shop's export of the line arrives, so they are readings too
+  { code: "ambient_temperature", name: "Ambient temperature at the test", unit: "C" },
+  /** 0 = cold (not run since it cooled down), 1 = warm */
+  { code: "engine_state", name: "Engine state at the test", unit: "state" },
+  /** 0 = the dash did not ask to wait, 1 = the wait-to-start lamp was lit */
+  { code: "preheat_lamp", name: "Wait-to-start lamp", unit: "flag" },
+  /** per plug: 0 = no heat, 1 = heats; a plug not tested has no reading */
+  { code: "bench_test", name: "Heater-plug bench test", unit: "flag" },
 ] as const;
 
 export const payTypes = ["customer", "warranty", "internal", "goodwill"] as const;

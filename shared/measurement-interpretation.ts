@@ -127,6 +127,32 @@ const otherCautions: readonly string[] = [
   "Bench tests with a battery can spark: work away from fuel, vapour and charging batteries, with a fused lead and eye protection.",
   "Cranking with the plugs out: disable the injectors and use a remote starter; chock the machine, ground the attachments, keep people clear of the fan, belts and linkages, and respect the starter's duty cycle. Fuel spray from open ports is a fire and injection-injury hazard.",
   "Never use ether or starting spray on engines with glow plugs or an intake grid heater: explosion and fire.",
-  "Block heaters: grounded plug, outdoor-rated heavy-gauge cord and a GFCI outlet; inspect the cord and socket for corrosion; hot coolant when draining, disposed of legally; fixed wiring by a licensed electrician.",
+  "Block heaters: grounded plug, outdoor-rated heavy-gauge cord and a GFCI outlet; inspect the cord and socket, as corrosion in a socket left unused causes arcing; hot coolant when draining, disposed of legally; fixed wiring by a licensed electrician.",
   "These interpretations are decision support, not a repair procedure. Follow the maker's service manual for the engine family, local codes and licensed practice; generic bands may be wrong for a given engine.",
 ];
+
+/** Where on a bench sheet a caution belongs: beside the field where that work is done. */
+export type CautionStep = "rail" | "resistance" | "bench" | "compression" | "cold-start" | "block-heater" | "decision";
+
+const keyOnCaution =
+  "Key-on checks: the plugs heat while the rail is energised. Keep hands and loose probes off the plug terminals and the bus bar, and switch the key off before disconnecting any lead.";
+const resistanceCaution =
+  "Resistance: key off, battery isolated and the plug's lead disconnected before measuring; a plug that was just energised is hot.";
+
+/**
+ * The cautions of safetyCautionsIn for one step of the work, each with the deference to the maker's service manual
+ * and licensed practice last. The key-on and resistance cautions are the bench sheet's own additions.
+ */
+export function cautionsAt(step: CautionStep, unit: "C" | "F"): readonly string[] {
+  const [hotTips, sparks, cranking, spray, blockHeater, decision] = safetyCautionsIn(unit);
+  const by: Record<CautionStep, string[]> = {
+    rail: [keyOnCaution],
+    resistance: [resistanceCaution, hotTips],
+    bench: [hotTips, sparks],
+    compression: [cranking],
+    "cold-start": [spray],
+    "block-heater": [blockHeater],
+    decision: [],
+  };
+  return [...by[step], decision];
+}

@@ -1,6 +1,6 @@
 import { z } from "zod";
 
-export const roleSchema = z.enum(["admin", "analyst", "director", "manager", "clerk"]);
+export const roleSchema = z.enum(["admin", "analyst", "director", "manager", "clerk", "technician"]);
 export type Role = z.infer<typeof roleSchema>;
 export const allRoles = roleSchema.options;
 
@@ -10,9 +10,10 @@ export const roleLabels: Record<Role, string> = {
   director: "Service director",
   manager: "Shop manager",
   clerk: "Warranty clerk",
+  technician: "Technician",
 };
 
-/** Roles whose shop scope is the whole group; a manager is limited to the shops named in their claim. */
+/** Roles whose shop scope is the whole group; a manager or a technician is limited to the shops named in their claim. */
 export const groupWideRoles: readonly Role[] = ["admin", "analyst", "director", "clerk"];
 
 /** Roles that build and file warranty claims. */
@@ -33,3 +34,10 @@ export const lifeRoles = ["analyst", "director", "admin"] as const satisfies rea
 
 /** Roles that read the failure rates (the rates page, and the life page that shares its filters): not the clerk, whose menu has neither. */
 export const rateRoles = ["analyst", "director", "manager", "admin"] as const satisfies readonly Role[];
+
+/**
+ * Roles that fill in the bench sheet at the machine (search open lines, add a line, save readings): a technician
+ * or a manager, for their shops. The group-wide analysis roles may read what was entered.
+ */
+export const benchSheetWriteRoles = ["technician", "manager"] as const satisfies readonly Role[];
+export const benchSheetReadRoles = ["technician", "manager", "analyst", "admin"] as const satisfies readonly Role[];

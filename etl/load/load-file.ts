@@ -69,6 +69,8 @@ export interface LoadFileOptions {
   fileName?: string;
   /** who loaded it (user name or "cli:<login>") */
   loadedBy: string;
+  /** where the file came from (etl_batch.source): a shop's export (the default) or a bench sheet the server wrote */
+  source?: "export" | "sheet";
   onProgress?: (p: LoadProgress) => void;
   /** called before anything is loaded with what the header means to the profile (columns ignored and why, columns absent) */
   onHeader?: (report: HeaderNotes, profile: Profile) => void;
@@ -360,9 +362,9 @@ export async function loadFile(target: pg.Pool | string, opts: LoadFileOptions):
       }
       const ins = await client.query<{ batch_id: number }>(
         `INSERT INTO etl_batch (file_name, sha256, profile, profile_version, kind, shop_code, loaded_by, started_at, finished_at, status,
-           rows_read, rows_inserted, rows_updated, rows_unchanged, rows_rejected)
-         VALUES ($1, $2, $3, $9, $4, $5, $6, $7, now(), 'already_loaded', $8, 0, 0, $8, 0) RETURNING batch_id`,
-        [fileName, sha, profile.id, kind, shop ?? null, opts.loadedBy, startedAt, read, profileVersion],
+           rows_read, rows_inserted, rows_updated, rows_unchanged, rows_rejected, source)
+         VALUES ($1, $2, $3, $9, $4, $5, $6, $7, now(), 'already_loaded', $8, 0, 0, $8, 0, $10) RETURNING batch_id`,
+        [fileName, sha, profile.id, kind, shop ?? null, opts.loadedBy, startedAt, read, profileVersion, opts.source ?? "export"],
       );
       await client.query("COMMIT");
       opts.onProgress?.({ phase: "done", rowsRead: read, bytesRead: totalBytes, totalBytes });
@@ -373,9 +375,9 @@ export async function loadFile(target: pg.Pool | string, opts: LoadFileOptions):
       };
     }
     const ins = await client.query<{ batch_id: number }>(
-      `INSERT INTO etl_batch (file_name, sha256, profile, profile_version, kind, shop_code, loaded_by, started_at, status)
-       VALUES ($1, $2, $3, $8, $4, $5, $6, $7, 'running') RETURNING batch_id`,
-      [fileName, sha, profile.id, kind, shop ?? null, opts.loadedBy, startedAt, profileVersion],
+      `INSERT INTO etl_batch (file_name, sha256, profile, profile_version, kind, shop_code, loaded_by, started_at, status, source)
+       VALUES ($1, $2, $3, $8, $4, $5, $6, $7, 'running', $9) RETURNING batch_id`,
+      [fileName, sha, profile.id, kind, shop ?? null, opts.loadedBy, startedAt, profileVersion, opts.source ?? "export"],
     );
     const batchId = Number(ins.rows[0].batch_id);
     await seedReference(client);
@@ -482,9 +484,9 @@ export async function loadFile(target: pg.Pool | string, opts: LoadFileOptions):
     if (!(e instanceof EtlFatalError)) {
       await client
         .query(
-          `INSERT INTO etl_batch (file_name, sha256, profile, profile_version, kind, shop_code, loaded_by, started_at, finished_at, status, error_message)
-           VALUES ($1, $2, $3, $9, $4, $5, $6, $7, now(), 'failed', $8)`,
-          [fileName, sha, profile.id, kind, shop ?? null, opts.loadedBy, startedAt, (e as Error).message, profileVersion],
+          `INSERT INTO etl_batch (file_name, sha256, profile, profile_version, kind, shop_code, loaded_by, started_at, finished_at, status, error_message, source)
+           VALUES ($1, $2, $3, $9, $4, $5, $6, $7, now(), 'failed', $8, $10)`,
+          [fileName, sha, profile.id, kind, shop ?? null, opts.loadedBy, startedAt, (e as Error).message, profileVersion, opts.source ?? "export"],
         )
         .catch(() => undefined);
     }

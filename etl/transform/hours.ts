@@ -2,7 +2,8 @@ import { checkRange, FieldReader } from "./fields.js";
 import { reject } from "./reject.js";
 import { normaliseIdentifier } from "./values.js";
 
-export const hourFileSources = ["delivery", "pm", "telematics", "registry"] as const;
+/** "sheet": a reading a technician entered on the bench sheet (written by the server in this layout) */
+export const hourFileSources = ["delivery", "pm", "telematics", "registry", "sheet"] as const;
 
 export interface HourStage {
   serial: string;

@@ -2,7 +2,7 @@ import { measurementKinds } from "../../shared/catalog.js";
 import { checkRange, FieldReader, mapCode } from "./fields.js";
 import { MAX_LINE_NO } from "./jobs.js";
 import { reject } from "./reject.js";
-import { parseResistance, pressureToPsi, sniffCompressionUnit, type PressureUnit } from "./units.js";
+import { fahrenheitToCelsius, parseResistance, pressureToPsi, sniffCompressionUnit, type PressureUnit } from "./units.js";
 import { formatNumber, normaliseCode, parseDecimal } from "./values.js";
 
 const kindCodes = new Set<string>(measurementKinds.map((k) => k.code));
@@ -24,8 +24,31 @@ export interface MeasurementStage {
 }
 
 const PRESSURE_UNITS: Record<string, PressureUnit> = { PSI: "psi", KPA: "kPa", BAR: "bar" };
+const TEMPERATURE_UNITS: Record<string, "C" | "F"> = { C: "C", "°C": "C", F: "F", "°F": "F" };
 
-/** Canonical value of one reading with the rule applied, or a reject. Compression → psi, resistance → Ω, voltage → V. */
+/**
+ * Readings that are a state in words rather than a number: stored as 0/1 with the words kept as the raw value.
+ * A plug's bench test "not tested" is no reading at all (the row is left out), so it is not a word here.
+ */
+const STATE_WORDS: Record<string, { label: string; unit: string; say: string; values: Map<string, number> }> = {
+  engine_state: {
+    label: "engine state", unit: "state", say: '"cold" or "warm"',
+    values: new Map([["cold", 0], ["warm", 1], ["hot", 1]]),
+  },
+  preheat_lamp: {
+    label: "wait-to-start lamp", unit: "flag", say: '"lit" or "not lit"',
+    values: new Map([["lit", 1], ["on", 1], ["yes", 1], ["1", 1], ["not lit", 0], ["off", 0], ["no", 0], ["0", 0]]),
+  },
+  bench_test: {
+    label: "bench test", unit: "flag", say: '"heats" or "no heat"',
+    values: new Map([["heats", 1], ["glows", 1], ["pass", 1], ["1", 1], ["no heat", 0], ["fail", 0], ["0", 0]]),
+  },
+};
+
+/**
+ * Canonical value of one reading with the rule applied, or a reject. Compression → psi, resistance → Ω, voltage → V,
+ * ambient temperature → °C; engine state, wait-to-start lamp and bench test → 0/1 from their words.
+ */
 export function convertReading(
   kind: string,
   rawValue: string,
@@ -39,8 +62,22 @@ export function convertReading(
     if (r.ohms !== null) checkRange(r.ohms, "resistance", "Ω", 10_000_000);
     return { value: r.ohms, unit: "ohm", overRange: r.overRange, rule: r.rule };
   }
+  const state = STATE_WORDS[kind];
+  if (state) {
+    const v = state.values.get(rawValue.trim().toLowerCase().replace(/[\s_-]+/g, " "));
+    if (v === undefined) reject("unknown_code", `${state.label} "${rawValue}" is not one of ${state.say}`);
+    return { value: v, unit: state.unit, overRange: false, rule: `"${rawValue.trim()}" → ${v}` };
+  }
   const n = parseDecimal(rawValue, profile.decimalComma);
-  if (n === null) reject("bad_number", `${kind.replace("_", " ")} "${rawValue}" is not a number`);
+  if (n === null) reject("bad_number", `${kind.replace(/_/g, " ")} "${rawValue}" is not a number`);
+  if (kind === "ambient_temperature") {
+    const u = rawUnit ? TEMPERATURE_UNITS[rawUnit.trim().toUpperCase()] : profile.units.temperature === "F" ? "F" : "C";
+    if (u === undefined) reject("unknown_code", `temperature unit "${rawUnit}" is not °C or °F`);
+    const c = u === "F" ? fahrenheitToCelsius(n) : n;
+    // the same plausible-weather bounds as a repair line's ambient temperature (etl/transform/jobs.ts)
+    if (c < -60 || c > 60) reject("absurd_value", `ambient temperature ${formatNumber(n)} °${u} is beyond any plausible weather`);
+    return { value: Math.round(c * 100) / 100, unit: "C", overRange: false, rule: u === "F" ? "°F → °C (NIST SP 811)" : "°C as recorded" };
+  }
   if (kind === "compression") {
     let unit: PressureUnit | null;
     let rule: string;

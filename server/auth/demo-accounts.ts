@@ -19,6 +19,10 @@ export const demoAccounts: readonly DemoAccount[] = [
   { username: "manager.s1", name: "Jarek Fenn", roles: ["manager"], shops: ["S1"] },
   { username: "manager.s5", name: "Ysolde Brack", roles: ["manager"], shops: ["S5"] },
   { username: "clerk", name: "Pim Aldous", roles: ["clerk"], shops: [] },
+  { username: "tech.s1s2", name: "Ansel Moorcroft", roles: ["technician"], shops: ["S1", "S2"] },
+  { username: "tech.s3s4", name: "Brenna Thackett", roles: ["technician"], shops: ["S3", "S4"] },
+  { username: "tech.s5s6", name: "Corvin Ashdale", roles: ["technician"], shops: ["S5", "S6"] },
+  { username: "tech.s7s8", name: "Delphine Ravensby", roles: ["technician"], shops: ["S7", "S8"] },
 ].map((a) => ({ ...a, password: DEMO_PASSWORD, email: `${a.username}@ironledger.invalid`, roles: a.roles as Role[] }));
 
 export function findDemoAccount(username: string): DemoAccount | undefined {

@@ -14,8 +14,11 @@ type Computed<T> = ColumnType<T, never, never>;
 
 export type ExportKindColumn = "machines" | "jobs" | "measurements" | "weather" | "hours";
 export type BatchStatus = "running" | "loaded" | "already_loaded" | "failed";
-export type HourSource = "delivery" | "ro" | "pm" | "telematics" | "registry";
-export type MeasurementKindColumn = "compression" | "plug_resistance" | "rail_voltage" | "battery_voltage";
+export type HourSource = "delivery" | "ro" | "pm" | "telematics" | "registry" | "sheet";
+export type MeasurementKindColumn =
+  | "compression" | "plug_resistance" | "rail_voltage" | "battery_voltage" | "ambient_temperature" | "engine_state" | "preheat_lamp" | "bench_test";
+/** Where a batch's file came from: a shop's export, or a bench sheet the server wrote (migration 0068). */
+export type BatchSource = "export" | "sheet";
 
 export interface EtlBatchTable {
   batch_id: Generated<string>;
@@ -38,6 +41,7 @@ export interface EtlBatchTable {
   notes: unknown;
   /** the version of the profile the batch was read with (etl_profile_version); null before profiles were versioned */
   profile_version: number | null;
+  source: Generated<BatchSource>;
 }
 
 /** A saved version of a mapping profile (etl/profiles/profile-store.ts). */

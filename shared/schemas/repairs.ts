@@ -123,6 +123,8 @@ const measurementSchema = z.object({
   rawValue: z.string(),
   rawUnit: z.string().nullable(),
   conversionRule: z.string(),
+  /** entered on the bench sheet: by whom and when (ISO time); null for a reading from a shop's export */
+  sheet: z.object({ by: z.string(), at: z.string() }).nullable(),
 });
 export type RepairMeasurement = z.infer<typeof measurementSchema>;
 

@@ -4,6 +4,7 @@ import { repairQueries } from "@/features/repairs/api/repair-queries";
 import { meQueries } from "@/features/session/api/me-queries";
 import { useTemperatureUnit } from "@/features/filters/hooks/use-temperature-unit";
 import { celsiusToFahrenheit } from "@shared/bands";
+import { kindName, storedReading } from "@/features/repairs/reading-words";
 import { MeasurementPanels } from "@/features/repairs/components/measurement-panels";
 import { QueryView } from "@/features/filters/components/query-view";
 import { Card } from "@/components/ui/states";
@@ -25,7 +26,8 @@ function Facts({ items }: { items: [string, string][] }) {
 function Detail({ d }: { d: RepairDetail }) {
   const fmt = useFormat();
   const v = (x: string | number | null | undefined, unit = "") => (x === null || x === undefined || x === "" ? "—" : `${typeof x === "number" ? fmt.quantity("plain", x) : x}${unit}`);
-  const hrs = (x: number | null) => (x === null ? "—" : `${fmt.quantity("hours", x)} h`);
+  const hrs = (x: number | null) => (x === null ? "—" : `${fmt.quantity("hours", x)}\u00a0h`);
+  const day = (x: string | null) => (x ? fmt.date(x) : "—");
   const { data: me } = useQuery(meQueries.current());
   const canClaim = Boolean(me?.roles.some((r) => r === "clerk" || r === "manager"));
   const [unit] = useTemperatureUnit();
@@ -54,33 +56,33 @@ function Detail({ d }: { d: RepairDetail }) {
         </Card>
         <Card title="The job">
           <Facts items={[
-            ["Opened", l.openedDate], ["Closed", v(l.closedDate)], ["Line type", l.lineType], ["Pay type", l.payType],
-            ["Hour meter", hrs(l.hourMeter)], ["Labour op", v(l.laborOp)], ["Labour", v(l.laborHours, " h")], ["Standard", v(l.standardHours, " h")],
-            ["Technician", v(l.technician)], ["Ambient", l.ambientTempC === null ? "—" : unit === "F" ? `${celsiusToFahrenheit(l.ambientTempC).toFixed(0)} °F` : `${l.ambientTempC} °C`],
+            ["Opened", day(l.openedDate)], ["Closed", day(l.closedDate)], ["Line type", l.lineType], ["Pay type", l.payType],
+            ["Hour meter", hrs(l.hourMeter)], ["Labour op", v(l.laborOp)], ["Labour", v(l.laborHours, "\u00a0h")], ["Standard", v(l.standardHours, "\u00a0h")],
+            ["Technician", v(l.technician)], ["Ambient", l.ambientTempC === null ? "—" : unit === "F" ? `${fmt.count(celsiusToFahrenheit(l.ambientTempC))}\u00a0°F` : `${fmt.count(l.ambientTempC)}\u00a0°C`],
           ]} />
         </Card>
         <Card title="Part">
           <Facts items={[
             ["Part", v(l.partNumber)], ["Description", v(l.partDescription)], ["Quantity", v(l.partQty)], ["Supplier lot", v(l.supplierLot)],
-            ["Ordered", v(l.partOrderedDate)], ["Received", v(l.partReceivedDate)], ["Back-ordered", l.backOrdered ? "yes" : "no"], ["Wait", v(l.partsWaitDays, " days")],
+            ["Ordered", day(l.partOrderedDate)], ["Received", day(l.partReceivedDate)], ["Back-ordered", l.backOrdered ? "yes" : "no"], ["Wait", l.partsWaitDays === null ? "—" : `${fmt.count(l.partsWaitDays)} ${l.partsWaitDays === 1 ? "day" : "days"}`],
           ]} />
         </Card>
       </div>
       <Card title={`Machine ${m.serial}`}>
         <Facts items={[
           ["Model", `${m.modelLine} (${m.modelCode})`], ["Engine family", m.engineFamily], ["Engine serial", v(m.engineSerial)], ["Cold-start aid", m.coldStartAid.replace("_", " ")],
-          ["Built", v(m.buildDate)], ["Delivered", v(m.deliveryDate)], ["Hours at delivery", hrs(m.deliveryHours)], ["Home shop", v(m.homeShop)],
+          ["Built", day(m.buildDate)], ["Delivered", day(m.deliveryDate)], ["Hours at delivery", hrs(m.deliveryHours)], ["Home shop", v(m.homeShop)],
           ["Heater-plug lot at build", v(m.heaterPlugLot)], ["Block heater", m.blockHeaterFitted ? "fitted" : "none"],
         ]} />
         <details className="mt-3">
-          <summary className="cursor-pointer text-sm font-semibold text-accent">Hour-meter trail ({m.hoursTrail.length} readings)</summary>
+          <summary className="cursor-pointer text-sm font-semibold text-accent">Hour-meter trail ({fmt.count(m.hoursTrail.length)} {m.hoursTrail.length === 1 ? "reading" : "readings"})</summary>
           <div className="mt-2 max-h-72 overflow-auto">
             <table className="w-full text-left text-sm">
-              <thead className="sticky top-0 bg-card text-muted"><tr className="border-b border-line"><th className="py-1 pr-3">Date</th><th className="pr-3 text-right">Hours</th><th className="pr-3">Source</th><th className="pr-3">Meter</th><th>Note</th></tr></thead>
+              <thead className="sticky top-0 bg-card text-muted"><tr className="border-b border-line"><th className="py-1 pr-3">Date</th><th className="pr-3 text-right">Hours (h)</th><th className="pr-3">Source</th><th className="pr-3">Meter</th><th>Note</th></tr></thead>
               <tbody>
                 {m.hoursTrail.map((h, i) => (
                   <tr key={i} className={`border-b border-line/60 ${h.valid ? "" : "text-alert"}`}>
-                    <td className="py-1 pr-3 tabular-nums">{h.date}</td>
+                    <td className="py-1 pr-3 tabular-nums">{day(h.date)}</td>
                     <td className="pr-3 text-right tabular-nums">{fmt.quantity("hours", h.hours)}</td>
                     <td className="pr-3">{h.source}</td>
                     <td className="pr-3">{h.meterGeneration === 0 ? "original" : `replacement ${h.meterGeneration}`}</td>
@@ -98,7 +100,7 @@ function Detail({ d }: { d: RepairDetail }) {
         ) : (
           <ul className="space-y-1 text-sm">
             {d.faultCodes.map((f) => (
-              <li key={`${f.spn}-${f.fmi}`}><b className="tabular-nums">SPN {f.spn} FMI {f.fmi}</b> — {f.fmiMeaning}{f.occurrences > 1 ? ` (×${f.occurrences})` : ""}</li>
+              <li key={`${f.spn}-${f.fmi}`}><b className="tabular-nums">SPN {f.spn} FMI {f.fmi}</b> — {f.fmiMeaning}{f.occurrences > 1 ? ` (×${fmt.count(f.occurrences)})` : ""}</li>
             ))}
           </ul>
         )}
@@ -106,26 +108,29 @@ function Detail({ d }: { d: RepairDetail }) {
       <MeasurementPanels d={d} />
       {d.measurements.length > 0 && (
         <details className="rounded-lg border border-line bg-card p-4">
-          <summary className="cursor-pointer text-sm font-semibold">All readings as recorded and as stored ({d.measurements.length})</summary>
-          <table className="mt-2 w-full text-left text-sm">
-            <thead className="text-muted"><tr className="border-b border-line"><th className="py-1 pr-3">Kind</th><th className="pr-3">Position</th><th className="pr-3">Attempt</th><th className="pr-3">Recorded</th><th className="pr-3">Stored</th><th>Conversion</th></tr></thead>
+          <summary className="cursor-pointer text-sm font-semibold">All readings as recorded and as stored ({fmt.count(d.measurements.length)})</summary>
+          <div className="mt-2 overflow-x-auto">
+          <table className="w-full text-left text-sm">
+            <thead className="text-muted"><tr className="border-b border-line"><th className="py-1 pr-3">Kind</th><th className="pr-3">Position</th><th className="pr-3">Attempt</th><th className="pr-3">Recorded</th><th className="pr-3">Stored (warehouse unit)</th><th className="pr-3">Conversion</th><th>Source</th></tr></thead>
             <tbody>
               {d.measurements.map((x, i) => (
                 <tr key={i} className="border-b border-line/60">
-                  <td className="py-1 pr-3">{x.kind.replace("_", " ")}</td><td className="pr-3">{x.position}</td><td className="pr-3">{x.attempt}</td>
+                  <td className="py-1 pr-3">{kindName(x.kind)}</td><td className="pr-3">{x.position}</td><td className="pr-3">{x.attempt}</td>
                   <td className="pr-3">{x.rawValue}{x.rawUnit ? ` ${x.rawUnit}` : ""}</td>
-                  <td className="pr-3 tabular-nums">{x.overRange ? "over range" : `${x.value} ${x.unit}`}</td><td className="text-muted">{x.conversionRule}</td>
+                  <td className="pr-3 tabular-nums">{storedReading(x, fmt, unit)}</td><td className="pr-3 text-muted">{x.conversionRule}</td>
+                  <td className="text-muted">{x.sheet ? `bench sheet, ${x.sheet.by}, ${fmt.dateTime(x.sheet.at)}` : "shop export"}</td>
                 </tr>
               ))}
             </tbody>
           </table>
+          </div>
         </details>
       )}
       {d.machineHistory.length > 0 && (
         <Card title="Other repair lines on this machine">
           <ul className="space-y-1 text-sm">
             {d.machineHistory.map((h) => (
-              <li key={h.id}><Link to={`/repairs/${h.id}`} className="text-accent hover:underline">{h.openedDate} · {h.shopCode} {h.roNumber}/{h.lineNo}</Link> — {h.componentName} ({h.lineType}{h.hourMeter !== null ? `, ${h.hourMeter.toLocaleString("en-US")} h` : ""})</li>
+              <li key={h.id}><Link to={`/repairs/${h.id}`} className="text-accent hover:underline">{day(h.openedDate)} · {h.shopCode} {h.roNumber}/{h.lineNo}</Link> — {h.componentName} ({h.lineType}{h.hourMeter !== null ? `, ${hrs(h.hourMeter)}` : ""})</li>
             ))}
           </ul>
         </Card>

@@ -476,9 +476,11 @@ export async function getRepair(db: Db, scope: ShopScope, id: string): Promise<R
       SELECT f.spn, f.fmi, f.occurrences, d.meaning FROM fact_fault_code f JOIN dim_fmi d ON d.fmi = f.fmi
       WHERE f.repair_line_key = ${id}::bigint ORDER BY f.spn, f.fmi
     `.execute(db),
-    sql<{ kind: string; position: number; attempt: number; value: string | null; unit: string; over_range: boolean; raw_value: string; raw_unit: string | null; conversion_rule: string }>`
-      SELECT kind, position, attempt, value, unit, over_range, raw_value, raw_unit, conversion_rule
-      FROM fact_measurement WHERE repair_line_key = ${id}::bigint ORDER BY kind, position, attempt
+    sql<{ kind: string; position: number; attempt: number; value: string | null; unit: string; over_range: boolean; raw_value: string; raw_unit: string | null; conversion_rule: string; sheet_by: string | null; sheet_at: Date | null }>`
+      SELECT fm.kind, fm.position, fm.attempt, fm.value, fm.unit, fm.over_range, fm.raw_value, fm.raw_unit, fm.conversion_rule,
+             CASE WHEN b.source = 'sheet' THEN b.loaded_by END AS sheet_by, CASE WHEN b.source = 'sheet' THEN coalesce(b.finished_at, b.started_at) END AS sheet_at
+      FROM fact_measurement fm JOIN etl_batch b ON b.batch_id = fm.batch_id
+      WHERE fm.repair_line_key = ${id}::bigint ORDER BY fm.kind, fm.position, fm.attempt
     `.execute(db),
     sql<RowRecord>`${SELECT} ${FROM}
       WHERE fl.machine_key = ${h.machine_key}::bigint AND fl.repair_line_key <> ${id}::bigint
@@ -541,6 +543,7 @@ export async function getRepair(db: Db, scope: ShopScope, id: string): Promise<R
       rawValue: x.raw_value,
       rawUnit: x.raw_unit,
       conversionRule: x.conversion_rule,
+      sheet: x.sheet_by !== null && x.sheet_at !== null ? { by: x.sheet_by, at: x.sheet_at.toISOString() } : null,
     })),
     machineHistory: history.rows.map(toRow).map((x) => ({
       id: x.id, shopCode: x.shopCode, roNumber: x.roNumber, lineNo: x.lineNo, openedDate: x.openedDate, componentName: x.componentName, lineType: x.lineType, hourMeter: x.hourMeter,
