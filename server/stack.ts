@@ -19,6 +19,7 @@ import { logger } from "./logger.js";
 import { startImportWorkers } from "./services/imports/import-jobs.js";
 import PgBoss from "pg-boss";
 import { startSendWorker } from "./services/warranty/send.js";
+import { startDigestSchedule } from "./services/digest/digest.js";
 import { startAnswerWarmer } from "./services/answer-warmer.js";
 import { serviceSessionCookie } from "./auth/service-session.js";
 import type { SessionUser } from "./auth/session.js";
@@ -112,6 +113,8 @@ export async function startStack(config: Config, opts: { staticDir?: string } = 
     await boss.start();
     closers.push(() => boss.stop({ graceful: false, wait: true, timeout: 5000 }));
     await startSendWorker({ db, mailer, storage, boss });
+    // the weekly digest: a daily run at 06:00 UTC sends each user theirs on the weekday they chose
+    await startDigestSchedule({ db, mailer, boss, publicUrl: config.publicUrl });
     const imports = { spoolDir: path.join(config.dataDir, "uploads"), maxUploadBytes: config.maxUploadBytes, databaseUrl: config.databaseUrl };
     await startImportWorkers({ db, pool, storage, boss, spoolDir: imports.spoolDir, databaseUrl: config.databaseUrl });
 
@@ -120,7 +123,6 @@ export async function startStack(config: Config, opts: { staticDir?: string } = 
       pool,
       publicUrl: config.publicUrl,
       sessionSecret: secrets.sessionSecret,
-      benchmarkPeerSecret: config.benchmarkPeerSecret,
       rateLimits: config.rateLimits,
       oidc: createOidcClient({ issuer, clientId: config.oidc.clientId, clientSecret }),
       issuer,

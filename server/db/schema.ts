@@ -56,6 +56,28 @@ export interface AppSettingEventTable {
   sentence: string;
 }
 
+/** Stock on hand of a part number at a shop, entered for the winter stock advice (migrations/0066). */
+export interface WinterStockTable {
+  shop_code: string;
+  part_number: string;
+  quantity: number;
+  updated_by_sub: string;
+  updated_by_name: string;
+  updated_at: Generated<Date>;
+}
+
+/** Every change of a winter stock count, with who made it (migrations/0066). */
+export interface WinterStockEventTable {
+  event_id: Generated<string>;
+  shop_code: string;
+  part_number: string;
+  old_quantity: number | null;
+  new_quantity: number;
+  actor_sub: string;
+  actor_name: string;
+  at: Generated<Date>;
+}
+
 /** Overview visits: the baseline for "new clusters since your last visit" (migrations/0030). */
 export interface AppUserVisitTable {
   sub: string;
@@ -99,6 +121,22 @@ export interface FindingEventTable {
   note: string | null;
 }
 
+/** A user's weekly digest choice: on or off and its ISO weekday, 1 = Monday (migrations/0067). */
+export interface DigestPreferenceTable {
+  sub: string;
+  enabled: Generated<boolean>;
+  weekday: Generated<number>;
+  updated_at: Generated<Date>;
+}
+
+/** One row per user and ISO week ("2025-W28") once that week's digest has gone (migrations/0067). */
+export interface DigestSentTable {
+  sub: string;
+  week: string;
+  sent_at: Generated<Date>;
+  message_id: string | null;
+}
+
 // Warehouse tables are declared in warehouse-schema.ts and merged here.
 import type { WarehouseTables } from "./warehouse-schema.js";
 
@@ -109,8 +147,12 @@ export interface Database extends WarehouseTables {
   app_user: AppUserTable;
   app_user_event: AppUserEventTable;
   app_user_visit: AppUserVisitTable;
+  digest_preference: DigestPreferenceTable;
+  digest_sent: DigestSentTable;
   finding_state: FindingStateTable;
   finding_event: FindingEventTable;
+  winter_stock: WinterStockTable;
+  winter_stock_event: WinterStockEventTable;
 }
 
 export type AppUser = Selectable<AppUserTable>;

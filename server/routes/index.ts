@@ -16,13 +16,16 @@ import { overviewRoutes } from "./overview.js";
 import { clusterDetailRoutes } from "./analytics-cluster-detail.js";
 import { batchRoutes, importRoutes } from "./imports.js";
 import { findingRoutes } from "./findings.js";
+import { benchSheetRoutes } from "./bench-sheet.js";
+import { winterFittingRoutes } from "./winter-fitting.js";
+import { winterRoutes } from "./winter.js";
+import { digestRoutes } from "./digest.js";
 
 /** Mounts the resource routers under /api. Each router declares its roles with allow(). */
 export function apiRoutes(
   db: Db,
   pool: pg.Pool,
   services: Omit<ClaimRouteDeps, "db">,
-  peerSecret: string,
   imports: { spoolDir: string; maxUploadBytes: number; databaseUrl?: string },
 ): Router {
   const router = Router();
@@ -30,7 +33,7 @@ export function apiRoutes(
   router.use("/analytics/rates", analyticsRateRoutes(db));
   router.use("/analytics/life", analyticsLifeRoutes(db));
   router.use("/analytics/clusters", analyticsClusterRoutes(db));
-  router.use("/benchmarks", benchmarkRoutes(db, peerSecret));
+  router.use("/benchmarks", benchmarkRoutes(db));
   // the money report, line inclusion and versions, and the story (narrative, notes) sit beside the claims
   // router behind the same roles; mounted first, as "/money" would otherwise be taken for a claim id
   router.use("/claims", allow(...claimRoles), claimLifecycleRoutes({ db, ...services }), claimStoryRoutes({ db, ...services }));
@@ -42,5 +45,9 @@ export function apiRoutes(
   router.use("/imports", importRoutes({ db, pool, storage: services.storage, boss: services.boss, ...imports }));
   router.use("/batches", batchRoutes({ db }));
   router.use("/findings", findingRoutes(db));
+  router.use("/bench-sheet", benchSheetRoutes({ db, pool }));
+  router.use("/winter/fitting", winterFittingRoutes(db));
+  router.use("/winter", winterRoutes(db));
+  router.use("/digest", digestRoutes(db));
   return router;
 }

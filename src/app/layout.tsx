@@ -3,6 +3,7 @@ import { useSuspenseQuery } from "@tanstack/react-query";
 import { Suspense, useState } from "react";
 import { meQueries } from "@/features/session/api/me-queries";
 import { navFor } from "./navigation";
+import { pagePaths } from "./page-paths";
 import { LogoMark } from "@/components/logo-mark";
 import { Skeleton } from "@/components/ui/states";
 import { SignInScreen } from "@/routes/sign-in";
@@ -32,7 +33,10 @@ function UserMenu({ me }: { me: Me }) {
           <p className="text-muted">
             {me.scope.kind === "all" ? "All shops" : `Shops: ${me.scope.shops.join(", ") || "none"}`}
           </p>
-          <form method="post" action="/auth/logout" className="mt-3">
+          <NavLink to={pagePaths.account} role="menuitem" onClick={() => setOpen(false)} className="mt-3 block rounded border border-line px-3 py-1.5 text-center hover:bg-paper">
+            Your account and weekly digest
+          </NavLink>
+          <form method="post" action="/auth/logout" className="mt-2">
             <button type="submit" role="menuitem" className="w-full rounded bg-slate px-3 py-1.5 text-paper">
               Sign out
             </button>

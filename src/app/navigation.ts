@@ -1,5 +1,6 @@
-import { claimRoles, importRoles, lifeRoles, rateRoles, type Role } from "@shared/roles";
+import { allRoles, benchSheetWriteRoles, claimRoles, importRoles, lifeRoles, rateRoles, type Role } from "@shared/roles";
 import { pagePaths } from "./page-paths";
+import { winterReadinessRoles } from "@shared/schemas/fitting-list";
 
 export type PageKey = keyof typeof pagePaths;
 
@@ -29,7 +30,10 @@ export const pageAccess: Record<PageKey, PageAccess> = {
   life: { roles: lifeRoles, title: "The life curves (Weibull, Kaplan–Meier, repeat repairs)", menu: "Life" },
   repairs: { roles: ALL, title: "The repair records", menu: "Repairs" },
   repair: { roles: ALL, title: "A repair record" },
+  // the technician's only menu page, so their home (homeFor)
+  benchSheet: { roles: benchSheetWriteRoles, title: "The bench sheet", menu: "Bench sheet" },
   benchmarks: { roles: BENCHMARKS, title: "The shop benchmarks", menu: "Benchmarks" },
+  winter: { roles: winterReadinessRoles, title: "Winter readiness", menu: "Winter readiness" },
   adminUsers: { roles: ADMIN, title: "User administration", menu: "Users" },
   adminShops: { roles: ADMIN, title: "Shop administration", menu: "Shops" },
   adminProfiles: { roles: ADMIN, title: "Export profiles", menu: "Profiles" },
@@ -43,6 +47,8 @@ export const pageAccess: Record<PageKey, PageAccess> = {
   batchRejects: { roles: importRoles, title: "A load's rejected rows" },
   adminMail: { roles: ADMIN, title: "Captured mail", menu: "Captured mail" },
   adminSettings: { roles: ADMIN, title: "Group settings", menu: "Settings" },
+  // reached from the user menu in the header, not the main menu
+  account: { roles: allRoles, title: "Your account" },
 };
 
 export interface NavItem {

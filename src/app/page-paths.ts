@@ -10,7 +10,9 @@ export const pagePaths = {
   life: "/life",
   repairs: "/repairs",
   repair: "/repairs/:id",
+  benchSheet: "/bench-sheet",
   benchmarks: "/benchmarks",
+  winter: "/winter",
   claims: "/claims",
   claimNew: "/claims/new",
   claim: "/claims/:id",
@@ -24,4 +26,5 @@ export const pagePaths = {
   adminWarrantyPolicy: "/admin/warranty-policies/:family",
   imports: "/imports",
   batchRejects: "/imports/batches/:id",
+  account: "/account",
 } as const;

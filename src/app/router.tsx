@@ -1,8 +1,9 @@
-import { createBrowserRouter, type RouteObject } from "react-router-dom";
+import { createBrowserRouter, redirect, type RouteObject } from "react-router-dom";
 import type { QueryClient } from "@tanstack/react-query";
 import { Layout } from "./layout";
 import { lazyPage } from "./page-loader";
 import { pagePaths } from "./page-paths";
+import { homeFor, mayOpen } from "./navigation";
 import { RouteError } from "@/routes/route-error";
 import { AreaError, type AreaWords } from "@/routes/area-error";
 import { SignedOutRoute } from "@/routes/sign-in";
@@ -18,10 +19,13 @@ export function routes(qc: QueryClient): RouteObject[] {
       path: pagePaths.overview,
       element: <Layout />,
       errorElement: <RouteError />,
-      loader: async () => {
-        await qc.ensureQueryData(meQueries.current());
+      loader: async ({ request }) => {
+        const me = await qc.ensureQueryData(meQueries.current());
+        // a role without the overview (the technician) starts on its own home page
+        if (me && new URL(request.url).pathname === pagePaths.overview && !mayOpen("overview", me.roles)) return redirect(homeFor(me.roles).to);
         return null;
       },
+      shouldRevalidate: ({ currentUrl, nextUrl, defaultShouldRevalidate }) => defaultShouldRevalidate || (nextUrl.pathname === pagePaths.overview && currentUrl.pathname !== nextUrl.pathname),
       children: [
         area({ subject: "the failure analytics", list: { to: pagePaths.clusters, label: "All clusters" } }, [
           { index: true, lazy: lazyPage(qc, "overview", () => import("@/routes/overview")) },
@@ -34,9 +38,13 @@ export function routes(qc: QueryClient): RouteObject[] {
           { path: pagePaths.repairs, lazy: lazyPage(qc, "repairs", () => import("@/routes/repairs")) },
           { path: pagePaths.repair, lazy: lazyPage(qc, "repair", () => import("@/routes/repair-detail")) },
         ]),
+        area({ subject: "the bench sheet" }, [
+          { path: pagePaths.benchSheet, lazy: lazyPage(qc, "benchSheet", () => import("@/routes/bench-sheet")) },
+        ]),
         area({ subject: "the shop benchmarks" }, [
           { path: pagePaths.benchmarks, lazy: lazyPage(qc, "benchmarks", () => import("@/routes/benchmarks")) },
         ]),
+        area({ subject: "winter readiness" }, [{ path: pagePaths.winter, lazy: lazyPage(qc, "winter", () => import("@/routes/winter")) }]),
         area({ subject: "warranty claims", list: { to: pagePaths.claims, label: "All claims" } }, [
           { path: pagePaths.claims, lazy: lazyPage(qc, "claims", () => import("@/routes/claims")) },
           { path: pagePaths.claimNew, lazy: lazyPage(qc, "claimNew", () => import("@/routes/claim-new")) },
@@ -55,6 +63,9 @@ export function routes(qc: QueryClient): RouteObject[] {
           { path: pagePaths.adminSettings, lazy: lazyPage(qc, "adminSettings", () => import("@/routes/admin-settings")) },
           { path: pagePaths.adminWarrantyPolicies, lazy: lazyPage(qc, "adminWarrantyPolicies", () => import("@/routes/admin-warranty-policies")) },
           { path: pagePaths.adminWarrantyPolicy, lazy: lazyPage(qc, "adminWarrantyPolicy", () => import("@/routes/admin-warranty-policy")) },
+        ]),
+        area({ subject: "your account" }, [
+          { path: pagePaths.account, lazy: lazyPage(qc, "account", () => import("@/routes/account")) },
         ]),
         { path: "*", lazy: () => import("@/routes/not-found") },
       ],

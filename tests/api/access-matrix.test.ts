@@ -8,6 +8,8 @@ import { sql } from "kysely";
 import request from "supertest";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { apiPaths } from "../../shared/api-paths.js";
+import { benchLineId, benchSheetPaths } from "../../shared/schemas/bench-sheet.js";
+import { digestApiPath } from "../../shared/schemas/digest.js";
 import { allRoles, groupWideRoles, type Role } from "../../shared/roles.js";
 import { insertAttachment } from "../../server/db/queries/claims.js";
 import { testApp, type TestApp } from "../helpers/test-app.js";
@@ -48,6 +50,8 @@ interface Fixtures {
   attachment: Record<"own" | "other", string>;
   /** a cluster id of the scan filtered to each shop */
   cluster: Record<"own" | "other", string>;
+  /** the lines above as the bench sheet names them (benchLineId) with what a new line would need */
+  bench: Record<"own" | "other", { id: string; shopCode: string; roNumber: string; lineNo: number; serial: string; openedDate: string }>;
 }
 
 interface Req {
@@ -70,7 +74,10 @@ interface Entry {
   fresh?: boolean;
 }
 
-const ALL: readonly Role[] = ["admin", "analyst", "director", "clerk", "manager"];
+const ALL: readonly Role[] = ["admin", "analyst", "director", "clerk", "manager", "technician"];
+/** the bench sheet: technicians and managers work their shops' lines, analysts and admins read (shared/roles.ts) */
+const BENCH_READ: readonly Role[] = ["technician", "manager", "analyst", "admin"];
+const BENCH_WRITE: readonly Role[] = ["technician", "manager"];
 const ANALYTICS: readonly Role[] = ["admin", "analyst", "director", "clerk", "manager"];
 /** the life curves: the page and its API serve the group-wide analysis roles only (shared/roles.ts lifeRoles) */
 const LIFE: readonly Role[] = ["admin", "analyst", "director"];
@@ -82,6 +89,8 @@ const ADMIN: readonly Role[] = ["admin"];
 const IMPORTS: readonly Role[] = ["admin", "analyst", "manager"];
 const FINDINGS_READ: readonly Role[] = ["analyst", "director", "clerk", "admin"];
 const FINDINGS_WORK: readonly Role[] = ["analyst", "director", "admin"];
+/** the winter-readiness forecast and stock counts (shared/schemas/fitting-list.ts winterReadinessRoles) */
+const WINTER: readonly Role[] = ["analyst", "director", "manager", "admin"];
 /** a complete warranty policy (the seeded default's terms) for the policy routes */
 const POLICY = {
   coverage: { base: { months: 24, hours: 2000 }, engine: { months: 36, hours: 3000 } },
@@ -191,6 +200,28 @@ const ACCESS: Record<string, Entry> = {
     expect: gate(ADMIN, 200),
     invalid: () => ({ path: apiPaths.adminSettings(), body: { currency: "dollars" } }),
   },
+  // the user's own weekly digest: every role reads its preview; a choice is stored only for a user who has
+  // signed in (these sessions are minted without a stored user, so 409 in words), a wrong day is 400
+  "GET /api/digest": { req: () => ({ path: digestApiPath }), expect: gate(ALL, 200) },
+  "PUT /api/digest": {
+    req: () => ({ path: digestApiPath, body: { enabled: true, weekday: 1 } }),
+    expect: gate(ALL, 409),
+    invalid: () => ({ path: digestApiPath, body: { enabled: true, weekday: 9 } }),
+  },
+  // winter readiness: the forecast, its backtest and the stock counts, a manager for their own shops only
+  "GET /api/winter/forecast": { req: () => ({ path: "/api/winter/forecast" }), expect: gate(WINTER, 200) },
+  "GET /api/winter/backtest": { req: () => ({ path: "/api/winter/backtest" }), expect: gate(WINTER, 200) },
+  "GET /api/winter/stock": { req: () => ({ path: "/api/winter/stock" }), expect: gate(WINTER, 200) },
+  "PUT /api/winter/stock": {
+    shop: "resource",
+    req: (_f, side) => ({ path: "/api/winter/stock", body: { shopCode: codeOf(side), partNumber: "KW26HP410", quantity: 2 } }),
+    expect: gate(WINTER, 200, 403),
+    invalid: () => ({ path: "/api/winter/stock", body: { shopCode: OWN, partNumber: "KW26HP410", quantity: -1 } }),
+  },
+  // the block-heater fitting list (JSON, CSV, printable PDF): always the caller's own shops, never a shop parameter
+  "GET /api/winter/fitting": { req: () => ({ path: "/api/winter/fitting" }), expect: gate(WINTER, 200) },
+  "GET /api/winter/fitting/list.csv": { req: () => ({ path: "/api/winter/fitting/list.csv" }), expect: gate(WINTER, 200) },
+  "GET /api/winter/fitting/list.pdf": { req: () => ({ path: "/api/winter/fitting/list.pdf" }), expect: gate(WINTER, 200) },
 
   "GET /api/overview": { req: () => ({ path: apiPaths.overview() }), expect: gate(ANALYTICS, 200) },
   "GET /api/analytics/rates/hour-bands": { shop: "filter", req: filtered((s) => apiPaths.rates("hour-bands", s)), expect: gate(RATES, 200, "as-empty") },
@@ -300,6 +331,33 @@ const ACCESS: Record<string, Entry> = {
     expect: gate(FINDINGS_WORK, 404),
     invalid: () => ({ path: apiPaths.finding("part=none;lot=none"), body: { status: "dismissed" } }),
   },
+  // the bench sheet: a search answers with the caller's shops' lines only; adding a line that is in the warehouse
+  // already is refused in words (409) on an own shop and 403 on another; a sheet with an impossible value (9,000 psi)
+  // is refused in words (422) and nothing is stored; another shop's line is not found (404)
+  "GET /api/bench-sheet/lines": { req: () => ({ path: benchSheetPaths.search("00") }), expect: gate(BENCH_READ, 200) },
+  "POST /api/bench-sheet/lines": {
+    shop: "resource",
+    req: (f, side) => {
+      const b = f.bench[mine(side)];
+      return { path: benchSheetPaths.lines(), body: { shopCode: b.shopCode, roNumber: b.roNumber, lineNo: b.lineNo, serial: b.serial, openedDate: b.openedDate, complaint: "Hard start when cold" } };
+    },
+    expect: gate(BENCH_WRITE, 409, 403),
+    invalid: (f) => ({ path: benchSheetPaths.lines(), body: { shopCode: f.bench.own.shopCode, roNumber: "", lineNo: 0 } }),
+  },
+  "GET /api/bench-sheet/lines/:id": { shop: "resource", req: (f, side) => ({ path: benchSheetPaths.line(f.bench[mine(side)].id) }), expect: gate(BENCH_READ, 200, 404) },
+  "PUT /api/bench-sheet/lines/:id/sheet": {
+    shop: "resource",
+    req: (f, side) => ({
+      path: benchSheetPaths.sheet(f.bench[mine(side)].id),
+      body: {
+        readingDate: f.bench[mine(side)].openedDate, conditions: { ambient: null, engine: null, hourMeter: null }, railVoltage: null, preheatLamp: null,
+        plugs: [], compression: { unit: "psi", cylinders: [{ position: 1, attempts: [9000] }] },
+      },
+    }),
+    expect: gate(BENCH_WRITE, 422, 404),
+    invalid: (f) => ({ path: benchSheetPaths.sheet(f.bench.own.id), body: { readingDate: "yesterday" } }),
+  },
+
   "GET /api/imports": { req: () => ({ path: apiPaths.imports() }), expect: gate(IMPORTS, 200) },
   "GET /api/imports/profiles": { req: () => ({ path: apiPaths.importProfiles() }), expect: gate(IMPORTS, 200) },
   // a form without a file: an allowed caller is told to choose one (400); nothing is stored
@@ -410,6 +468,15 @@ async function pickLine(shop: string): Promise<string> {
   return res.rows[0].key;
 }
 
+async function benchLineOf(key: string): Promise<Fixtures["bench"]["own"]> {
+  const r = await sql<{ shop_code: string; ro_number: string; line_no: number; serial: string; opened_date: string }>`
+    SELECT s.shop_code, fl.ro_number, fl.line_no, m.serial, fl.opened_date FROM fact_repair_line fl
+    JOIN dim_shop s ON s.shop_key = fl.shop_key JOIN dim_machine m ON m.machine_key = fl.machine_key
+    WHERE fl.repair_line_key = ${key}::bigint`.execute(t.db);
+  const x = r.rows[0]!;
+  return { id: benchLineId(x.shop_code, x.ro_number, x.line_no), shopCode: x.shop_code, roNumber: x.ro_number, lineNo: x.line_no, serial: x.serial, openedDate: x.opened_date };
+}
+
 beforeAll(async () => {
   const start = Date.now();
   t = await testApp({ demo: true });
@@ -441,7 +508,8 @@ beforeAll(async () => {
     if (!scan.body.clusters.length) throw new Error(`the scan of ${codeOf(side)} finds no cluster`);
     cluster[side] = scan.body.clusters[0].id;
   }
-  fx = { line, claim, attachment, cluster };
+  const bench = { own: await benchLineOf(line.own), other: await benchLineOf(line.other) };
+  fx = { line, claim, attachment, cluster, bench };
   timing.fixtures = Date.now() - start;
 }, 600_000);
 

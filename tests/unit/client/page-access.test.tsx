@@ -52,7 +52,7 @@ function visit(entries: string[]) {
 }
 
 const retryButtons = () => screen.queryAllByRole("button", { name: /retry|reload/i });
-const managerPages = ["Overview", "Clusters", "Rates", "Repairs", "Benchmarks", "Claims", "Imports"];
+const managerPages = ["Overview", "Clusters", "Rates", "Repairs", "Bench sheet", "Benchmarks", "Winter readiness", "Claims", "Imports"];
 
 describe("the page table", () => {
   it("gives the menu its entries: every menu item has its page's roles", () => {
