@@ -28,6 +28,9 @@ const MOUNTS: Record<string, string> = {
   "server/routes/claim-story.ts": "/api/claims",
   "server/routes/imports.ts": "/api/imports",
   "server/routes/findings.ts": "/api/findings",
+  "server/routes/bench-sheet.ts": "/api/bench-sheet",
+  "server/routes/winter.ts": "/api/winter",
+  "server/routes/digest.ts": "/api/digest",
 };
 
 function stateChangingRoutes(): { file: string; method: string; path: string }[] {
