@@ -9,6 +9,7 @@ import {
   classifyPlug,
   classifyRailVoltage,
   compressionBand,
+  familyCompressionBand,
   summariseCompression,
   type CompressionSummary,
   type PlugVerdict,
@@ -18,6 +19,7 @@ import {
 import { KPA_PER_PSI, toKpa } from "./format.js";
 import { celsiusToFahrenheit } from "./bands.js";
 import { generalSource, thresholdSourceWords, type ThresholdSource } from "./threshold-source.js";
+import { familyCompressionOf, familyPlugLimitOf, type EngineSpec } from "./schemas/engine-specs.js";
 
 /** NIST SP 811 (2008), Table 5: the SI prefix kilo is 10³, so 1 kΩ = 1,000 Ω. */
 export const OHMS_PER_KILOHM = 1000;
@@ -57,10 +59,17 @@ export const GENERAL_COMPRESSION_LIMITS: CompressionLimits = {
   source: generalSource("common practice, no source"),
 };
 
-/** What the parts desk knows of the plug: how long it usually takes to arrive and whether it is back-ordered now. */
+/**
+ * What the parts desk knows of the plug: its part number, how long it usually takes from order to receipt (the
+ * median, and the 90th percentile, in days) and whether it is back-ordered at the shop now.
+ */
 export interface PartsOutlook {
+  partNumber?: string | null;
   typicalWaitDays: number | null;
+  p90WaitDays?: number | null;
   backOrderedNow: boolean | null;
+  /** the order lines the wait figures were taken over */
+  lines?: number;
 }
 
 export interface PlugResult {
@@ -76,6 +85,8 @@ export interface PlugResult {
   failed: boolean;
   /** the meter and the bench disagree */
   conflict: string | null;
+  /** the verdict was decided by the engine family's own healthy maximum (its source is in the label) */
+  familyFigure: boolean;
 }
 
 const benchWords: Record<BenchTestResult, string> = {
@@ -84,13 +95,16 @@ const benchWords: Record<BenchTestResult, string> = {
   not_tested: "not bench-tested",
 };
 
-/** Each plug's meter reading against its siblings (classifyPlug), with its bench test beside it. */
-export function interpretPlugs(plugs: readonly BenchPlug[]): PlugResult[] {
+/**
+ * Each plug's meter reading against its siblings (classifyPlug), with its bench test beside it; against the
+ * family's healthy maximum (and its source named in the label) where the family has one.
+ */
+export function interpretPlugs(plugs: readonly BenchPlug[], family: { healthyMaxOhms: number; source: ThresholdSource } | null = null): PlugResult[] {
   const ohms = plugs.map((p) => resistanceOhms(p.resistance));
   return plugs.map((p, i) => {
     const o = ohms[i];
     const siblings = ohms.filter((_, j) => j !== i).filter((s): s is number | null => s !== undefined);
-    const c = o === undefined ? null : classifyPlug(o, siblings);
+    const c = o === undefined ? null : classifyPlug(o, siblings, family?.healthyMaxOhms ?? null);
     const open = c?.verdict === "open";
     let conflict: string | null = null;
     if (open && p.bench === "heats") conflict = "reads open but heats on the bench: measure again with the lead disconnected and clean contacts";
@@ -99,12 +113,13 @@ export function interpretPlugs(plugs: readonly BenchPlug[]): PlugResult[] {
       position: p.position,
       ohms: o,
       verdict: c?.verdict ?? null,
-      label: c?.label ?? null,
+      label: c ? (c.familyFigure && family ? `${c.label} (${thresholdSourceWords(family.source)})` : c.label) : null,
       provenance: c?.provenance ?? null,
       bench: p.bench,
       benchWords: benchWords[p.bench],
       failed: open || p.bench === "no_heat",
       conflict,
+      familyFigure: !!(c?.familyFigure && family),
     };
   });
 }
@@ -143,12 +158,9 @@ function cylinderVerdict(psi: number, limits: CompressionLimits): { verdict: Ver
     const b = compressionBand(psi);
     return { verdict: b.verdict, band: b.label, provenance: b.provenance };
   }
-  const from = thresholdSourceWords(limits.source);
   // the family's own figures are the maker's; the tag names only how Ironledger holds its generic bands
-  const provenance: Provenance = "common practice, no source";
-  if (psi >= limits.targetMin) return { verdict: "good", band: `${limits.targetMin}–${limits.targetMax} psi: the family's target (${from})`, provenance };
-  if (psi >= limits.allowableMin) return { verdict: "watch", band: `under the family's target of ${limits.targetMin} psi, above its minimum of ${limits.allowableMin} psi (${from})`, provenance };
-  return { verdict: "fault", band: `below ${limits.allowableMin} psi: under the family's allowable minimum (${from})`, provenance };
+  const b = familyCompressionBand(psi, limits);
+  return { verdict: b.verdict, band: `${b.label} (${thresholdSourceWords(limits.source)})`, provenance: "common practice, no source" };
 }
 
 /**
@@ -221,10 +233,17 @@ export interface BenchSummary {
 
 export interface SummaryOptions {
   limits?: CompressionLimits;
+  /** the engine family's healthy maximum plug resistance (Ω) from the maker's manual, and its source */
+  plugLimit?: { healthyMaxOhms: number; source: ThresholdSource } | null;
   /** the plug's availability; null or left out when the parts desk has no figure */
   parts?: PartsOutlook | null;
   /** a pressure in psi in the reader's unit (default "N psi") */
   pressure?: (psi: number) => string;
+}
+
+/** The summary's options for an engine family's own figures (its compression limits and plug maximum), or the generic bands. */
+export function familyOptions(spec: EngineSpec | null): Pick<SummaryOptions, "limits" | "plugLimit"> {
+  return spec ? { limits: familyCompressionOf(spec), plugLimit: familyPlugLimitOf(spec) } : { limits: GENERAL_COMPRESSION_LIMITS, plugLimit: null };
 }
 
 const NUMBER_WORDS = ["no", "one", "two", "three", "four", "five", "six", "seven", "eight", "nine", "ten", "eleven", "twelve"];
@@ -237,7 +256,7 @@ const COMMON: Provenance = "common practice, no source";
 export function summariseBenchSheet(sheet: BenchSheet, o: SummaryOptions = {}): BenchSummary {
   const limits = o.limits ?? GENERAL_COMPRESSION_LIMITS;
   const psi = o.pressure ?? ((p: number) => `${Math.round(p)} psi`);
-  const plugs = interpretPlugs(sheet.plugs);
+  const plugs = interpretPlugs(sheet.plugs, o.plugLimit ?? null);
   const compression = interpretCompression(sheet.compression, limits);
   const rail = interpretRail(sheet.railVoltage, sheet.preheatLamp);
   const coldShop = sheet.conditions.ambient === null ? null : ambientF(sheet.conditions.ambient) < COLD_SHOP_F;
@@ -324,9 +343,18 @@ function partsSteps(parts: PartsOutlook | null, coldShop: boolean | null): State
   if (!known) {
     steps.push({ text: "Ask the parts desk whether the plugs are in stock: Ironledger holds no availability figure for this line.", provenance: COMMON });
   } else {
-    const wait = parts.typicalWaitDays === null ? "" : `they usually take ${parts.typicalWaitDays} ${parts.typicalWaitDays === 1 ? "day" : "days"} to arrive`;
-    const back = parts.backOrderedNow === null ? "" : parts.backOrderedNow ? "back-ordered now" : "not back-ordered now";
-    steps.push({ text: `Plugs: ${[wait, back].filter(Boolean).join("; ")}.`, provenance: COMMON });
+    const days = (n: number) => `${n} ${n === 1 ? "day" : "days"}`;
+    const typical = parts.typicalWaitDays === null ? null : Math.round(parts.typicalWaitDays);
+    const p90 = parts.p90WaitDays === null || parts.p90WaitDays === undefined ? null : Math.round(parts.p90WaitDays);
+    const wait =
+      typical !== null
+        ? `typically ${days(typical)} from order to receipt${p90 !== null && p90 > typical ? ` (9 orders in 10 within ${days(p90)})` : ""}`
+        : parts.lines !== undefined
+          ? `too few orders in the last 12 months to say how long they take (only ${parts.lines})`
+          : "";
+    const interim = coldShop ? " — consider the interim option below" : "";
+    const back = parts.backOrderedNow === null ? "" : parts.backOrderedNow ? `back-ordered at your shop now${interim}` : "not back-ordered at your shop now";
+    steps.push({ text: `Heater plugs${parts.partNumber ? ` ${parts.partNumber}` : ""}: ${[wait, back].filter(Boolean).join("; ")}.`, provenance: COMMON });
   }
   const waiting = known ? parts.backOrderedNow === true || (parts.typicalWaitDays ?? 0) >= 1 : null;
   if (coldShop && waiting !== false) {

@@ -4,7 +4,32 @@
  * source; "from memory" = a value recalled, not checked against a source. These are decision support,
  * not a repair procedure: the maker's service manual for the engine family always wins.
  */
+import type { ThresholdSource } from "./threshold-source.js";
+
 export type Provenance = "common practice, no source" | "from memory";
+
+/**
+ * An engine family's own compression figures in psi, from the maker's service manual (shared/schemas/engine-specs.ts),
+ * and where they come from. They replace the generic compression bands for that family's readings.
+ */
+export interface FamilyCompression {
+  targetMin: number;
+  targetMax: number;
+  allowableMin: number;
+  source: ThresholdSource;
+}
+
+const wholePsi = (psi: number) => `${Math.round(psi)} psi`;
+
+/**
+ * A compression reading against a family's own figures: good from the target's low end up, watch from the
+ * allowable minimum to the target, fault below the allowable minimum. The label names the figure, not its source.
+ */
+export function familyCompressionBand(psi: number, f: FamilyCompression): { verdict: Verdict; label: string } {
+  if (psi >= f.targetMin) return { verdict: "good", label: `${Math.round(f.targetMin)}–${wholePsi(f.targetMax)}: the family's target` };
+  if (psi >= f.allowableMin) return { verdict: "watch", label: `under the family's target of ${wholePsi(f.targetMin)}, above its allowable minimum of ${wholePsi(f.allowableMin)}` };
+  return { verdict: "fault", label: `below ${wholePsi(f.allowableMin)}: under the family's allowable minimum` };
+}
 
 export interface Threshold {
   label: string;
@@ -43,6 +68,8 @@ export interface CompressionSummary {
   spreadVerdict: Verdict;
   spreadBand: string;
   pattern: { kind: "even" | "one-low" | "two-adjacent-low" | "all-low" | "scattered"; meaning: string; provenance: Provenance };
+  /** the cylinders were judged against the engine family's own figures (familyCompressionBand), not the generic bands */
+  family: FamilyCompression | null;
 }
 
 const mean = (xs: number[]) => xs.reduce((s, x) => s + x, 0) / xs.length;
@@ -55,14 +82,15 @@ export function compressionBand(psi: number) {
  * Compression test summary: each cylinder is the mean of its attempts; the engine is rated by its lowest
  * cylinder, shown beside the average; spread = (max − min) ÷ max. A cylinder counts as low when it is
  * more than 10 % under the highest. Patterns: one low → valves; two adjacent low → head gasket between
- * them; all below 300 psi → rings (common practice, no source).
+ * them; all below 300 psi → rings (common practice, no source). With a family's own figures, each cylinder (and
+ * so the lowest) is judged against them instead of the generic bands; spread and pattern stay generic.
  */
-export function summariseCompression(readings: readonly CylinderReading[]): CompressionSummary | null {
+export function summariseCompression(readings: readonly CylinderReading[], family: FamilyCompression | null = null): CompressionSummary | null {
   const cyl = readings.filter((r) => r.attempts.length > 0).sort((a, b) => a.position - b.position);
   if (cyl.length === 0) return null;
   const cylinders = cyl.map((c) => {
     const m = mean(c.attempts);
-    const b = compressionBand(m);
+    const b = family ? familyCompressionBand(m, family) : compressionBand(m);
     return { position: c.position, attempts: [...c.attempts], mean: m, verdict: b.verdict, band: b.label };
   });
   const lo = cylinders.reduce((a, b) => (b.mean < a.mean ? b : a));
@@ -85,6 +113,7 @@ export function summariseCompression(readings: readonly CylinderReading[]): Comp
     spreadVerdict: sb.verdict,
     spreadBand: sb.label,
     pattern,
+    family,
   };
 }
 
@@ -93,17 +122,26 @@ export type PlugVerdict = "healthy" | "open" | "short" | "high" | "suspect";
 /**
  * Heater-plug resistance, cold and disconnected: 0.5–2 Ω healthy (≈ 1 Ω typical), "OL" or tens of kΩ
  * open, above 10 Ω failed (classifier cut, from memory), 2–10 Ω high, below 0.5 Ω possibly shorted
- * (from memory); a plug well above its siblings (more than 1.5× their median) is suspect.
+ * (from memory); a plug well above its siblings (more than 1.5× their median) is suspect. An engine family's own
+ * healthy maximum (from the maker's service manual) replaces the 2 Ω line; `familyFigure` is then true on the
+ * verdicts it decided (healthy, high).
  */
-export function classifyPlug(ohms: number | null, siblings: readonly (number | null)[] = []): { verdict: PlugVerdict; label: string; provenance: Provenance } {
+export function classifyPlug(
+  ohms: number | null,
+  siblings: readonly (number | null)[] = [],
+  familyHealthyMax: number | null = null,
+): { verdict: PlugVerdict; label: string; provenance: Provenance; familyFigure?: true } {
   if (ohms === null || ohms > 10) return { verdict: "open", label: ohms === null ? "over range (OL): open circuit, failed" : "above 10 Ω: open, failed", provenance: ohms === null || ohms >= 1000 ? "common practice, no source" : "from memory" };
   if (ohms < 0.5) return { verdict: "short", label: "below 0.5 Ω: possible short", provenance: "from memory" };
-  if (ohms > 2) return { verdict: "high", label: "2–10 Ω: above the healthy band", provenance: "from memory" };
+  if (familyHealthyMax !== null) {
+    if (ohms > familyHealthyMax) return { verdict: "high", label: `above the family's healthy maximum of ${familyHealthyMax} Ω`, provenance: "common practice, no source", familyFigure: true };
+  } else if (ohms > 2) return { verdict: "high", label: "2–10 Ω: above the healthy band", provenance: "from memory" };
   const others = siblings.filter((s): s is number => s !== null && s <= 10).sort((a, b) => a - b);
   if (others.length >= 2) {
     const med = others[Math.floor(others.length / 2)];
     if (ohms > 1.5 * med) return { verdict: "suspect", label: "clearly above its sibling plugs: suspect", provenance: "common practice, no source" };
   }
+  if (familyHealthyMax !== null) return { verdict: "healthy", label: `0.5–${familyHealthyMax} Ω: healthy (the family's maximum)`, provenance: "common practice, no source", familyFigure: true };
   return { verdict: "healthy", label: "0.5–2 Ω: healthy", provenance: "common practice, no source" };
 }
 

@@ -78,6 +78,23 @@ export interface WinterStockEventTable {
   at: Generated<Date>;
 }
 
+/** Every saved version of an engine family's own compression figures; never updated (migrations/0069). */
+export interface EngineSpecVersionTable {
+  spec_version_id: Generated<string>;
+  engine_family: string;
+  version: number;
+  entered_unit: "psi" | "kPa" | "bar";
+  /** numeric: pg returns it as a string */
+  target_min_psi: ColumnType<string, number | string, never>;
+  target_max_psi: ColumnType<string, number | string, never>;
+  allowable_min_psi: ColumnType<string, number | string, never>;
+  plug_healthy_max_ohm: ColumnType<string | null, number | string | null, never>;
+  source: string;
+  saved_by: string;
+  saved_at: ColumnType<Date, Date | undefined, never>;
+  note: string;
+}
+
 /** Overview visits: the baseline for "new clusters since your last visit" (migrations/0030). */
 export interface AppUserVisitTable {
   sub: string;
@@ -149,6 +166,7 @@ export interface Database extends WarehouseTables {
   app_user_visit: AppUserVisitTable;
   digest_preference: DigestPreferenceTable;
   digest_sent: DigestSentTable;
+  engine_spec_version: EngineSpecVersionTable;
   finding_state: FindingStateTable;
   finding_event: FindingEventTable;
   winter_stock: WinterStockTable;

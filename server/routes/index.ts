@@ -20,6 +20,7 @@ import { benchSheetRoutes } from "./bench-sheet.js";
 import { winterFittingRoutes } from "./winter-fitting.js";
 import { winterRoutes } from "./winter.js";
 import { digestRoutes } from "./digest.js";
+import { adminEngineSpecRoutes, engineSpecRoutes } from "./admin-engine-specs.js";
 
 /** Mounts the resource routers under /api. Each router declares its roles with allow(). */
 export function apiRoutes(
@@ -49,5 +50,7 @@ export function apiRoutes(
   router.use("/winter/fitting", winterFittingRoutes(db));
   router.use("/winter", winterRoutes(db));
   router.use("/digest", digestRoutes(db));
+  router.use("/admin/engine-specs", adminEngineSpecRoutes(db));
+  router.use("/engine-specs", engineSpecRoutes(db));
   return router;
 }

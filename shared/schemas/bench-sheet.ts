@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { engineSpecSchema } from "./engine-specs.js";
 
 /**
  * The bench sheet: readings a technician takes at the machine, saved straight into the warehouse through the
@@ -146,6 +147,17 @@ export const benchLineDetailSchema = z.object({
   readings: z.array(benchReadingSchema),
   /** the last hour-meter reading entered on a sheet for the line's machine on or after the line opened */
   hourMeter: z.object({ hours: z.number(), readingDate: z.string(), loadedBy: z.string() }).nullable(),
+  /**
+   * The heater plug of the line's engine family at the parts desk: its part number, the median and 90th-percentile
+   * days from order to receipt over the group's lines ordered in the last 12 months of data (null with fewer than
+   * 5 lines), whether a line of it at the line's shop is back-ordered and not received, and the lines counted.
+   * Null when the family's lines carry no heater-plug part number.
+   */
+  plugParts: z
+    .object({ partNumber: z.string(), typicalWaitDays: z.number().nullable(), p90WaitDays: z.number().nullable(), backOrderedNow: z.boolean(), lines: z.number().int() })
+    .nullable(),
+  /** the engine family's own figures from the maker's service manual, or null: the generic bands apply */
+  familySpec: engineSpecSchema.nullable(),
 });
 export type BenchLineDetail = z.infer<typeof benchLineDetailSchema>;
 

@@ -40,6 +40,7 @@ export const pageAccess: Record<PageKey, PageAccess> = {
   adminProfile: { roles: ADMIN, title: "An export profile" },
   adminWarrantyPolicies: { roles: ADMIN, title: "Warranty policies", menu: "Warranty policies" },
   adminWarrantyPolicy: { roles: ADMIN, title: "A warranty policy" },
+  adminEngineSpecs: { roles: ADMIN, title: "Engine figures", menu: "Engine figures" },
   claims: { roles: claimRoles, title: "Warranty claims", menu: "Claims" },
   claimNew: { roles: claimRoles, title: "A new warranty claim" },
   claim: { roles: claimRoles, title: "A warranty claim" },

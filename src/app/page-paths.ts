@@ -24,6 +24,7 @@ export const pagePaths = {
   adminSettings: "/admin/settings",
   adminWarrantyPolicies: "/admin/warranty-policies",
   adminWarrantyPolicy: "/admin/warranty-policies/:family",
+  adminEngineSpecs: "/admin/engine-specs",
   imports: "/imports",
   batchRejects: "/imports/batches/:id",
   account: "/account",

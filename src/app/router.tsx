@@ -63,6 +63,7 @@ export function routes(qc: QueryClient): RouteObject[] {
           { path: pagePaths.adminSettings, lazy: lazyPage(qc, "adminSettings", () => import("@/routes/admin-settings")) },
           { path: pagePaths.adminWarrantyPolicies, lazy: lazyPage(qc, "adminWarrantyPolicies", () => import("@/routes/admin-warranty-policies")) },
           { path: pagePaths.adminWarrantyPolicy, lazy: lazyPage(qc, "adminWarrantyPolicy", () => import("@/routes/admin-warranty-policy")) },
+          { path: pagePaths.adminEngineSpecs, lazy: lazyPage(qc, "adminEngineSpecs", () => import("@/routes/admin-engine-specs")) },
         ]),
         area({ subject: "your account" }, [
           { path: pagePaths.account, lazy: lazyPage(qc, "account", () => import("@/routes/account")) },

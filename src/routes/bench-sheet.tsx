@@ -56,8 +56,8 @@ function Sheet({ me, detail }: { me: Me; detail: BenchLineDetail }) {
         {l.complaint && <p className="mt-1 text-sm">Complaint: {l.complaint}</p>}
         {saved > 0 && <p className="mt-1 text-sm font-semibold">{fmt.count(saved)} readings saved from a sheet on this line{detail.hourMeter ? `; hour meter ${fmt.quantity("hours", detail.hourMeter.hours)} h on ${fmt.date(detail.hourMeter.readingDate)}` : ""}.</p>}
       </header>
-      <SheetForm draft={draft} edit={edit} refusals={refusals} temperatureUnit={temperatureUnit} parts={null} />
-      <SheetSummary draft={draft} parts={null} temperatureUnit={temperatureUnit} />
+      <SheetForm draft={draft} edit={edit} refusals={refusals} temperatureUnit={temperatureUnit} parts={detail.plugParts} spec={detail.familySpec} />
+      <SheetSummary draft={draft} parts={detail.plugParts} spec={detail.familySpec} temperatureUnit={temperatureUnit} />
       {sync.kind === "failed" && <ErrorNotice error={sync.error} />}
       {refusals.some((r) => r.field === "sheet") && (
         <ul className="text-sm font-semibold text-alert">{refusals.filter((r) => r.field === "sheet").map((r, i) => <li key={i}>{r.label}: {r.reason}</li>)}</ul>

@@ -10,6 +10,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { apiPaths } from "../../shared/api-paths.js";
 import { benchLineId, benchSheetPaths } from "../../shared/schemas/bench-sheet.js";
 import { digestApiPath } from "../../shared/schemas/digest.js";
+import { engineSpecPaths } from "../../shared/schemas/engine-specs.js";
 import { allRoles, groupWideRoles, type Role } from "../../shared/roles.js";
 import { insertAttachment } from "../../server/db/queries/claims.js";
 import { testApp, type TestApp } from "../helpers/test-app.js";
@@ -75,6 +76,8 @@ interface Entry {
 }
 
 const ALL: readonly Role[] = ["admin", "analyst", "director", "clerk", "manager", "technician"];
+/** figures an administrator might type from a maker's manual (test input, psi) */
+const ENGINE_SPEC = { unit: "psi", targetMin: 420, targetMax: 480, allowableMin: 380, plugHealthyMaxOhms: null, source: "engine section, table 2" };
 /** the bench sheet: technicians and managers work their shops' lines, analysts and admins read (shared/roles.ts) */
 const BENCH_READ: readonly Role[] = ["technician", "manager", "analyst", "admin"];
 const BENCH_WRITE: readonly Role[] = ["technician", "manager"];
@@ -357,6 +360,17 @@ const ACCESS: Record<string, Entry> = {
     expect: gate(BENCH_WRITE, 422, 404),
     invalid: (f) => ({ path: benchSheetPaths.sheet(f.bench.own.id), body: { readingDate: "yesterday" } }),
   },
+
+  // an engine family's own figures: administrators list, read and save them (an edit from a version that is not the
+  // latest is told to reopen, 409, and nothing is saved); every signed-in role reads the figures readings are judged by
+  "GET /api/admin/engine-specs": { req: () => ({ path: engineSpecPaths.adminList() }), expect: gate(ADMIN, 200) },
+  "GET /api/admin/engine-specs/:family": { req: () => ({ path: engineSpecPaths.admin("K26-4R") }), expect: gate(ADMIN, 200) },
+  "PUT /api/admin/engine-specs/:family": {
+    req: () => ({ path: engineSpecPaths.admin("K26-4R"), body: { spec: ENGINE_SPEC, basedOn: 99, note: "access check" } }),
+    expect: gate(ADMIN, 409),
+    invalid: () => ({ path: engineSpecPaths.admin("K26-4R"), body: { spec: { ...ENGINE_SPEC, allowableMin: 500 }, basedOn: null, note: "access check" } }),
+  },
+  "GET /api/engine-specs/:family": { req: () => ({ path: engineSpecPaths.current("K26-4R") }), expect: gate(ALL, 200) },
 
   "GET /api/imports": { req: () => ({ path: apiPaths.imports() }), expect: gate(IMPORTS, 200) },
   "GET /api/imports/profiles": { req: () => ({ path: apiPaths.importProfiles() }), expect: gate(IMPORTS, 200) },

@@ -31,6 +31,7 @@ const MOUNTS: Record<string, string> = {
   "server/routes/bench-sheet.ts": "/api/bench-sheet",
   "server/routes/winter.ts": "/api/winter",
   "server/routes/digest.ts": "/api/digest",
+  "server/routes/admin-engine-specs.ts": "/api/admin/engine-specs",
 };
 
 function stateChangingRoutes(): { file: string; method: string; path: string }[] {

@@ -48,17 +48,17 @@ describe("a shop manager's account page, in Chromium", () => {
     await toggle.click();
     await page().getByRole("status").getByText(/^Off: no weekly digest is sent to you/).waitFor();
     expect(await toggle.getAttribute("aria-checked")).toBe("false");
-    expect(await stored()).toEqual([{ enabled: false, weekday: 1 }]);
+    await expect.poll(stored, { timeout: 30_000 }).toEqual([{ enabled: false, weekday: 1 }]);
     expect(await page().getByLabel("Comes on").isDisabled()).toBe(true);
     await toggle.click();
     await page().getByRole("status").getByText(/every Monday morning/).waitFor();
-    expect(await stored()).toEqual([{ enabled: true, weekday: 1 }]);
+    await expect.poll(stored, { timeout: 30_000 }).toEqual([{ enabled: true, weekday: 1 }]);
   }, 60_000);
 
   it("moves the digest to the chosen weekday", async () => {
     await page().getByLabel("Comes on").selectOption({ label: "Wednesday" });
     await page().getByRole("status").getByText(/every Wednesday morning/).waitFor();
-    expect(await stored()).toEqual([{ enabled: true, weekday: 3 }]);
+    await expect.poll(stored, { timeout: 30_000 }).toEqual([{ enabled: true, weekday: 3 }]);
     await page().reload();
     await page().getByRole("status").getByText(/every Wednesday morning/).waitFor();
     expect(await page().getByLabel("Comes on").inputValue()).toBe("3");

@@ -83,6 +83,13 @@ describe("the technician's bench sheet in Chromium at 390 px", () => {
     const plugs = page.getByRole("region", { name: /Heater plugs/ });
     await plugs.getByText(/Bench tests with a battery can spark/).waitFor();
     await expect(plugs.getByText(/maker's service manual/).count()).resolves.toBeGreaterThan(0);
+    // the plugs' availability from the group's order history: the part the family's heater-plug lines use most
+    const part = await sql<{ part_number: string }>`
+      SELECT fl.part_number FROM fact_repair_line fl JOIN dim_machine m ON m.machine_key = fl.machine_key JOIN dim_component c ON c.component_key = fl.component_key
+      WHERE c.component_code = 'ENG-CSA-HPLUG' AND m.engine_family = 'K26-4R' AND fl.part_number IS NOT NULL
+      GROUP BY 1 ORDER BY count(*) DESC, 1 LIMIT 1`.execute(env.stack.tdb.db);
+    const summary = page.getByRole("region", { name: "What the readings point to" });
+    await summary.getByText(new RegExp(`Heater plugs ${part.rows[0].part_number}: typically \\d+ days? from order to receipt`)).waitFor();
   });
 
   it("keeps the sheet on the device with no connection and sends it once when the connection returns", async () => {
@@ -101,7 +108,8 @@ describe("the technician's bench sheet in Chromium at 390 px", () => {
 
     const summary = page.getByRole("region", { name: "What the readings point to" });
     await summary.getByText("All four plugs open, compression healthy: the plugs, not the engine, explain the hard cold start.").waitFor();
-    await summary.getByText(/If the plugs must wait, a block heater .* clean the socket first/).waitFor();
+    // the plugs take days to arrive (the group's order history), so the block heater is offered for the wait
+    await summary.getByText(/While the plugs are on their way, a block heater .* clean the socket first/).waitFor();
 
     await page.getByRole("button", { name: "Save the sheet" }).click();
     await page.getByText(/No connection: the sheet is kept on this device and will be sent by itself/).waitFor();

@@ -6,7 +6,7 @@
 import { sql } from "kysely";
 import type { Db } from "../database.js";
 import type { ShopScope } from "../../../shared/schemas/me.js";
-import { engineFamilies } from "../../../shared/catalog.js";
+import { engineFamilies, HEATER_PLUG } from "../../../shared/catalog.js";
 import { benchLineId, BENCH_OPEN_DAYS, type BenchLine, type BenchReading } from "../../../shared/schemas/bench-sheet.js";
 import { scopedShopCodes } from "./scope.js";
 
@@ -144,4 +144,68 @@ export async function sheetFactCounts(db: Db): Promise<{ lines: number; readings
            (SELECT count(*)::int FROM fact_meter_reading) AS hours
   `.execute(db);
   return r.rows[0]!;
+}
+
+/** Order lines needed before a typical wait is stated: fewer say nothing reliable. */
+export const MIN_WAIT_LINES = 5;
+
+export interface PlugPartsRow {
+  partNumber: string;
+  /** median days from order to receipt, over the part's received lines in the window; null with fewer than MIN_WAIT_LINES */
+  typicalWaitDays: number | null;
+  p90WaitDays: number | null;
+  /** a line of the part at the shop is back-ordered and not received yet */
+  backOrderedNow: boolean;
+  /** received lines of the part in the window (the wait figures' basis) */
+  lines: number;
+}
+
+/**
+ * The heater plug of an engine family as the parts desk sees it: the part number the shops' heater-plug lines
+ * for that family use most, its order-to-receipt wait over the group's lines ordered in the 12 months up to
+ * `through` (default: the newest order date in the warehouse; the median and 90th percentile, PostgreSQL's
+ * percentile_cont, i.e. linear interpolation between order statistics), and whether a line of it at `shopCode`
+ * is back-ordered and not received. Lines still waiting are left out of the figures (their wait is not known
+ * yet), so in a back-order spell the figures run short. Null when the family's lines carry no part number.
+ */
+export async function plugParts(db: Db, family: string | null, shopCode: string, through?: string): Promise<PlugPartsRow | null> {
+  if (!family) return null;
+  const r = await sql<{ part_number: string; lines: number; p50: number | null; p90: number | null; back_ordered_now: boolean }>`
+    WITH part AS (
+      SELECT fl.part_number
+      FROM fact_repair_line fl
+      JOIN dim_machine m ON m.machine_key = fl.machine_key
+      JOIN dim_component c ON c.component_key = fl.component_key
+      WHERE c.component_code = ${HEATER_PLUG} AND m.engine_family = ${family} AND fl.part_number IS NOT NULL
+      GROUP BY fl.part_number
+      ORDER BY count(*) DESC, fl.part_number
+      LIMIT 1
+    ), upto AS (
+      SELECT coalesce(${through ?? null}::date, (SELECT max(part_ordered_date) FROM fact_repair_line)) AS d
+    ), waits AS (
+      SELECT fl.parts_wait_days AS days
+      FROM fact_repair_line fl, part, upto
+      WHERE fl.part_number = part.part_number AND fl.parts_wait_days >= 0
+        AND fl.part_ordered_date > (upto.d - interval '12 months')::date AND fl.part_ordered_date <= upto.d
+    )
+    SELECT part.part_number,
+           (SELECT count(*)::int FROM waits) AS lines,
+           (SELECT percentile_cont(0.5) WITHIN GROUP (ORDER BY days) FROM waits) AS p50,
+           (SELECT percentile_cont(0.9) WITHIN GROUP (ORDER BY days) FROM waits) AS p90,
+           EXISTS (
+             SELECT 1 FROM fact_repair_line fl JOIN dim_shop s ON s.shop_key = fl.shop_key
+             WHERE fl.part_number = part.part_number AND s.shop_code = ${shopCode} AND fl.back_ordered AND fl.part_received_date IS NULL
+           ) AS back_ordered_now
+    FROM part
+  `.execute(db);
+  const row = r.rows[0];
+  if (!row) return null;
+  const enough = row.lines >= MIN_WAIT_LINES;
+  return {
+    partNumber: row.part_number,
+    typicalWaitDays: enough && row.p50 !== null ? Number(row.p50) : null,
+    p90WaitDays: enough && row.p90 !== null ? Number(row.p90) : null,
+    backOrderedNow: row.back_ordered_now,
+    lines: row.lines,
+  };
 }

@@ -2,7 +2,8 @@ import { HEATER_PLUG } from "../../../shared/catalog.js";
 import type { ShopScope } from "../../../shared/schemas/me.js";
 import type { BenchCreateLine, BenchLineDetail, BenchSaveResponse, BenchSheet } from "../../../shared/schemas/bench-sheet.js";
 import { HttpError } from "../../errors.js";
-import { getBenchLine, lineExists, lineReadings, sheetHourMeter } from "../../db/queries/bench-sheet.js";
+import { getBenchLine, lineExists, lineReadings, plugParts, sheetHourMeter } from "../../db/queries/bench-sheet.js";
+import { currentSpec } from "../../db/queries/engine-family-specs.js";
 import { scopeIncludes } from "../../db/queries/scope.js";
 import { hoursRows, jobRows, measurementRows } from "./sheet-rows.js";
 import { loadSheetFiles, type SheetLoadDeps } from "./save-sheet.js";
@@ -30,8 +31,13 @@ export async function lineDetail(deps: SheetLoadDeps, scope: ShopScope, ref: Lin
   const line = await getBenchLine(deps.db, scope, ref.shopCode, ref.roNumber, ref.lineNo);
   if (!line) throw lineNotFound(ref);
   const { key, ...rest } = line;
-  const [readings, hourMeter] = await Promise.all([lineReadings(deps.db, key), sheetHourMeter(deps.db, line.serial, line.openedDate)]);
-  return { line: rest, readings, hourMeter };
+  const [readings, hourMeter, parts, familySpec] = await Promise.all([
+    lineReadings(deps.db, key),
+    sheetHourMeter(deps.db, line.serial, line.openedDate),
+    plugParts(deps.db, line.engineFamily, line.shopCode),
+    currentSpec(deps.db, line.engineFamily),
+  ]);
+  return { line: rest, readings, hourMeter, plugParts: parts, familySpec };
 }
 
 /**

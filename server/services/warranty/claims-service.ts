@@ -14,6 +14,7 @@ import {
   hourTrail, policyVersionById, repairLinesByKeys, type Actor, type ClaimRow, type PolicyRow,
 } from "../../db/queries/claims.js";
 import { judgedUnderWords } from "./eligibility.js";
+import { currentSpec } from "../../db/queries/engine-family-specs.js";
 import { eligibilityCounts, judging, mainEngineFamily, toEvidence } from "./evidence.js";
 import { compareByDeadline, filingDeadline } from "./deadline.js";
 import { allowedMoves, checkSubmit } from "./status.js";
@@ -41,11 +42,15 @@ const imageTypes = new Set(["image/png", "image/jpeg", "image/webp", "image/gif"
 export async function evidenceFor(db: Db, scope: ShopScope, keys: readonly string[], today: string, judgedUnder: PolicyRow | null = null): Promise<RepairLineEvidence[]> {
   const { lines, measurements, faults } = await repairLinesByKeys(db, scope, keys);
   const policies = new Map<string, PolicyRow>();
-  for (const fam of new Set(lines.map((l) => l.engine_family))) policies.set(fam, judgedUnder ?? (await policyFor(db, fam)));
+  const specs = new Map<string, Awaited<ReturnType<typeof currentSpec>>>();
+  for (const fam of new Set(lines.map((l) => l.engine_family))) {
+    policies.set(fam, judgedUnder ?? (await policyFor(db, fam)));
+    specs.set(fam, await currentSpec(db, fam));
+  }
   const trail = lines.length === 1 ? await hourTrail(db, lines[0].machine_key, lines[0].opened_date) : null;
   return lines.map((l) => {
     const p = policies.get(l.engine_family)!;
-    return toEvidence(l, measurements, faults, p.claim_days, today, trail, judging(p));
+    return toEvidence(l, measurements, faults, p.claim_days, today, trail, judging(p), specs.get(l.engine_family) ?? null);
   });
 }
 

@@ -1,6 +1,7 @@
 /** A repair line as warranty evidence: its readings interpreted, its eligibility and filing deadline, and sums over lines. */
 import { classifyPlug, classifyRailVoltage, compressionBands, spreadBands, summariseCompression, type Provenance } from "../../../shared/measurement-interpretation.js";
 import { generalSource, thresholdSourceWords } from "../../../shared/threshold-source.js";
+import { familyCompressionOf, familyPlugLimitOf, type EngineSpec } from "../../../shared/schemas/engine-specs.js";
 import type { EligibilityView, Interpretation, RepairLineEvidence } from "../../../shared/schemas/claims.js";
 import type { FaultCodeRow, HourReadingRow, MeasurementRow, PolicyRow, RepairLineRow } from "../../db/queries/claims.js";
 import { coverageClassFor, DEFAULT_TERMS, eligibility, termsFor, termsSourceWords, type PolicyCoverage } from "./eligibility.js";
@@ -12,9 +13,9 @@ const num = (v: string | number | null | undefined): number | null => (v === nul
 const hasPreheatCode = (faults: readonly FaultCodeRow[]) => faults.some((f) => f.fmi === 4 || f.fmi === 5);
 
 /**
- * Where a band's threshold comes from, in words for the maker. Every band is Ironledger's own (a rule of thumb
- * or a recalled value, by its provenance tag): no store of the maker's values entered by a shop exists yet, so
- * each reads as general service practice (shared/threshold-source.ts).
+ * Where a band's threshold comes from, in words for the maker. A generic band is Ironledger's own (a rule of
+ * thumb or a recalled value, by its provenance tag) and reads as general service practice; an engine family's
+ * own figures name the maker's service manual, the family's version and who entered them (shared/threshold-source.ts).
  */
 const sourceOf = (provenance: Provenance) => thresholdSourceWords(generalSource(provenance));
 const bandSource = (label: string) => sourceOf(compressionBands.find((b) => b.label === label)?.provenance ?? "common practice, no source");
@@ -22,26 +23,35 @@ const bandSource = (label: string) => sourceOf(compressionBands.find((b) => b.la
 /**
  * The readings of one repair line, interpreted: compression per cylinder (mean of attempts, average,
  * lowest, spread, pattern), each heater plug's resistance against its siblings, rail and battery voltage;
- * each verdict with where its threshold comes from, in words.
+ * each verdict with where its threshold comes from, in words. With the engine family's own figures (`spec`), the
+ * cylinders and the plugs' healthy maximum are judged against them and name them as their source.
  */
-export function interpretMeasurements(ms: readonly MeasurementRow[], faults: readonly FaultCodeRow[]): Interpretation {
+export function interpretMeasurements(ms: readonly MeasurementRow[], faults: readonly FaultCodeRow[], spec: EngineSpec | null = null): Interpretation {
+  const family = spec ? familyCompressionOf(spec) : null;
+  const plugLimit = familyPlugLimitOf(spec);
+  const cylinderSource = (band: string) => (family ? thresholdSourceWords(family.source) : bandSource(band));
   const byPos = new Map<number, number[]>();
   for (const m of ms.filter((x) => x.kind === "compression" && x.value !== null)) {
     byPos.set(m.position, [...(byPos.get(m.position) ?? []), Number(m.value)]);
   }
-  const summary = summariseCompression([...byPos].map(([position, attempts]) => ({ position, attempts })));
-  const compression = summary && {
-    ...summary,
-    cylinders: summary.cylinders.map((c) => ({ ...c, source: bandSource(c.band) })),
-    lowest: { ...summary.lowest, source: bandSource(summary.lowest.band) },
-    spreadSource: sourceOf(spreadBands.find((b) => b.label === summary.spreadBand)?.provenance ?? "common practice, no source"),
-    pattern: { ...summary.pattern, source: sourceOf(summary.pattern.provenance) },
-  };
+  const judged = summariseCompression([...byPos].map(([position, attempts]) => ({ position, attempts })), family);
+  let compression: Interpretation["compression"] = null;
+  if (judged) {
+    const { family: _figures, ...summary } = judged;
+    compression = {
+      ...summary,
+      cylinders: summary.cylinders.map((c) => ({ ...c, source: cylinderSource(c.band) })),
+      lowest: { ...summary.lowest, source: cylinderSource(summary.lowest.band) },
+      spreadSource: sourceOf(spreadBands.find((b) => b.label === summary.spreadBand)?.provenance ?? "common practice, no source"),
+      pattern: { ...summary.pattern, source: sourceOf(summary.pattern.provenance) },
+    };
+  }
   const plugRows = ms.filter((x) => x.kind === "plug_resistance");
   const plugOhms = plugRows.map((p) => (p.over_range ? null : num(p.value)));
   const plugs = plugRows.map((p, i) => {
-    const c = classifyPlug(plugOhms[i], plugOhms.filter((_, j) => j !== i));
-    return { position: p.position, ohms: plugOhms[i], raw: `${p.raw_value}${p.raw_unit ? ` ${p.raw_unit}` : ""}`, ...c, source: sourceOf(c.provenance) };
+    const { familyFigure, ...c } = classifyPlug(plugOhms[i], plugOhms.filter((_, j) => j !== i), plugLimit?.healthyMaxOhms ?? null);
+    const source = familyFigure && plugLimit ? thresholdSourceWords(plugLimit.source) : sourceOf(c.provenance);
+    return { position: p.position, ohms: plugOhms[i], raw: `${p.raw_value}${p.raw_unit ? ` ${p.raw_unit}` : ""}`, ...c, source };
   });
   const rail = ms
     .filter((x) => x.kind === "rail_voltage" && x.value !== null)
@@ -98,6 +108,7 @@ export function toEvidence(
   today: string,
   trail: readonly HourReadingRow[] | null = null,
   policy: JudgingPolicy | null = null,
+  spec: EngineSpec | null = null,
 ): RepairLineEvidence {
   const own = ms.filter((m) => m.repair_line_key === l.repair_line_key);
   const roReading = trail?.find((r) => r.repair_line_key === l.repair_line_key);
@@ -145,7 +156,7 @@ export function toEvidence(
       rawValue: m.raw_value,
       rawUnit: m.raw_unit,
     })),
-    interpretation: interpretMeasurements(own, codes),
+    interpretation: interpretMeasurements(own, codes, spec),
     eligibility: lineEligibility(l, policy),
     deadline: l.closed_date ? filingDeadline(l.closed_date, claimDays, today) : null,
     hourTrail: trail

@@ -151,7 +151,7 @@ describe("summariseBenchSheet(sheet, options)", () => {
     const s = summariseBenchSheet(sheet({ conditions: cold, plugs: fourOpen, compression: healthyCompression }), { parts: { typicalWaitDays: 6, backOrderedNow: true } });
     const steps = s.nextSteps.map((n) => n.text);
     expect(s.coldShop).toBe(true);
-    expect(steps).toContain("Plugs: they usually take 6 days to arrive; back-ordered now.");
+    expect(steps).toContain("Heater plugs: typically 6 days from order to receipt; back-ordered at your shop now — consider the interim option below.");
     expect(steps.find((t) => t.includes("block heater"))).toMatch(/^While the plugs are on their way.*clean the socket first/);
   });
 
@@ -163,6 +163,24 @@ describe("summariseBenchSheet(sheet, options)", () => {
     const unknown = summariseBenchSheet(sheet({ conditions: cold, plugs: fourOpen })).nextSteps.map((n) => n.text);
     expect(unknown.some((t) => t.startsWith("Ask the parts desk"))).toBe(true);
     expect(unknown.some((t) => t.startsWith("If the plugs must wait"))).toBe(true);
+  });
+
+  it("names the heater plug's part number, its typical and 90th-percentile wait, and a back-order at the shop", () => {
+    const cold = { ambient: { value: -12, unit: "C" as const }, engine: "cold" as const, hourMeter: null };
+    const warm = { ambient: { value: 10, unit: "C" as const }, engine: "cold" as const, hourMeter: null };
+    const back = { partNumber: "KW26HP410", typicalWaitDays: 3, p90WaitDays: 12, backOrderedNow: true, lines: 40 };
+    const inCold = summariseBenchSheet(sheet({ conditions: cold, plugs: fourOpen }), { parts: back }).nextSteps.map((n) => n.text);
+    expect(inCold[1]).toBe("Heater plugs KW26HP410: typically 3 days from order to receipt (9 orders in 10 within 12 days); back-ordered at your shop now — consider the interim option below.");
+    expect(inCold[2]).toMatch(/^While the plugs are on their way, a block heater/);
+    // no interim option offered in a warm shop, so none is pointed to; a median of 46.5 days reads as 47 (rounded half up)
+    const inWarm = summariseBenchSheet(sheet({ conditions: warm, plugs: fourOpen }), { parts: { ...back, typicalWaitDays: 46.5, p90WaitDays: 46.5 } }).nextSteps.map((n) => n.text);
+    expect(inWarm).toEqual(["Replace plugs 1, 2, 3 and 4.", "Heater plugs KW26HP410: typically 47 days from order to receipt; back-ordered at your shop now."]);
+    const few = { partNumber: "KW18HP410", typicalWaitDays: null, p90WaitDays: null, backOrderedNow: false, lines: 3 };
+    expect(summariseBenchSheet(sheet({ conditions: warm, plugs: fourOpen }), { parts: few }).nextSteps[1].text).toBe(
+      "Heater plugs KW18HP410: too few orders in the last 12 months to say how long they take (only 3); not back-ordered at your shop now.",
+    );
+    const oneDay = { partNumber: "KW26HP410", typicalWaitDays: 1, p90WaitDays: 1, backOrderedNow: false, lines: 95 };
+    expect(summariseBenchSheet(sheet({ conditions: warm, plugs: fourOpen }), { parts: oneDay }).nextSteps[1].text).toBe("Heater plugs KW26HP410: typically 1 day from order to receipt; not back-ordered at your shop now.");
   });
 
   it("says nothing before readings are entered", () => {

@@ -1,7 +1,9 @@
 import { useMemo } from "react";
 import { useFormat } from "@/lib/use-format";
 import { cautionsAt, compressionBands } from "@shared/measurement-interpretation";
-import { summariseBenchSheet, type BenchSummary, type PartsOutlook } from "@shared/bench-sheet-summary";
+import { familyOptions, summariseBenchSheet, type BenchSummary, type PartsOutlook } from "@shared/bench-sheet-summary";
+import { thresholdSourceWords } from "@shared/threshold-source";
+import type { EngineSpec } from "@shared/schemas/engine-specs";
 import type { PressureUnit } from "@shared/format";
 import { draftToSheet, fieldIds, parseDecimal, type BenchDraft } from "../draft";
 import type { FieldRefusal } from "../hooks/use-bench-draft";
@@ -13,18 +15,20 @@ interface Props {
   refusals: readonly FieldRefusal[];
   temperatureUnit: "C" | "F";
   parts: PartsOutlook | null;
+  /** the engine family's own figures from the maker's manual, or null: the generic bands */
+  spec: EngineSpec | null;
 }
 
 const PRESSURE_UNITS: readonly { value: PressureUnit; label: string }[] = [{ value: "psi", label: "psi" }, { value: "kPa", label: "kPa" }, { value: "bar", label: "bar" }];
 const typedProblem = (typed: string) => (parseDecimal(typed) === "invalid" ? `“${typed}” is not a number: use digits and one decimal point` : null);
 
 /** The bench sheet's fields, each value interpreted beside it as it is typed, with the cautions of the work at each step. */
-export function SheetForm({ draft, edit, refusals, temperatureUnit, parts }: Props) {
+export function SheetForm({ draft, edit, refusals, temperatureUnit, parts, spec }: Props) {
   const fmt = useFormat();
   const gauge = draft.pressureUnit;
   const inGauge = (psi: number) => fmt.pressure(psi, "psi", gauge);
   const { sheet } = useMemo(() => draftToSheet(draft), [draft]);
-  const summary = useMemo(() => summariseBenchSheet(sheet, { parts, pressure: inGauge }), [sheet, parts, gauge, fmt]); // eslint-disable-line react-hooks/exhaustive-deps
+  const summary = useMemo(() => summariseBenchSheet(sheet, { parts, pressure: inGauge, ...familyOptions(spec) }), [sheet, parts, spec, gauge, fmt]); // eslint-disable-line react-hooks/exhaustive-deps
   const refusedAt = (field: string) => refusals.filter((r) => r.field === field);
   const describe = (...ids: (string | false | null | undefined)[]) => ids.filter(Boolean).join(" ") || undefined;
   const setPlug = (i: number, patch: Partial<BenchDraft["plugs"][number]>) => edit((d) => ({ ...d, plugs: d.plugs.map((p, j) => (j === i ? { ...p, ...patch } : p)) }));
@@ -96,7 +100,7 @@ export function SheetForm({ draft, edit, refusals, temperatureUnit, parts }: Pro
                     OL
                   </button>
                 </div>
-                <Reading id={`${id}-reading`} verdict={bad ? null : r?.verdict ?? null} source={bad ? null : r?.provenance}>
+                <Reading id={`${id}-reading`} verdict={bad ? null : r?.verdict ?? null} source={bad || r?.familyFigure ? null : r?.provenance}>
                   {bad ?? (r?.label ?? "Enter the meter's reading, or OL when it shows over limit.")}
                 </Reading>
                 <Refusals id={`${id}-refused`} items={refusedAt(fieldIds.plug(i))} />
@@ -144,7 +148,7 @@ export function SheetForm({ draft, edit, refusals, temperatureUnit, parts }: Pro
                   })}
                 </div>
                 <div className="mt-2 flex flex-wrap items-center justify-between gap-2">
-                  <Reading id={`${id}-reading`} verdict={r?.verdict ?? null} source={r?.provenance}>
+                  <Reading id={`${id}-reading`} verdict={r?.verdict ?? null} source={spec ? null : r?.provenance}>
                     {r ? `mean ${inGauge(r.mean)}, lowest attempt ${inGauge(r.lowestAttempt)}, attempts within ${fmt.percent(r.attemptSpread)}: ${r.band}` : "Enter at least one attempt."}
                   </Reading>
                   {c.attempts.length < 9 && (
@@ -158,7 +162,12 @@ export function SheetForm({ draft, edit, refusals, temperatureUnit, parts }: Pro
           })}
         </ol>
         {summary.compression && <EngineCompression s={summary} inGauge={inGauge} />}
-        <p className="mt-2 text-xs text-muted">Bands: {compressionBands.map((b) => `${b.label} (${b.provenance})`).join("; ")}. Gauge readings in kPa or bar are compared in psi with the NIST SP 811 factors.</p>
+        <p className="mt-2 text-xs text-muted">
+          {spec
+            ? `${spec.engineFamily}'s own figures: target ${inGauge(spec.targetMinPsi)}–${inGauge(spec.targetMaxPsi)}, allowable minimum ${inGauge(spec.allowableMinPsi)}, from ${thresholdSourceWords(familyOptions(spec).limits!.source)}.`
+            : `Bands: ${compressionBands.map((b) => `${b.label} (${b.provenance})`).join("; ")}.`}{" "}
+          Gauge readings in kPa or bar are compared in psi with the NIST SP 811 factors.
+        </p>
         <Cautions items={cautionsAt("compression", temperatureUnit)} title="Before you crank" />
       </Section>
     </div>

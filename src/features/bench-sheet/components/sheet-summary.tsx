@@ -1,7 +1,8 @@
 import { useMemo } from "react";
 import { useFormat } from "@/lib/use-format";
 import { cautionsAt } from "@shared/measurement-interpretation";
-import { summariseBenchSheet, type PartsOutlook, type Statement } from "@shared/bench-sheet-summary";
+import { familyOptions, summariseBenchSheet, type PartsOutlook, type Statement } from "@shared/bench-sheet-summary";
+import type { EngineSpec } from "@shared/schemas/engine-specs";
 import { draftToSheet, type BenchDraft } from "../draft";
 import { Cautions } from "./touch";
 
@@ -23,9 +24,12 @@ function Statements({ title, items, empty }: { title: string; items: Statement[]
 }
 
 /** What the readings point to, what they rule out and what to do next, from the same rules as the values above. */
-export function SheetSummary({ draft, parts, temperatureUnit }: { draft: BenchDraft; parts: PartsOutlook | null; temperatureUnit: "C" | "F" }) {
+export function SheetSummary({ draft, parts, spec, temperatureUnit }: { draft: BenchDraft; parts: PartsOutlook | null; spec: EngineSpec | null; temperatureUnit: "C" | "F" }) {
   const fmt = useFormat();
-  const s = useMemo(() => summariseBenchSheet(draftToSheet(draft).sheet, { parts, pressure: (psi) => fmt.pressure(psi, "psi", draft.pressureUnit) }), [draft, parts, fmt]);
+  const s = useMemo(
+    () => summariseBenchSheet(draftToSheet(draft).sheet, { parts, pressure: (psi) => fmt.pressure(psi, "psi", draft.pressureUnit), ...familyOptions(spec) }),
+    [draft, parts, spec, fmt],
+  );
   const blockHeater = s.nextSteps.some((n) => n.text.includes("block heater"));
   return (
     <section aria-labelledby="bench-summary" className="rounded-xl border-2 border-slate bg-card p-4">

@@ -1,3 +1,4 @@
+import { useQuery } from "@tanstack/react-query";
 import { useTemperatureUnit } from "@/features/filters/hooks/use-temperature-unit";
 import { usePressureUnit } from "@/features/filters/hooks/use-pressure-unit";
 import { PressureUnitSelect } from "@/features/filters/components/pressure-unit-select";
@@ -14,6 +15,9 @@ import {
   type Verdict,
 } from "@shared/measurement-interpretation";
 import type { RepairDetail, RepairMeasurement } from "@shared/schemas/repairs";
+import { familyCompressionOf, familyPlugLimitOf, type EngineSpec } from "@shared/schemas/engine-specs";
+import { thresholdSourceWords } from "@shared/threshold-source";
+import { engineSpecQueries } from "../api/engine-spec-queries";
 
 const tone: Record<string, string> = {
   good: "bg-ok/10 text-ok", healthy: "bg-ok/10 text-ok", watch: "bg-ochre/15 text-ink", high: "bg-ochre/15 text-ink", suspect: "bg-ochre/15 text-ink",
@@ -25,7 +29,7 @@ function Verdict({ v, children }: { v: Verdict | string; children: React.ReactNo
 const Source = ({ p }: { p: string }) => <span className="text-xs text-muted">({p})</span>;
 const raw = (m: RepairMeasurement) => `${m.rawValue}${m.rawUnit ? ` ${m.rawUnit}` : ""}`;
 
-function Compression({ readings }: { readings: RepairMeasurement[] }) {
+function Compression({ readings, spec }: { readings: RepairMeasurement[]; spec: EngineSpec | null }) {
   const fmt = useFormat();
   const [unit] = usePressureUnit();
   // stored in psi (the warehouse's canonical unit), shown in the reader's
@@ -34,7 +38,9 @@ function Compression({ readings }: { readings: RepairMeasurement[] }) {
   const words = (text: string) => pressuresIn(text, fmt, unit);
   const byCyl = new Map<number, RepairMeasurement[]>();
   for (const r of readings) if (r.value !== null) byCyl.set(r.position, [...(byCyl.get(r.position) ?? []), r]);
-  const s = summariseCompression([...byCyl].map(([position, rs]) => ({ position, attempts: rs.map((r) => r.value!) })));
+  const family = spec ? familyCompressionOf(spec) : null;
+  const familyWords = family ? thresholdSourceWords(family.source) : null;
+  const s = summariseCompression([...byCyl].map(([position, rs]) => ({ position, attempts: rs.map((r) => r.value!) })), family);
   if (!s) return <p className="text-sm text-muted">No compression recorded on this line.</p>;
   const maxAttempts = Math.max(...s.cylinders.map((c) => c.attempts.length));
   return (
@@ -57,7 +63,7 @@ function Compression({ readings }: { readings: RepairMeasurement[] }) {
                 return <td key={i} className="pr-3 text-right tabular-nums" title={m ? `recorded ${raw(m)}; ${m.conversionRule}` : undefined}>{c.attempts[i] === undefined ? "—" : num(c.attempts[i])}</td>;
               })}
               <td className="pr-3 text-right font-semibold tabular-nums">{num(c.mean)}</td>
-              <td><Verdict v={c.verdict}>{c.verdict}</Verdict> <span className="text-xs">{words(c.band)}</span> <Source p={compressionBands.find((b) => b.label === c.band)?.provenance ?? ""} /></td>
+              <td><Verdict v={c.verdict}>{c.verdict}</Verdict> <span className="text-xs">{words(c.band)}</span> <Source p={familyWords ?? compressionBands.find((b) => b.label === c.band)?.provenance ?? ""} /></td>
             </tr>
           ))}
         </tbody>
@@ -68,13 +74,20 @@ function Compression({ readings }: { readings: RepairMeasurement[] }) {
         <div className="rounded border border-line p-2"><dt className="text-xs uppercase text-muted">Spread between cylinders</dt><dd className="font-semibold tabular-nums">{fmt.percent(s.spread)} <Verdict v={s.spreadVerdict}>{s.spreadVerdict}</Verdict></dd><dd className="text-xs">{s.spreadBand} <Source p={spreadBands.find((b) => b.label === s.spreadBand)?.provenance ?? ""} /></dd></div>
       </dl>
       <p className="text-sm">Pattern: {words(s.pattern.meaning)} <Source p={s.pattern.provenance} /></p>
-      <p className="text-xs text-muted">Spread = (highest − lowest) ÷ highest of the cylinder means. Bands: {compressionBands.map((b) => `${words(b.label)} (${b.provenance})`).join("; ")}.{unit === "psi" ? "" : " Bands converted with the NIST SP 811 factors."}</p>
+      <p className="text-xs text-muted">
+        Spread = (highest − lowest) ÷ highest of the cylinder means.{" "}
+        {spec && familyWords
+          ? `Cylinders judged against ${spec.engineFamily}'s own figures: target ${withUnit(spec.targetMinPsi)}–${withUnit(spec.targetMaxPsi)}, allowable minimum ${withUnit(spec.allowableMinPsi)}, from ${familyWords}; spread and pattern on the general bands.`
+          : `Bands: ${compressionBands.map((b) => `${words(b.label)} (${b.provenance})`).join("; ")}.`}
+        {unit === "psi" ? "" : " Figures converted with the NIST SP 811 factors."}
+      </p>
     </div>
   );
 }
 
-function Plugs({ readings }: { readings: RepairMeasurement[] }) {
+function Plugs({ readings, spec }: { readings: RepairMeasurement[]; spec: EngineSpec | null }) {
   const fmt = useFormat();
+  const limit = familyPlugLimitOf(spec);
   if (!readings.length) return <p className="text-sm text-muted">No heater-plug resistance recorded on this line.</p>;
   const values = readings.map((r) => (r.overRange ? null : r.value));
   return (
@@ -82,13 +95,13 @@ function Plugs({ readings }: { readings: RepairMeasurement[] }) {
       <thead className="text-muted"><tr className="border-b border-line"><th className="py-1 pr-3">Plug</th><th className="pr-3">Recorded</th><th className="pr-3 text-right">Resistance</th><th>Reading</th></tr></thead>
       <tbody>
         {readings.map((r, i) => {
-          const c = classifyPlug(values[i], values.filter((_, j) => j !== i));
+          const c = classifyPlug(values[i], values.filter((_, j) => j !== i), limit?.healthyMaxOhms ?? null);
           return (
             <tr key={`${r.position}-${r.attempt}`} className="border-b border-line/60">
               <td className="py-1 pr-3 font-semibold">{r.position || "—"}</td>
               <td className="pr-3" title={r.conversionRule}>{raw(r)}</td>
               <td className="pr-3 text-right tabular-nums">{r.overRange ? "over range" : fmt.reading("resistance", r.value)}</td>
-              <td><Verdict v={c.verdict}>{c.verdict}</Verdict> <span className="text-xs">{c.label}</span> <Source p={c.provenance} /></td>
+              <td><Verdict v={c.verdict}>{c.verdict}</Verdict> <span className="text-xs">{c.label}</span> <Source p={c.familyFigure && limit ? thresholdSourceWords(limit.source) : c.provenance} /></td>
             </tr>
           );
         })}
@@ -148,9 +161,11 @@ function AtTheMachine({ d }: { d: RepairDetail }) {
   );
 }
 
-/** The readings of one line, interpreted against the shared bands, with the safety cautions beside them. */
+/** The readings of one line, interpreted against the engine family's own figures or the shared bands, with the safety cautions beside them. */
 export function MeasurementPanels({ d }: { d: RepairDetail }) {
   const [unit] = useTemperatureUnit();
+  // the family's own figures where an admin entered them; the generic bands while they load or when there are none
+  const spec = useQuery(engineSpecQueries.current(d.machine.engineFamily)).data?.current ?? null;
   const by = (k: string) => d.measurements.filter((m) => m.kind === k);
   return (
     <div className="grid gap-4 lg:grid-cols-[1fr_20rem]">
@@ -161,11 +176,11 @@ export function MeasurementPanels({ d }: { d: RepairDetail }) {
             <h2 id="m-compression" className="font-semibold">Compression</h2>
             <PressureUnitSelect />
           </div>
-          <Compression readings={by("compression")} />
+          <Compression readings={by("compression")} spec={spec} />
         </section>
         <section aria-labelledby="m-plugs" className="rounded-lg border border-line bg-card p-4">
           <h2 id="m-plugs" className="mb-2 font-semibold">Heater-plug resistance (cold, disconnected)</h2>
-          <Plugs readings={by("plug_resistance")} />
+          <Plugs readings={by("plug_resistance")} spec={spec} />
         </section>
         <section aria-labelledby="m-volts" className="rounded-lg border border-line bg-card p-4">
           <h2 id="m-volts" className="mb-2 font-semibold">Voltages</h2>

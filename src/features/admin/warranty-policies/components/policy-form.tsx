@@ -1,4 +1,5 @@
 import { useForm, type FieldPath } from "react-hook-form";
+import { fieldWords } from "@/components/ui/field-words";
 import { zodResolver } from "@hookform/resolvers/zod";
 import { z } from "zod";
 import { ErrorNotice } from "@/components/ui/states";
@@ -35,18 +36,7 @@ export function PolicyForm({ detail, readOnly, onSaved }: Props) {
   const { errors } = form.formState;
   const save = useSavePolicy();
 
-  const errorOf = (f: Field): string | undefined => {
-    const at = f.split(".").reduce<unknown>((o, k) => (o as Record<string, unknown> | undefined)?.[k], errors);
-    return (at as { message?: string } | undefined)?.message;
-  };
-  const fid = (f: string) => `policy-${f.replace(/\./g, "-")}`;
-  const described = (f: Field, hint?: boolean) => [hint ? `${fid(f)}-hint` : "", errorOf(f) ? `${fid(f)}-error` : ""].filter(Boolean).join(" ") || undefined;
-  const problem = (f: Field) =>
-    errorOf(f) ? (
-      <p id={`${fid(f)}-error`} role="alert" className="mt-1 text-xs text-alert">
-        {errorOf(f)}
-      </p>
-    ) : null;
+  const { errorOf, fid, described, problem } = fieldWords(errors, "policy");
   const numberField = (f: Field, text: string, hint?: string) => (
     <div>
       <label htmlFor={fid(f)} className={label}>{text}</label>
