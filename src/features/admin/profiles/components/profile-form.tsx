@@ -1,4 +1,5 @@
 import { useMemo, useState } from "react";
+import { fieldWords } from "@/components/ui/field-words";
 import { useFieldArray, useForm, type FieldPath, type Resolver } from "react-hook-form";
 import { ErrorNotice } from "@/components/ui/states";
 import { ImportPreview } from "@/features/imports/components/import-preview";
@@ -45,17 +46,7 @@ export function ProfileForm({ detail, readOnly, onSaved }: Props) {
   const [newId, setNewId] = useState("");
   const [tried, setTried] = useState<string | null>(null);
 
-  const errorOf = (f: string): string | undefined => {
-    const at = f.split(".").reduce<unknown>((o, k) => (o as Record<string, unknown> | undefined)?.[k], errors);
-    return (at as { message?: string } | undefined)?.message;
-  };
-  const fid = (f: string) => `profile-${f.replace(/\./g, "-")}`;
-  const problem = (f: string) =>
-    errorOf(f) ? (
-      <p id={`${fid(f)}-error`} role="alert" className="mt-1 text-xs text-alert">
-        {errorOf(f)}
-      </p>
-    ) : null;
+  const { errorOf, fid, problem } = fieldWords(errors, "profile");
   const select = (f: Field, text: string, options: Record<string, string>, hint?: string) => (
     <div>
       <label htmlFor={fid(f)} className={label}>{text}</label>
