@@ -1,5 +1,10 @@
 import { afterEach, describe, expect, it } from "vitest";
 import { sql } from "kysely";
+import { execFileSync } from "node:child_process";
+import { mkdtempSync, writeFileSync } from "node:fs";
+import { tmpdir } from "node:os";
+import path from "node:path";
+import { loadFile } from "../../etl/index.js";
 import { forgetSessions, signInThroughProvider } from "../helpers/browser.js";
 import { browserJourney } from "../helpers/browser-journey.js";
 import { DESKTOP, PHONE, photograph, sidewaysOverflow } from "../helpers/photograph.js";
@@ -9,7 +14,8 @@ import { DEMO_PASSWORD } from "../../server/auth/demo-accounts.js";
 // A technician at a four-cylinder machine in a cold shop, on a 390 px phone: finds the line by serial, types four
 // open plugs and healthy compression over three attempts, loses the connection half-way, saves with none, and the
 // sheet goes by itself, once, when the connection returns. The analyst then reads the readings on the repair
-// record, and the warranty clerk in a claim's evidence.
+// record; the shop's export of the line arrives closed and merges into it; the warranty clerk claims it and the
+// packet carries the readings.
 //
 // Expected interpretations are the trade's rules of thumb (common practice, no source): a good heater plug reads
 // about 1 Ω or less, OL or tens of ohms to kΩ means open; about 400–500 psi is healthy compression.
@@ -156,20 +162,52 @@ describe("the technician's bench sheet in Chromium at 390 px", () => {
     await env.browser.screenshot("bench-sheet-02-repair-record-desktop");
   });
 
-  it("shows the readings to the clerk in a claim's evidence view", async () => {
+  it("keeps the readings when the shop's export of the line arrives, closed, and merges it into the sheet's line", async () => {
+    const db = env.stack.tdb.db;
+    const line = await sql<{ opened: string; hours: string | null }>`
+      SELECT opened_date::text AS opened, hour_meter::text AS hours FROM fact_repair_line WHERE ro_number = ${RO}`.execute(db);
+    expect(line.rows).toHaveLength(1);
+    const before = await sql<{ n: string }>`SELECT count(*) AS n FROM fact_measurement m JOIN fact_repair_line l USING (repair_line_key) WHERE l.ro_number = ${RO}`.execute(db);
+    const dir = mkdtempSync(path.join(tmpdir(), "bench-export-"));
+    const file = path.join(dir, "s1-jobs.csv");
+    const { opened, hours } = line.rows[0];
+    writeFileSync(
+      file,
+      "shop_code,ro_number,line_no,serial,opened_date,closed_date,hour_meter,complaint,cause,correction,component_code,pay_type\n" +
+        `S1,${RO},1,${serial},${opened},${opened},${hours ?? ""},Hard start on cold mornings,All four heater plugs open circuit,Replaced the heater-plug set,ENG-CSA-HPLUG,warranty\n`,
+    );
+    const s = await loadFile(env.stack.tdb.pool, { path: file, profile: "generic-jobs", loadedBy: "test: the shop's export" });
+    expect(s).toMatchObject({ rejected: 0, inserted: 0, updated: 1 });
+    const after = await sql<{ n: string; lines: string }>`
+      SELECT count(*) AS n, count(DISTINCT l.repair_line_key) AS lines FROM fact_measurement m JOIN fact_repair_line l USING (repair_line_key) WHERE l.ro_number = ${RO}`.execute(db);
+    expect(after.rows[0]).toEqual({ n: before.rows[0].n, lines: "1" });
+  });
+
+  it("gives the clerk a claim whose packet carries the sheet's readings", async () => {
     const { page } = env.browser;
     await forgetSessions(page);
+    await page.setViewportSize(DESKTOP);
     await signInThroughProvider(page, env.stack.url, "clerk", DEMO_PASSWORD, "/repairs");
     await page.getByRole("textbox", { name: "Search", exact: true }).fill(RO);
     await page.getByRole("button", { name: "Search" }).click();
     await page.getByRole("link", { name: new RegExp(RO) }).first().click();
     await page.getByRole("link", { name: "Open a warranty claim" }).click();
-    // the claim's evidence, before it is made: a line still open cannot be claimed yet, its readings already show
     const readings = page.getByTestId("measurements");
     await readings.waitFor();
-    await page.getByRole("alert").filter({ hasText: "The repair order is still open" }).waitFor();
     for (const n of [1, 2, 3, 4]) await readings.getByText(new RegExp(`^Plug ${n}:`)).waitFor();
     await readings.getByText(/Compression per cylinder/).waitFor();
     await env.browser.screenshot("bench-sheet-03-claim-evidence-desktop");
+    await page.getByRole("button", { name: "Make the claim" }).click();
+    await page.getByRole("heading", { level: 1, name: /^IL-\d{2}R\d{5}$/ }).waitFor();
+    const id = new URL(page.url()).pathname.split("/").pop()!;
+    const pdf = await page.request.get(`${env.stack.url}/api/claims/${id}/packet.pdf`);
+    expect(pdf.status()).toBe(200);
+    const dir = mkdtempSync(path.join(tmpdir(), "bench-packet-"));
+    writeFileSync(path.join(dir, "packet.pdf"), await pdf.body());
+    const text = execFileSync("pdftotext", ["-layout", path.join(dir, "packet.pdf"), "-"], { encoding: "utf8" });
+    expect(text).toContain("Heater-plug resistance (cold, disconnected)");
+    expect(text.match(/\bopen\b/gi)?.length ?? 0).toBeGreaterThanOrEqual(4);
+    expect(text).toMatch(/Compression/);
+    expect(text).toContain(serial);
   });
 });
