@@ -2,6 +2,7 @@ import { beforeAll, describe, expect, it } from "vitest";
 import { signInThroughProvider } from "../helpers/browser.js";
 import { browserJourney } from "../helpers/browser-journey.js";
 import { axeViolations } from "../helpers/axe.js";
+import { photograph } from "../helpers/photograph.js";
 import { DEMO_PASSWORD } from "../../server/auth/demo-accounts.js";
 import { engineSpecPaths } from "../../shared/schemas/engine-specs.js";
 
@@ -53,5 +54,6 @@ describe("an administrator's engine figures, in Chromium", () => {
     expect(row[0].unit).toBe("kPa");
     await page().getByRole("table", { name: "Versions of K26-4R's figures" }).waitFor();
     expect(await axeViolations(page())).toEqual([]);
+    await photograph(env.browser, "admin-engine-specs", page().getByRole("status").getByText("Saved K26-4R as version 1."));
   });
 });
