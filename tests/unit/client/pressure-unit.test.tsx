@@ -4,7 +4,7 @@ import { cleanup, fireEvent, render, screen } from "@testing-library/react";
 import { createFormat } from "@shared/format";
 import { PressureUnitSelect } from "@/features/filters/components/pressure-unit-select";
 import { defaultPressureUnit } from "@/features/filters/hooks/use-pressure-unit";
-import { pressuresIn } from "@/features/repairs/pressure-words";
+import { pressuresIn } from "@shared/format";
 
 afterEach(() => {
   cleanup();

@@ -4,7 +4,7 @@ import { cautionsAt, compressionBands } from "@shared/measurement-interpretation
 import { familyOptions, summariseBenchSheet, type BenchSummary, type PartsOutlook } from "@shared/bench-sheet-summary";
 import { thresholdSourceWords } from "@shared/threshold-source";
 import type { EngineSpec } from "@shared/schemas/engine-specs";
-import type { PressureUnit } from "@shared/format";
+import { pressuresIn, type PressureUnit } from "@shared/format";
 import { draftToSheet, fieldIds, parseDecimal, type BenchDraft } from "../draft";
 import type { FieldRefusal } from "../hooks/use-bench-draft";
 import { Cautions, DecimalInput, Reading, Refusals, Section, Segmented } from "./touch";
@@ -149,7 +149,7 @@ export function SheetForm({ draft, edit, refusals, temperatureUnit, parts, spec 
                 </div>
                 <div className="mt-2 flex flex-wrap items-center justify-between gap-2">
                   <Reading id={`${id}-reading`} verdict={r?.verdict ?? null} source={spec ? null : r?.provenance}>
-                    {r ? `mean ${inGauge(r.mean)}, lowest attempt ${inGauge(r.lowestAttempt)}, attempts within ${fmt.percent(r.attemptSpread)}: ${r.band}` : "Enter at least one attempt."}
+                    {r ? `mean ${inGauge(r.mean)}, lowest attempt ${inGauge(r.lowestAttempt)}, attempts within ${fmt.percent(r.attemptSpread)}: ${pressuresIn(r.band, fmt, gauge)}` : "Enter at least one attempt."}
                   </Reading>
                   {c.attempts.length < 9 && (
                     <button type="button" onClick={() => addAttempt(i)} className="min-h-11 rounded-lg border-2 border-slate/60 bg-card px-3 font-semibold">
@@ -165,7 +165,7 @@ export function SheetForm({ draft, edit, refusals, temperatureUnit, parts, spec 
         <p className="mt-2 text-xs text-muted">
           {spec
             ? `${spec.engineFamily}'s own figures: target ${inGauge(spec.targetMinPsi)}–${inGauge(spec.targetMaxPsi)}, allowable minimum ${inGauge(spec.allowableMinPsi)}, from ${thresholdSourceWords(familyOptions(spec).limits!.source)}.`
-            : `Bands: ${compressionBands.map((b) => `${b.label} (${b.provenance})`).join("; ")}.`}{" "}
+            : `Bands: ${compressionBands.map((b) => `${pressuresIn(b.label, fmt, gauge)} (${b.provenance})`).join("; ")}.`}{" "}
           Gauge readings in kPa or bar are compared in psi with the NIST SP 811 factors.
         </p>
         <Cautions items={cautionsAt("compression", temperatureUnit)} title="Before you crank" />

@@ -3,7 +3,7 @@ import { useTemperatureUnit } from "@/features/filters/hooks/use-temperature-uni
 import { usePressureUnit } from "@/features/filters/hooks/use-pressure-unit";
 import { PressureUnitSelect } from "@/features/filters/components/pressure-unit-select";
 import { useFormat } from "@/lib/use-format";
-import { pressuresIn } from "../pressure-words";
+import { pressuresIn } from "@shared/format";
 import { codedWords, kindName, sheetProvenance, storedReading } from "../reading-words";
 import {
   classifyPlug,
