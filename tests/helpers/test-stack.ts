@@ -31,19 +31,29 @@ export interface TestStack extends Stack {
 export async function startTestStack(env: Record<string, string> = {}, o: { demo?: boolean } = {}): Promise<TestStack> {
   const tdb = o.demo ? await freshDemoDb() : await freshTestDb();
   const dataDir = mkdtempSync(path.join(tmpdir(), "ironledger-test-"));
-  const port = await freePort();
-  const config = loadConfig({
-    PORT: String(port),
-    LOCAL_OIDC_PORT: String(await freePort()),
-    LOCAL_SMTP_PORT: String(await freePort()),
-    LOCAL_S3_PORT: String(await freePort()),
-    DATABASE_URL: tdb.url,
-    DATA_DIR: dataDir,
-    LOAD_DEMO: "0",
-    WARM_ANSWERS: "0",
-    ...env,
-  });
-  const stack = await startStack(config);
+  // a port found free can be taken by another test process before the stack listens on it: try fresh ports
+  const start = async () =>
+    startStack(
+      loadConfig({
+        PORT: String(await freePort()),
+        LOCAL_OIDC_PORT: String(await freePort()),
+        LOCAL_SMTP_PORT: String(await freePort()),
+        LOCAL_S3_PORT: String(await freePort()),
+        DATABASE_URL: tdb.url,
+        DATA_DIR: dataDir,
+        LOAD_DEMO: "0",
+        WARM_ANSWERS: "0",
+        ...env,
+      }),
+    );
+  let stack: Stack | undefined;
+  for (let attempt = 1; !stack; attempt++) {
+    try {
+      stack = await start();
+    } catch (err) {
+      if ((err as NodeJS.ErrnoException).code !== "EADDRINUSE" || attempt >= 3) throw err;
+    }
+  }
   return {
     ...stack,
     tdb,
