@@ -2,7 +2,7 @@ import * as Plot from "@observablehq/plot";
 import type { Palette } from "@/lib/palette";
 import { MINIMUM_LINES, type Funnel, type FunnelLimits, type FunnelStatus, type Trend } from "@shared/schemas/benchmarks";
 import type { FixRow } from "@shared/schemas/benchmark-details";
-import { dodgeLabels } from "./label-dodge";
+import { spreadLabels } from "./label-spread";
 
 /** Colour of a funnel status; where a higher rate is better (first-time fix) above the funnel is good. */
 export const statusColour = (s: FunnelStatus, c: Palette, higherIsBetter = false): string => {
@@ -45,7 +45,7 @@ const LABEL_GAP_PX = 16;
 
 /**
  * Funnel plot: a rate against volume, the group rate as a rule, the 95 % and 99.8 % limits as bands around it,
- * each point a dot coloured by where it falls, its label dodged so that near points' labels do not pile up (a
+ * each point a dot coloured by where it falls, its label spread apart so that near points' labels do not pile up (a
  * thin leader joins a moved label to its dot).
  */
 export function funnelChart(d: FunnelChartProps, c: Palette): Plot.PlotOptions {
@@ -59,7 +59,7 @@ export function funnelChart(d: FunnelChartProps, c: Palette): Plot.PlotOptions {
   const yMin = lowest > 0.3 ? Math.max(0, Math.floor(lowest * 100 - 5)) : 0;
   const xMax = Math.max(...d.points.map((p) => p.band?.to ?? p.x), ...d.limits.map((l) => l.n), 1);
   const gap = (LABEL_GAP_PX * (yMax - yMin)) / (HEIGHT - MARGIN_TOP - MARGIN_BOTTOM);
-  const labelYs = dodgeLabels(named.map((p) => ({ x: p.x, y: p.rate * 100 })), gap, xMax * 0.15, [yMin + gap / 2, yMax - gap / 2]);
+  const labelYs = spreadLabels(named.map((p) => ({ x: p.x, y: p.rate * 100 })), gap, xMax * 0.15, [yMin + gap / 2, yMax - gap / 2]);
   const labels = named.map((p, i) => ({ ...p, y: p.rate * 100, labelY: labelYs[i]! }));
   const moved = labels.filter((l) => Math.abs(l.labelY - l.y) > gap * 0.25);
   const colour = (p: FunnelChartPoint) => statusColour(p.status, c, d.higherIsBetter);

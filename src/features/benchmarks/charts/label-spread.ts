@@ -4,7 +4,7 @@
  * overlap (a one-dimensional relaxation, as force-directed label placement does), inside `bounds` (the plot's
  * y domain). Pure: data units in, out.
  */
-export function dodgeLabels(points: readonly { x: number; y: number }[], gap: number, nearX: number, bounds: readonly [number, number] = [-Infinity, Infinity], rounds = 400): number[] {
+export function spreadLabels(points: readonly { x: number; y: number }[], gap: number, nearX: number, bounds: readonly [number, number] = [-Infinity, Infinity], rounds = 400): number[] {
   const [lo, hi] = bounds;
   const clamp = (y: number) => Math.min(hi, Math.max(lo, y));
   const ys = points.map((p) => clamp(p.y));
