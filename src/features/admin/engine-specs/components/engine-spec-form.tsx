@@ -1,8 +1,8 @@
 import { useForm, type FieldPath } from "react-hook-form";
 import { fieldWords } from "@/components/ui/field-words";
+import { VersionSave } from "@/components/ui/version-save";
 import { zodResolver } from "@hookform/resolvers/zod";
 import { z } from "zod";
-import { ErrorNotice } from "@/components/ui/states";
 import { KPA_PER_PSI, kpaTo } from "@shared/format";
 import { engineSpecInputSchema, engineSpecSaveSchema, engineSpecUnits, type EngineSpecDetail } from "@shared/schemas/engine-specs";
 import { useSaveEngineSpec } from "../api/engine-spec-queries";
@@ -47,7 +47,8 @@ export function EngineSpecForm({ detail, onSaved }: { detail: EngineSpecDetail; 
   const save = useSaveEngineSpec();
   const unit = form.watch("spec.unit");
 
-  const { errorOf, fid, described, problem } = fieldWords(errors, "spec");
+  const words = fieldWords(errors, "spec");
+  const { errorOf, fid, described, problem } = words;
   const numberField = (f: Field, text: string, hint?: string, empty: "nan" | "null" = "nan") => (
     <div>
       <label htmlFor={fid(f)} className={label}>{text}</label>
@@ -102,18 +103,7 @@ export function EngineSpecForm({ detail, onSaved }: { detail: EngineSpecDetail; 
         </p>
         {problem("spec.source")}
       </div>
-      <div className="space-y-3">
-        <div>
-          <label htmlFor={fid("note")} className={label}>Why it changes</label>
-          <input id={fid("note")} {...form.register("note")} aria-invalid={!!errorOf("note")} aria-describedby={described("note", true)} className={input} />
-          <p id={`${fid("note")}-hint`} className="mt-1 text-xs text-muted">Kept with the version, for whoever reads the history.</p>
-          {problem("note")}
-        </div>
-        {save.error != null && <ErrorNotice error={save.error} />}
-        <button type="submit" disabled={save.isPending} className="rounded bg-accent px-4 py-2 text-sm font-semibold text-white disabled:opacity-50">
-          {c ? `Save as version ${c.version + 1}` : "Save as version 1"}
-        </button>
-      </div>
+      <VersionSave words={words} note={form.register("note")} error={save.error} pending={save.isPending} action={c ? `Save as version ${c.version + 1}` : "Save as version 1"} />
     </form>
   );
 }

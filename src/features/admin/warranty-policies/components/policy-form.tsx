@@ -1,8 +1,8 @@
 import { useForm, type FieldPath } from "react-hook-form";
 import { fieldWords } from "@/components/ui/field-words";
+import { VersionSave } from "@/components/ui/version-save";
 import { zodResolver } from "@hookform/resolvers/zod";
 import { z } from "zod";
-import { ErrorNotice } from "@/components/ui/states";
 import { coverageClasses, coverageClassWords, policySaveSchema, policyTermsSchema, type PolicyDetail } from "@shared/schemas/warranty-policies";
 import { useSavePolicy } from "../api/policy-queries";
 
@@ -36,7 +36,8 @@ export function PolicyForm({ detail, readOnly, onSaved }: Props) {
   const { errors } = form.formState;
   const save = useSavePolicy();
 
-  const { errorOf, fid, described, problem } = fieldWords(errors, "policy");
+  const words = fieldWords(errors, "policy");
+  const { errorOf, fid, described, problem } = words;
   const numberField = (f: Field, text: string, hint?: string) => (
     <div>
       <label htmlFor={fid(f)} className={label}>{text}</label>
@@ -99,18 +100,7 @@ export function PolicyForm({ detail, readOnly, onSaved }: Props) {
         </div>
       </fieldset>
       {!readOnly && (
-        <div className="space-y-3">
-          <div>
-            <label htmlFor={fid("note")} className={label}>Why it changes</label>
-            <input id={fid("note")} {...form.register("note")} aria-invalid={!!errorOf("note")} aria-describedby={described("note", true)} className={input} />
-            <p id={`${fid("note")}-hint`} className="mt-1 text-xs text-muted">Kept with the version, for whoever reads the history.</p>
-            {problem("note")}
-          </div>
-          {save.error != null && <ErrorNotice error={save.error} />}
-          <button type="submit" disabled={save.isPending} className="rounded bg-accent px-4 py-2 text-sm font-semibold text-white disabled:opacity-50">
-            {save.isPending ? "Saving…" : `Save as version ${detail.latestVersion + 1}`}
-          </button>
-        </div>
+        <VersionSave words={words} note={form.register("note")} error={save.error} pending={save.isPending} action={`Save as version ${detail.latestVersion + 1}`} />
       )}
     </form>
   );
