@@ -203,11 +203,17 @@ export function daysInclusive(from: string, to: string): number {
   return Math.round((Date.parse(`${to}T00:00:00Z`) - Date.parse(`${from}T00:00:00Z`)) / DAY) + 1;
 }
 
-/** The next winter season after the last day with data: 1 November → 31 March, starting after `dataEnd`. */
+/**
+ * The winter ahead of the last day with data: when the data ends inside a winter (1 November – 30 March), the
+ * rest of that winter, from the next day to 31 March (what a shop can still act on); otherwise the next
+ * 1 November → 31 March.
+ */
 export function nextSeason(dataEnd: string): { from: string; to: string } {
   const y = Number(dataEnd.slice(0, 4));
-  const start = dataEnd < `${y}-11-01` ? y : y + 1;
-  return { from: `${start}-11-01`, to: `${start + 1}-03-31` };
+  const md = dataEnd.slice(5);
+  if (md >= "11-01") return { from: addDays(dataEnd, 1), to: `${y + 1}-03-31` };
+  if (md < "03-31") return { from: addDays(dataEnd, 1), to: `${y}-03-31` };
+  return { from: `${y}-11-01`, to: `${y + 1}-03-31` };
 }
 
 /** The last complete 1 November → 31 March season that ends on or before `dataEnd`. */

@@ -5,7 +5,7 @@ const isoDate = z.iso.date({ error: "use a date like 2024-11-01" });
 /** GET /api/winter/forecast and GET /api/winter/backtest query. */
 export const winterForecastQuerySchema = z
   .object({
-    /** first day of the forecast period; default 1 November after the data's end */
+    /** first day of the forecast period; default the winter ahead of the data's end (server/analytics/winter-forecast.ts nextSeason) */
     from: isoDate.optional(),
     /** last day of the forecast period (inclusive); default 31 March after `from` */
     to: isoDate.optional(),

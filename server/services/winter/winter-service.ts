@@ -89,7 +89,7 @@ function groupBy<T>(items: readonly T[], key: (t: T) => string): Map<string, T[]
   return new Map([...out].sort((a, b) => a[0].localeCompare(b[0])));
 }
 
-/** The default period (the next 1 November – 31 March after the data's end) or the one asked for. */
+/** The default period (the winter ahead of the data's end: nextSeason) or the one asked for. */
 function periodOf(q: WinterForecastQuery, end: string): { from: string; to: string } {
   const season = nextSeason(end);
   const from = q.from ?? season.from;

@@ -139,9 +139,12 @@ describe("leadTimeSummary(days)", () => {
 });
 
 describe("seasons and dates", () => {
-  it("nextSeason(end) is the 1 November – 31 March after the data's end", () => {
+  it("nextSeason(end) is the 1 November – 31 March after the data's end, or the rest of the winter the data ends in", () => {
     expect(nextSeason("2025-06-30")).toEqual({ from: "2025-11-01", to: "2026-03-31" });
-    expect(nextSeason("2025-11-15")).toEqual({ from: "2026-11-01", to: "2027-03-31" });
+    expect(nextSeason("2025-03-31")).toEqual({ from: "2025-11-01", to: "2026-03-31" });
+    expect(nextSeason("2025-11-15")).toEqual({ from: "2025-11-16", to: "2026-03-31" });
+    expect(nextSeason("2026-12-31")).toEqual({ from: "2027-01-01", to: "2027-03-31" });
+    expect(nextSeason("2027-02-10")).toEqual({ from: "2027-02-11", to: "2027-03-31" });
   });
 
   it("lastCompleteSeason(end) is the last 1 November – 31 March that ended by the data's end", () => {

@@ -3,7 +3,7 @@ import { apiGet, apiSend } from "@/lib/api-client";
 import { z } from "zod";
 import { winterBacktestSchema, winterForecastSchema, winterStockSchema, type WinterStockInput } from "@shared/schemas/winter";
 
-/** The forecast's inputs as the page holds them; undefined leaves the server's default (next winter, 90 %). */
+/** The forecast's inputs as the page holds them; undefined leaves the server's default (the winter ahead, 90 %). */
 export interface ForecastParams {
   from?: string;
   to?: string;

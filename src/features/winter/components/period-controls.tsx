@@ -6,7 +6,7 @@ const inputClass = "mt-1 block w-40 rounded border border-line bg-white px-2 py-
 
 /**
  * The forecast period and service level, typed freely: the forecast's own rules check them and each problem is said
- * in words beside its field. Empty fields keep the defaults (next winter, 90 %).
+ * in words beside its field. Empty fields keep the defaults (the winter ahead, 90 %).
  */
 export function PeriodControls({ value, period, onApply }: { value: PeriodText; period: { from: string; to: string } | null; onApply: (p: ForecastParams, text: PeriodText) => void }) {
   const [text, setText] = useState<PeriodText>(value);
@@ -39,7 +39,7 @@ export function PeriodControls({ value, period, onApply }: { value: PeriodText; 
         if (r.params) onApply(r.params, text);
       }}
     >
-      {field("from", "Period from", period ? `Empty: next winter, from ${period.from}` : "Empty: next winter (1 November)")}
+      {field("from", "Period from", period ? `Empty: the winter ahead, from ${period.from}` : "Empty: the winter ahead")}
       {field("to", "Period to", period ? `Empty: to ${period.to}` : "Empty: 31 March after the start")}
       {field("serviceLevel", "Service level", "Chance the stock covers demand over the lead time, e.g. 90 %")}
       <button type="submit" className="mt-6 rounded bg-slate px-3 py-1.5 text-sm text-paper">Show forecast</button>
